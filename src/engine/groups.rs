@@ -1,0 +1,403 @@
+//! Finding the two groups in a table, with specific messages for every way it can fail.
+
+use super::protocol::{Layout, Request};
+use super::table::{Column, ColumnKind, Table, TableError};
+
+/// Two groups of numbers ready for analysis.
+#[derive(Clone, Debug)]
+pub struct TwoGroups {
+    pub names: [String; 2],
+    pub a: Vec<f64>,
+    pub b: Vec<f64>,
+    pub layout: Layout,
+    /// What the values are (the value column's name in long format).
+    pub value_label: String,
+    pub notes: Vec<String>,
+}
+
+fn err<T>(s: String) -> Result<T, TableError> {
+    Err(TableError(s))
+}
+
+fn quoted_list(items: &[String]) -> String {
+    items
+        .iter()
+        .map(|s| format!("\"{s}\""))
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
+fn lines_list(lines: &[u64]) -> String {
+    let shown: Vec<String> = lines.iter().take(5).map(|l| l.to_string()).collect();
+    let more = if lines.len() > 5 { ", …" } else { "" };
+    format!(
+        "line{} {}{more}",
+        if lines.len() > 1 { "s" } else { "" },
+        shown.join(", ")
+    )
+}
+
+/// Guesses the layout from the column types.
+pub fn detect_layout(table: &Table) -> Result<Layout, TableError> {
+    let numeric: Vec<&Column> = table
+        .columns
+        .iter()
+        .filter(|c| matches!(c.kind, ColumnKind::Number | ColumnKind::NumberWithText))
+        .collect();
+    let labels: Vec<&Column> = table
+        .columns
+        .iter()
+        .filter(|c| c.kind == ColumnKind::Label)
+        .collect();
+    match (numeric.len(), labels.len()) {
+        (0, _) => err(
+            "No column holds numbers. Paste the measurements themselves, one value per cell."
+                .into(),
+        ),
+        (1, 0) => err(format!(
+            "Only one column of numbers (\"{}\") and no column saying which group each row \
+             belongs to. Add a column of group labels, or put each group in its own column.",
+            numeric[0].name
+        )),
+        (_, 0) => Ok(Layout::Wide {
+            columns: vec![numeric[0].name.clone(), numeric[1].name.clone()],
+        }),
+        _ => Ok(Layout::Long {
+            value: numeric[0].name.clone(),
+            group: labels[0].name.clone(),
+        }),
+    }
+}
+
+/// Extracts the two groups the request asks for.
+pub fn two_groups(table: &Table, req: &Request) -> Result<TwoGroups, TableError> {
+    let layout = match &req.layout {
+        Layout::Detect => detect_layout(table)?,
+        l => l.clone(),
+    };
+    let mut notes = Vec::new();
+    let dc = table.decimal_comma;
+    let (names, a, b, value_label) = match &layout {
+        Layout::Detect => unreachable!("resolved above"),
+        Layout::Long { value, group } => {
+            if value == group {
+                return err(format!(
+                    "The same column (\"{value}\") was chosen for the values and the groups. \
+                     Choose a different column for each."
+                ));
+            }
+            let vcol = table.column(value)?;
+            let gcol = table.column(group)?;
+            let nums = vcol.numbers(dc)?;
+            if nums.missing > 0 {
+                notes.push(format!(
+                    "{} blank or NA cell{} in column \"{}\" {} left out.",
+                    nums.missing,
+                    plural(nums.missing),
+                    value,
+                    were(nums.missing)
+                ));
+            }
+            if nums.decimal_commas > 0 {
+                notes.push(format!(
+                    "{} value{} in column \"{}\" had a decimal comma, read as a decimal point.",
+                    nums.decimal_commas,
+                    plural(nums.decimal_commas),
+                    value
+                ));
+            }
+            // Group levels in order of first appearance.
+            let mut levels: Vec<String> = Vec::new();
+            let mut unlabelled: Vec<u64> = Vec::new();
+            let mut rows: Vec<(usize, f64)> = Vec::new();
+            for &(i, v) in &nums.values {
+                let label = gcol.cells[i].text.trim();
+                if label.is_empty() {
+                    unlabelled.push(gcol.cells[i].line);
+                    continue;
+                }
+                let li = match levels.iter().position(|l| l == label) {
+                    Some(li) => li,
+                    None => {
+                        levels.push(label.to_string());
+                        levels.len() - 1
+                    }
+                };
+                rows.push((li, v));
+            }
+            if !unlabelled.is_empty() {
+                notes.push(format!(
+                    "{} value{} with no group label in column \"{}\" {} left out ({}).",
+                    unlabelled.len(),
+                    plural(unlabelled.len()),
+                    group,
+                    were(unlabelled.len()),
+                    lines_list(&unlabelled)
+                ));
+            }
+            let (first, second) = match levels.len() {
+                0 => {
+                    return err(format!(
+                        "Column \"{group}\" has no group labels next to the values in \"{value}\"."
+                    ))
+                }
+                1 => {
+                    return err(format!(
+                        "Column \"{group}\" names only one group (\"{}\"); a comparison needs two.",
+                        levels[0]
+                    ))
+                }
+                2 => {
+                    let first = match &req.first {
+                        Some(f) => find_level(&levels, f, group)?,
+                        None => 0,
+                    };
+                    if let Some(s) = &req.second {
+                        let s = find_level(&levels, s, group)?;
+                        if s == first {
+                            return err(format!(
+                                "\"{}\" was chosen as both the first and the second group.",
+                                levels[s]
+                            ));
+                        }
+                    }
+                    (first, 1 - first)
+                }
+                _ => match (&req.first, &req.second) {
+                    (Some(f), Some(s)) => {
+                        let (f, s) = (
+                            find_level(&levels, f, group)?,
+                            find_level(&levels, s, group)?,
+                        );
+                        if f == s {
+                            return err(format!(
+                                "\"{}\" was chosen as both the first and the second group.",
+                                levels[f]
+                            ));
+                        }
+                        let others: Vec<String> = levels
+                            .iter()
+                            .enumerate()
+                            .filter(|(i, _)| *i != f && *i != s)
+                            .map(|(_, l)| l.clone())
+                            .collect();
+                        notes.push(format!(
+                            "Only \"{}\" and \"{}\" are compared; the other group{} ({}) {} left out.",
+                            levels[f],
+                            levels[s],
+                            plural(others.len()),
+                            quoted_list(&others),
+                            were(others.len())
+                        ));
+                        (f, s)
+                    }
+                    _ => {
+                        return err(format!(
+                            "Column \"{group}\" names {} groups ({}); this analysis compares two. \
+                             Choose the first and the second group to compare.",
+                            levels.len(),
+                            quoted_list(&levels)
+                        ))
+                    }
+                },
+            };
+            let a: Vec<f64> = rows.iter().filter(|r| r.0 == first).map(|r| r.1).collect();
+            let b: Vec<f64> = rows.iter().filter(|r| r.0 == second).map(|r| r.1).collect();
+            (
+                [levels[first].clone(), levels[second].clone()],
+                a,
+                b,
+                value.clone(),
+            )
+        }
+        Layout::Wide { columns } => {
+            if columns.len() != 2 {
+                return err(format!(
+                    "This analysis compares two groups, but {} columns were chosen ({}). Choose two.",
+                    columns.len(),
+                    quoted_list(columns)
+                ));
+            }
+            if columns[0] == columns[1] {
+                return err(format!(
+                    "The same column (\"{}\") was chosen for both groups.",
+                    columns[0]
+                ));
+            }
+            let mut order = [0usize, 1];
+            if let Some(f) = &req.first {
+                match columns.iter().position(|c| c == f) {
+                    Some(0) => {}
+                    Some(_) => order = [1, 0],
+                    None => {
+                        return err(format!(
+                            "\"{f}\" is not one of the chosen columns ({}).",
+                            quoted_list(columns)
+                        ))
+                    }
+                }
+            }
+            let mut groups = Vec::new();
+            for &i in &order {
+                let col = table.column(&columns[i])?;
+                let nums = col.numbers(dc)?;
+                if nums.missing > 0 {
+                    notes.push(format!(
+                        "{} blank or NA cell{} in column \"{}\" {} left out.",
+                        nums.missing,
+                        plural(nums.missing),
+                        col.name,
+                        were(nums.missing)
+                    ));
+                }
+                if nums.decimal_commas > 0 {
+                    notes.push(format!(
+                        "{} value{} in column \"{}\" had a decimal comma, read as a decimal point.",
+                        nums.decimal_commas,
+                        plural(nums.decimal_commas),
+                        col.name
+                    ));
+                }
+                groups.push(nums.values.into_iter().map(|v| v.1).collect::<Vec<f64>>());
+            }
+            let b = groups.pop().unwrap_or_default();
+            let a = groups.pop().unwrap_or_default();
+            (
+                [columns[order[0]].clone(), columns[order[1]].clone()],
+                a,
+                b,
+                "value".to_string(),
+            )
+        }
+    };
+    for (name, g) in names.iter().zip([&a, &b]) {
+        if g.len() < 2 {
+            return err(format!(
+                "Group \"{name}\" has {} value{}; each group needs at least 2 (at least 5 or so \
+                 for a permutation test to be able to show anything).",
+                g.len(),
+                plural(g.len())
+            ));
+        }
+    }
+    Ok(TwoGroups {
+        names,
+        a,
+        b,
+        layout,
+        value_label,
+        notes,
+    })
+}
+
+fn find_level(levels: &[String], wanted: &str, group: &str) -> Result<usize, TableError> {
+    levels.iter().position(|l| l == wanted).ok_or_else(|| {
+        TableError(format!(
+            "There is no group \"{wanted}\" in column \"{group}\"; its groups are {}.",
+            quoted_list(levels)
+        ))
+    })
+}
+
+pub fn plural(n: usize) -> &'static str {
+    if n == 1 {
+        ""
+    } else {
+        "s"
+    }
+}
+
+fn were(n: usize) -> &'static str {
+    if n == 1 {
+        "was"
+    } else {
+        "were"
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::engine::table::{parse, HeaderChoice};
+
+    fn req(text: &str) -> (Table, Request) {
+        (
+            parse(text, HeaderChoice::Detect).unwrap(),
+            Request::new(text.to_string(), 1),
+        )
+    }
+
+    #[test]
+    fn long_format_is_detected_with_blanks_noted() {
+        let (t, r) = req("yield,schedule\n4.1,drip\n3.9,drip\n,drip\n3.0,flood\n2.8,flood\n2.5,\n");
+        let g = two_groups(&t, &r).unwrap();
+        assert_eq!(g.names, ["drip".to_string(), "flood".to_string()]);
+        assert_eq!(g.a, vec![4.1, 3.9]);
+        assert_eq!(g.b, vec![3.0, 2.8]);
+        assert!(
+            g.notes
+                .iter()
+                .any(|n| n.contains("1 blank or NA cell in column \"yield\"")),
+            "{:?}",
+            g.notes
+        );
+        assert!(
+            g.notes.iter().any(|n| n.contains("line 7")),
+            "{:?}",
+            g.notes
+        );
+    }
+
+    #[test]
+    fn wide_format_with_unequal_lengths() {
+        let (t, mut r) = req("north,south\n1,2\n3,4\n5,\n");
+        r.first = Some("south".into());
+        let g = two_groups(&t, &r).unwrap();
+        assert_eq!(g.names[0], "south");
+        assert_eq!(g.a, vec![2.0, 4.0]);
+        assert_eq!(g.b, vec![1.0, 3.0, 5.0]);
+    }
+
+    #[test]
+    fn three_groups_need_a_choice() {
+        let (t, mut r) = req("y,g\n1,a\n2,a\n3,b\n4,b\n5,c\n6,c\n");
+        let e = two_groups(&t, &r).err().unwrap();
+        assert!(e.0.contains("3 groups (\"a\", \"b\", \"c\")"), "{e}");
+        r.first = Some("c".into());
+        r.second = Some("a".into());
+        let g = two_groups(&t, &r).unwrap();
+        assert_eq!(g.a, vec![5.0, 6.0]);
+        assert!(g.notes[0].contains("\"b\""));
+    }
+
+    #[test]
+    fn single_group_and_tiny_group_messages() {
+        let (t, r) = req("y,g\n1,a\n2,a\n");
+        assert!(two_groups(&t, &r)
+            .err()
+            .unwrap()
+            .0
+            .contains("only one group (\"a\")"));
+        let (t, r) = req("y,g\n1,a\n2,a\n3,b\n");
+        let e = two_groups(&t, &r).err().unwrap();
+        assert!(e.0.contains("Group \"b\" has 1 value;"), "{e}");
+    }
+
+    #[test]
+    fn one_numeric_column_only() {
+        let (t, r) = req("y\n1\n2\n3\n");
+        assert!(two_groups(&t, &r)
+            .err()
+            .unwrap()
+            .0
+            .contains("Only one column of numbers (\"y\")"));
+    }
+
+    #[test]
+    fn unknown_first_group() {
+        let (t, mut r) = req("y,g\n1,a\n2,a\n3,b\n4,b\n");
+        r.first = Some("z".into());
+        let e = two_groups(&t, &r).err().unwrap();
+        assert!(e.0.contains("no group \"z\""), "{e}");
+    }
+}

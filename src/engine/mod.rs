@@ -1,0 +1,17 @@
+//! The resampling engine: plain Rust, no web dependency.
+
+pub mod analysis;
+pub mod boot;
+pub mod classical;
+pub mod combin;
+pub mod finding;
+pub mod format;
+pub mod groups;
+pub mod perm;
+pub mod protocol;
+pub mod rng;
+pub mod stats;
+pub mod table;
+
+pub use analysis::{run, RunError};
+pub use protocol::{Report, Request};

@@ -1,0 +1,333 @@
+//! The one typed request/report protocol spoken by the page, the web worker and the native
+//! command. Everything the engine computes goes through [`crate::engine::run`].
+
+use serde::{Deserialize, Serialize};
+
+use super::table::HeaderChoice;
+
+/// Version of the request/report format. Bump on any incompatible change.
+pub const FORMAT_VERSION: u32 = 1;
+
+/// Engine version, reported with every result.
+pub const ENGINE_VERSION: &str = env!("CARGO_PKG_VERSION");
+
+/// Where the two groups are in the table.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "kind", rename_all = "kebab-case")]
+pub enum Layout {
+    /// Decide from the column types.
+    Detect,
+    /// One numeric column and one column of group labels.
+    Long { value: String, group: String },
+    /// One column per group.
+    Wide { columns: Vec<String> },
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Statistic {
+    MeanDifference,
+    MedianDifference,
+    TrimmedMeanDifference,
+    WelchT,
+}
+
+impl Statistic {
+    pub const ALL: [Statistic; 4] = [
+        Statistic::MeanDifference,
+        Statistic::MedianDifference,
+        Statistic::TrimmedMeanDifference,
+        Statistic::WelchT,
+    ];
+
+    pub fn key(self) -> &'static str {
+        match self {
+            Statistic::MeanDifference => "mean-difference",
+            Statistic::MedianDifference => "median-difference",
+            Statistic::TrimmedMeanDifference => "trimmed-mean-difference",
+            Statistic::WelchT => "welch-t",
+        }
+    }
+
+    pub fn from_key(s: &str) -> Option<Statistic> {
+        Statistic::ALL.into_iter().find(|x| x.key() == s)
+    }
+
+    pub fn label(self) -> &'static str {
+        match self {
+            Statistic::MeanDifference => "difference in means",
+            Statistic::MedianDifference => "difference in medians",
+            Statistic::TrimmedMeanDifference => "difference in 20% trimmed means",
+            Statistic::WelchT => "Welch t statistic",
+        }
+    }
+
+    /// The effect the confidence interval is for. For the Welch t statistic (a test
+    /// statistic, not an effect) the interval is for the difference in means.
+    pub fn effect(self) -> Statistic {
+        match self {
+            Statistic::WelchT => Statistic::MeanDifference,
+            s => s,
+        }
+    }
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Alternative {
+    TwoSided,
+    /// First group minus second group is positive.
+    Greater,
+    /// First group minus second group is negative.
+    Less,
+}
+
+impl Alternative {
+    pub fn key(self) -> &'static str {
+        match self {
+            Alternative::TwoSided => "two-sided",
+            Alternative::Greater => "greater",
+            Alternative::Less => "less",
+        }
+    }
+    pub fn from_key(s: &str) -> Option<Alternative> {
+        [
+            Alternative::TwoSided,
+            Alternative::Greater,
+            Alternative::Less,
+        ]
+        .into_iter()
+        .find(|x| x.key() == s)
+    }
+}
+
+/// How a two-sided p-value is defined.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum TwoSidedRule {
+    /// Count relabellings whose statistic is at least as far from zero as the observed one:
+    /// |T| >= |t|. The permutation null of each statistic here is centred at zero.
+    #[default]
+    Absolute,
+    /// Twice the smaller one-sided p-value, capped at 1.
+    DoubledTail,
+}
+
+impl TwoSidedRule {
+    pub fn key(self) -> &'static str {
+        match self {
+            TwoSidedRule::Absolute => "absolute",
+            TwoSidedRule::DoubledTail => "doubled-tail",
+        }
+    }
+    pub fn from_key(s: &str) -> Option<TwoSidedRule> {
+        [TwoSidedRule::Absolute, TwoSidedRule::DoubledTail]
+            .into_iter()
+            .find(|x| x.key() == s)
+    }
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum IntervalMethod {
+    Percentile,
+    Bca,
+}
+
+impl IntervalMethod {
+    pub fn key(self) -> &'static str {
+        match self {
+            IntervalMethod::Percentile => "percentile",
+            IntervalMethod::Bca => "bca",
+        }
+    }
+    pub fn from_key(s: &str) -> Option<IntervalMethod> {
+        [IntervalMethod::Percentile, IntervalMethod::Bca]
+            .into_iter()
+            .find(|x| x.key() == s)
+    }
+    pub fn label(self) -> &'static str {
+        match self {
+            IntervalMethod::Percentile => "percentile bootstrap",
+            IntervalMethod::Bca => "BCa bootstrap",
+        }
+    }
+}
+
+/// Everything needed to reproduce an analysis.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Request {
+    pub format_version: u32,
+    /// The table exactly as pasted or read from the file.
+    pub data: String,
+    #[serde(default)]
+    pub header: HeaderChoice,
+    pub layout: Layout,
+    /// The group that comes first (the statistic is first minus second). With a label
+    /// column of more than two groups, `first` and `second` pick the two to compare.
+    #[serde(default)]
+    pub first: Option<String>,
+    #[serde(default)]
+    pub second: Option<String>,
+    pub statistic: Statistic,
+    pub alternative: Alternative,
+    #[serde(default)]
+    pub two_sided: TwoSidedRule,
+    /// Random relabellings when enumeration is not feasible.
+    pub resamples: u64,
+    /// Enumerate every relabelling when there are at most this many.
+    pub exact_limit: u64,
+    pub bootstrap_resamples: u64,
+    pub confidence: f64,
+    pub interval: IntervalMethod,
+    pub seed: u64,
+}
+
+impl Request {
+    /// The defaults the page and the command start from.
+    pub fn new(data: String, seed: u64) -> Request {
+        Request {
+            format_version: FORMAT_VERSION,
+            data,
+            header: HeaderChoice::Detect,
+            layout: Layout::Detect,
+            first: None,
+            second: None,
+            statistic: Statistic::MeanDifference,
+            alternative: Alternative::TwoSided,
+            two_sided: TwoSidedRule::Absolute,
+            resamples: 100_000,
+            exact_limit: 1_000_000,
+            bootstrap_resamples: 10_000,
+            confidence: 0.95,
+            interval: IntervalMethod::Bca,
+            seed,
+        }
+    }
+}
+
+/// Upper limits that keep a run inside a browser tab's memory.
+pub const MAX_RESAMPLES: u64 = 10_000_000;
+pub const MAX_EXACT_LIMIT: u64 = 10_000_000;
+pub const MAX_BOOTSTRAP: u64 = 1_000_000;
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct GroupSummary {
+    pub name: String,
+    pub n: usize,
+    pub mean: f64,
+    pub median: f64,
+    pub sd: f64,
+    pub trimmed_mean: f64,
+    pub min: f64,
+    pub max: f64,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Interval {
+    pub low: Option<f64>,
+    pub high: Option<f64>,
+    pub level: f64,
+    pub method: String,
+    /// Why the interval is missing or should be read with care.
+    pub note: Option<String>,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct PInterval {
+    pub low: f64,
+    pub high: f64,
+    pub level: f64,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Welch {
+    pub mean_difference: f64,
+    pub t: Option<f64>,
+    pub df: Option<f64>,
+    pub p_value: Option<f64>,
+    pub ci: Interval,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct EffectSize {
+    pub name: String,
+    pub estimate: Option<f64>,
+    pub ci: Interval,
+}
+
+/// Equal-width histogram.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Histogram {
+    /// Bin edges, one more than the counts.
+    pub edges: Vec<f64>,
+    pub counts: Vec<u64>,
+}
+
+/// The part of the null distribution counted toward the p-value: values <= `low` and/or
+/// values >= `high`.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Tail {
+    pub low: Option<f64>,
+    pub high: Option<f64>,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Report {
+    pub format_version: u32,
+    pub engine_version: String,
+    pub design: String,
+    /// The layout actually used (after detection).
+    pub layout: Layout,
+    pub value_label: String,
+    pub groups: Vec<GroupSummary>,
+    /// What was left out or read specially (blank cells, decimal commas, other groups).
+    pub notes: Vec<String>,
+    pub statistic: Statistic,
+    pub statistic_label: String,
+    pub alternative: Alternative,
+    pub two_sided: TwoSidedRule,
+    pub observed: f64,
+    pub p_value: f64,
+    pub exact: bool,
+    /// Relabellings drawn (Monte Carlo) or enumerated (exact).
+    pub resamples: u64,
+    /// Relabellings at least as extreme as the observed one.
+    pub extreme_count: u64,
+    /// Monte Carlo standard error of the p-value (None when exact).
+    pub mc_se: Option<f64>,
+    /// 99% Clopper–Pearson interval for the p-value that unlimited relabellings would give.
+    pub p_interval: Option<PInterval>,
+    pub seed: u64,
+    pub rng: String,
+    pub effect_label: String,
+    pub effect: f64,
+    pub ci: Interval,
+    pub bootstrap_resamples: u64,
+    pub bootstrap_se: Option<f64>,
+    pub welch: Welch,
+    pub hedges_g: EffectSize,
+    pub null_histogram: Histogram,
+    pub tail: Tail,
+    pub bootstrap_histogram: Histogram,
+    pub finding: String,
+    pub cautions: Vec<String>,
+}
+
+/// A step of a long run, for progress display.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Progress {
+    pub stage: String,
+    pub done: u64,
+    pub total: u64,
+}
+
+/// Messages from the worker to the page.
+#[derive(Clone, Debug, Serialize, Deserialize)]
+#[serde(tag = "type", rename_all = "kebab-case")]
+pub enum WorkerMessage {
+    Progress(Progress),
+    Done { report: Box<Report> },
+    Failed { message: String },
+}
