@@ -241,13 +241,17 @@ pub fn two_groups(table: &Table, req: &Request) -> Result<TwoGroups, TableError>
             for &i in &order {
                 let col = table.column(&columns[i])?;
                 let nums = col.numbers(dc)?;
-                if nums.missing > 0 {
+                // Blank cells below a shorter column's last value are expected in wide
+                // format and not worth a note.
+                let last = nums.values.last().map_or(0, |v| v.0 + 1);
+                let inner = nums.missing - (col.cells.len() - last);
+                if inner > 0 {
                     notes.push(format!(
                         "{} blank or NA cell{} in column \"{}\" {} left out.",
-                        nums.missing,
-                        plural(nums.missing),
+                        inner,
+                        plural(inner),
                         col.name,
-                        were(nums.missing)
+                        were(inner)
                     ));
                 }
                 if nums.decimal_commas > 0 {

@@ -121,9 +121,9 @@ impl Setup {
                 let (sum, sq) = s.observed_set.iter().fold((0.0, 0.0), |(x, y), &i| {
                     (x + s.pool[i], y + s.pool[i] * s.pool[i])
                 });
-                s.from_sums(sum, sq)
+                s.stat_from_sums(sum, sq)
             }
-            _ => s.from_mask(&mask),
+            _ => s.stat_from_mask(&mask),
         };
         let scale = match statistic {
             Statistic::WelchT => 1.0f64.max(s.observed.abs()),
@@ -142,7 +142,7 @@ impl Setup {
 
     /// Statistic from the sum and sum of squares of the drawn set.
     #[inline]
-    fn from_sums(&self, drawn_sum: f64, drawn_sq: f64) -> f64 {
+    fn stat_from_sums(&self, drawn_sum: f64, drawn_sq: f64) -> f64 {
         let (s1, q1) = if self.drawn_is_first {
             (drawn_sum, drawn_sq)
         } else {
@@ -163,7 +163,7 @@ impl Setup {
     }
 
     /// Statistic from a mask over the sorted pool marking the drawn set.
-    fn from_mask(&self, drawn: &[bool]) -> f64 {
+    fn stat_from_mask(&self, drawn: &[bool]) -> f64 {
         let (n1, n2) = (self.n1, self.n2);
         let (want1, want2) = match self.statistic {
             Statistic::MedianDifference => ((n1 - 1) / 2..=n1 / 2, (n2 - 1) / 2..=n2 / 2),
@@ -215,12 +215,12 @@ impl Setup {
                     s += v;
                     q += v * v;
                 }
-                self.from_sums(s, q)
+                self.stat_from_sums(s, q)
             } else {
                 for &i in &perm[..self.k] {
                     mask[i] = true;
                 }
-                let t = self.from_mask(&mask);
+                let t = self.stat_from_mask(&mask);
                 for &i in &perm[..self.k] {
                     mask[i] = false;
                 }
@@ -261,9 +261,9 @@ impl Setup {
         let mut step: u64 = 0;
         loop {
             let t = if self.is_sum_based() {
-                self.from_sums(s, q)
+                self.stat_from_sums(s, q)
             } else {
-                self.from_mask(&mask)
+                self.stat_from_mask(&mask)
             };
             counts.record(t, obs, tol);
             values.push(t);

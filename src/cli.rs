@@ -1,0 +1,346 @@
+//! The native `reshuffle` command: the same request/report protocol as the page, for
+//! scripting and checking.
+
+use std::io::Read;
+
+use crate::engine::analysis::{self, RunError};
+use crate::engine::format as fmt;
+use crate::engine::protocol::*;
+use crate::engine::table::HeaderChoice;
+use crate::engine::{finding, perm, rng};
+
+const USAGE: &str = "\
+reshuffle: permutation tests and bootstrap intervals for two groups
+
+Usage:
+  reshuffle analyze FILE [options]     analyse a table (FILE may be - for standard input)
+  reshuffle bench                      compare the speed of the relabelling kernels
+  reshuffle help                       show this text
+
+Where the groups are (default: detected from the column types):
+  --value COL --group COL              long format: a numeric column and a label column
+  --columns A,B                        wide format: one column per group
+  --first LEVEL                        the group that comes first (statistic = first - second)
+  --second LEVEL                       with more than two labels: the other group to compare
+  --header detect|names|data           whether the first row holds column names
+
+The question:
+  --statistic mean-difference|median-difference|trimmed-mean-difference|welch-t
+  --alternative two-sided|greater|less (greater: first minus second is positive)
+  --two-sided absolute|doubled-tail    two-sided p: |T| >= |t| (default), or twice the smaller tail
+  --resamples N                        random relabellings (default 100000)
+  --exact-limit N                      enumerate all splits when there are at most N (default 1000000)
+  --bootstrap N                        bootstrap resamples (default 10000)
+  --interval percentile|bca            bootstrap interval method (default bca)
+  --confidence C                       confidence level (default 0.95)
+  --seed S                             seed (default: a fresh one, printed with the result)
+  --json                               print the report as one JSON object
+";
+
+/// Runs the command with its arguments (without the program name); returns the exit code.
+pub fn main_with(args: &[String], out: &mut dyn std::io::Write, err: &mut dyn std::io::Write) -> i32 {
+    let r = match args.first().map(String::as_str) {
+        Some("analyze") | Some("analyse") => analyze(&args[1..], out),
+        Some("bench") => bench(out),
+        Some("help") | Some("--help") | Some("-h") | None => {
+            let _ = out.write_all(USAGE.as_bytes());
+            Ok(())
+        }
+        Some("--version") => {
+            let _ = writeln!(out, "reshuffle {ENGINE_VERSION}");
+            Ok(())
+        }
+        Some(other) => Err(format!("Unknown command \"{other}\". Try: reshuffle help")),
+    };
+    match r {
+        Ok(()) => 0,
+        Err(m) => {
+            let _ = writeln!(err, "reshuffle: {m}");
+            2
+        }
+    }
+}
+
+fn parse_num<T: std::str::FromStr>(flag: &str, v: &str) -> Result<T, String> {
+    v.trim()
+        .replace('_', "")
+        .parse()
+        .map_err(|_| format!("{flag} needs a number, not \"{v}\"."))
+}
+
+/// Builds a request from the command line; `data` is the table text.
+pub fn request_from_args(args: &[String], data_from: &mut dyn FnMut(&str) -> Result<String, String>) -> Result<(Request, bool), String> {
+    let mut file: Option<String> = None;
+    let mut req = Request::new(String::new(), 0);
+    let mut seed: Option<u64> = None;
+    let (mut value, mut group, mut columns) = (None, None, None);
+    let mut json = false;
+    let mut i = 0;
+    while i < args.len() {
+        let a = args[i].as_str();
+        let mut val = || -> Result<String, String> {
+            i += 1;
+            args.get(i).cloned().ok_or_else(|| format!("{a} needs a value."))
+        };
+        match a {
+            "--json" => json = true,
+            "--value" => value = Some(val()?),
+            "--group" => group = Some(val()?),
+            "--columns" => {
+                columns = Some(val()?.split(',').map(|s| s.trim().to_string()).collect::<Vec<_>>())
+            }
+            "--first" => req.first = Some(val()?),
+            "--second" => req.second = Some(val()?),
+            "--header" => {
+                req.header = match val()?.as_str() {
+                    "detect" => HeaderChoice::Detect,
+                    "names" => HeaderChoice::Names,
+                    "data" => HeaderChoice::Data,
+                    o => return Err(format!("--header takes detect, names or data, not \"{o}\".")),
+                }
+            }
+            "--statistic" => {
+                let v = val()?;
+                req.statistic = Statistic::from_key(&v).ok_or_else(|| {
+                    format!(
+                        "--statistic takes {}, not \"{v}\".",
+                        Statistic::ALL.map(|s| s.key()).join(", ")
+                    )
+                })?
+            }
+            "--alternative" => {
+                let v = val()?;
+                req.alternative = Alternative::from_key(&v).ok_or_else(|| {
+                    format!("--alternative takes two-sided, greater or less, not \"{v}\".")
+                })?
+            }
+            "--two-sided" => {
+                let v = val()?;
+                req.two_sided = TwoSidedRule::from_key(&v).ok_or_else(|| {
+                    format!("--two-sided takes absolute or doubled-tail, not \"{v}\".")
+                })?
+            }
+            "--interval" => {
+                let v = val()?;
+                req.interval = IntervalMethod::from_key(&v)
+                    .ok_or_else(|| format!("--interval takes percentile or bca, not \"{v}\"."))?
+            }
+            "--resamples" => req.resamples = parse_num(a, &val()?)?,
+            "--bootstrap" => req.bootstrap_resamples = parse_num(a, &val()?)?,
+            "--exact-limit" => req.exact_limit = parse_num(a, &val()?)?,
+            "--confidence" => req.confidence = parse_num(a, &val()?)?,
+            "--seed" => seed = Some(parse_num(a, &val()?)?),
+            s if s.starts_with("--") => return Err(format!("Unknown option {s}. Try: reshuffle help")),
+            s => {
+                if file.is_some() {
+                    return Err(format!("Only one data file can be given (also got \"{s}\")."));
+                }
+                file = Some(s.to_string());
+            }
+        }
+        i += 1;
+    }
+    let file = file.ok_or("Name the data file (or - for standard input).")?;
+    req.data = data_from(&file)?;
+    req.layout = match (value, group, columns) {
+        (None, None, None) => Layout::Detect,
+        (Some(value), Some(group), None) => Layout::Long { value, group },
+        (None, None, Some(columns)) => Layout::Wide { columns },
+        (Some(_), None, None) | (None, Some(_), None) => {
+            return Err("Long format needs both --value and --group.".into())
+        }
+        _ => return Err("Use either --value with --group (long format) or --columns (wide format), not both.".into()),
+    };
+    req.seed = match seed {
+        Some(s) => s,
+        None => fresh_seed(),
+    };
+    Ok((req, json))
+}
+
+/// A seed from the operating system's randomness (via std's hasher keys) and the clock.
+pub fn fresh_seed() -> u64 {
+    use std::hash::{BuildHasher, Hasher};
+    let mut h = std::collections::hash_map::RandomState::new().build_hasher();
+    h.write_u128(
+        std::time::SystemTime::now()
+            .duration_since(std::time::UNIX_EPOCH)
+            .map(|d| d.as_nanos())
+            .unwrap_or(0),
+    );
+    rng::seed_from_entropy(h.finish())
+}
+
+fn read_data(file: &str) -> Result<String, String> {
+    if file == "-" {
+        let mut s = String::new();
+        std::io::stdin()
+            .read_to_string(&mut s)
+            .map_err(|e| format!("Could not read standard input: {e}"))?;
+        return Ok(s);
+    }
+    let bytes = std::fs::read(file).map_err(|e| format!("Could not read \"{file}\": {e}"))?;
+    String::from_utf8(bytes).map_err(|e| {
+        format!(
+            "\"{file}\" is not UTF-8 text (first bad byte at offset {}). Save it as UTF-8 (CSV UTF-8 in a spreadsheet).",
+            e.utf8_error().valid_up_to()
+        )
+    })
+}
+
+fn analyze(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> {
+    let (req, json) = request_from_args(args, &mut |f| read_data(f))?;
+    let report = analysis::run(&req, &mut |_| true).map_err(|e| match e {
+        RunError::Input(m) => m,
+        RunError::Cancelled => "stopped".into(),
+    })?;
+    let text = if json {
+        serde_json::to_string_pretty(&report).map_err(|e| e.to_string())? + "\n"
+    } else {
+        report_text(&report)
+    };
+    out.write_all(text.as_bytes()).map_err(|e| e.to_string())
+}
+
+/// The findings in words, as on the page.
+pub fn report_text(r: &Report) -> String {
+    let d = finding::effect_decimals(r);
+    let mut s = String::new();
+    s.push_str(&r.finding);
+    s.push_str("\n\n");
+    for n in &r.notes {
+        s.push_str(&format!("Note: {n}\n"));
+    }
+    if !r.notes.is_empty() {
+        s.push('\n');
+    }
+    s.push_str(&format!("{:<12} {:>6} {:>12} {:>12} {:>12} {:>12}\n", "group", "n", "mean", "median", "SD", "trim. mean"));
+    for g in &r.groups {
+        s.push_str(&format!(
+            "{:<12} {:>6} {:>12} {:>12} {:>12} {:>12}\n",
+            g.name,
+            g.n,
+            fmt::fixed(g.mean, d + 1),
+            fmt::fixed(g.median, d + 1),
+            fmt::fixed(g.sd, d + 1),
+            fmt::fixed(g.trimmed_mean, d + 1)
+        ));
+    }
+    s.push('\n');
+    s.push_str(&format!("Statistic: {} = {}\n", r.statistic_label, fmt::sig(r.observed)));
+    if r.exact {
+        s.push_str(&format!(
+            "p-value: {} (exact, all {} relabellings enumerated)\n",
+            fmt::p_number(r.p_value),
+            fmt::count(r.resamples)
+        ));
+    } else {
+        s.push_str(&format!(
+            "p-value: {:.5} (Monte Carlo, {} relabellings; MC standard error {:.5}",
+            r.p_value,
+            fmt::count(r.resamples),
+            r.mc_se.unwrap_or(0.0)
+        ));
+        if let Some(pi) = &r.p_interval {
+            s.push_str(&format!("; 99% interval {:.5} to {:.5}", pi.low, pi.high));
+        }
+        s.push_str(")\n");
+    }
+    match (r.ci.low, r.ci.high) {
+        (Some(l), Some(h)) => s.push_str(&format!(
+            "{} {}: {} {} ({}, {} resamples)\n",
+            r.effect_label,
+            fmt::fixed(r.effect, d),
+            fmt::percent(r.ci.level),
+            format_args!("CI [{}, {}]", fmt::fixed(l, d), fmt::fixed(h, d)),
+            r.ci.method,
+            fmt::count(r.bootstrap_resamples)
+        )),
+        _ => s.push_str(&format!("{} {}: no interval\n", r.effect_label, fmt::fixed(r.effect, d))),
+    }
+    if let Some(n) = &r.ci.note {
+        s.push_str(&format!("  ({n})\n"));
+    }
+    match (r.welch.t, r.welch.df, r.welch.p_value) {
+        (Some(t), Some(df), Some(p)) => {
+            s.push_str(&format!(
+                "Welch t-test (cross-check): t = {:.3}, df = {:.2}, p = {:.5}",
+                t, df, p
+            ));
+            if let (Some(l), Some(h)) = (r.welch.ci.low, r.welch.ci.high) {
+                s.push_str(&format!(", {}", fmt::ci(r.welch.ci.level, l, h, d)));
+            }
+            s.push('\n');
+        }
+        _ => s.push_str("Welch t-test (cross-check): undefined (no spread)\n"),
+    }
+    match r.hedges_g.estimate {
+        Some(g) => {
+            s.push_str(&format!("Hedges' g: {:.3}", g));
+            if let (Some(l), Some(h)) = (r.hedges_g.ci.low, r.hedges_g.ci.high) {
+                s.push_str(&format!(", {}", fmt::ci(r.hedges_g.ci.level, l, h, 3)));
+            }
+            s.push('\n');
+        }
+        None => s.push_str("Hedges' g: undefined (no spread)\n"),
+    }
+    s.push_str(&format!("Seed: {} ({})\n\n", r.seed, r.rng));
+    for c in &r.cautions {
+        s.push_str(&format!("- {c}\n"));
+    }
+    s
+}
+
+/// Speed of the relabelling kernels, side by side in one run (ratios, not absolute targets).
+fn bench(out: &mut dyn std::io::Write) -> Result<(), String> {
+    use std::time::Instant;
+    let mut s = rng::Stream::new(1, rng::Purpose::Permutation, 0);
+    let a: Vec<f64> = (0..24).map(|_| 10.0 + s.unit() * 3.0).collect();
+    let b: Vec<f64> = (0..20).map(|_| 9.5 + s.unit() * 3.0).collect();
+    let total: u64 = 1_000_000;
+    let mut lines = Vec::new();
+    let mut rates = Vec::new();
+    for st in [Statistic::MeanDifference, Statistic::WelchT, Statistic::MedianDifference] {
+        let setup = perm::Setup::new(st, &a, &b);
+        let t0 = Instant::now();
+        let (c, _) = analysis::random_blocks(&setup, 7, total, 0..rng::block_count(total), &mut |_| true)
+            .map_err(|e| e.to_string())?;
+        let secs = t0.elapsed().as_secs_f64();
+        rates.push(c.total as f64 / secs);
+        lines.push(format!("{:<28} {:>14.0} relabellings/s", format!("kernel, {}", st.key()), c.total as f64 / secs));
+    }
+    // Baseline: shuffle all 44 values and recompute both means, per relabelling.
+    let pooled: Vec<f64> = a.iter().chain(&b).copied().collect();
+    let t0 = Instant::now();
+    let mut x = pooled.clone();
+    let mut acc = 0.0;
+    let mut st = rng::Stream::new(7, rng::Purpose::Permutation, 0);
+    for _ in 0..total {
+        for i in (1..x.len()).rev() {
+            let j = st.below(i as u64 + 1) as usize;
+            x.swap(i, j);
+        }
+        let m1 = x[..24].iter().sum::<f64>() / 24.0;
+        let m2 = x[24..].iter().sum::<f64>() / 20.0;
+        acc += m1 - m2;
+    }
+    let base = total as f64 / t0.elapsed().as_secs_f64();
+    lines.push(format!("{:<28} {:>14.0} relabellings/s   (checksum {:.3})", "full shuffle, mean (baseline)", base, acc / total as f64));
+    // Exact enumeration rate: C(20, 10) = 184,756 splits.
+    let setup = perm::Setup::new(Statistic::MeanDifference, &a[..10], &b[..10]);
+    let t0 = Instant::now();
+    let (c, _) = setup.enumerate(u64::MAX, &mut |_| true).ok_or("stopped")?;
+    let exact = c.total as f64 / t0.elapsed().as_secs_f64();
+    lines.push(format!("{:<28} {:>14.0} splits/s", "enumeration, mean-difference", exact));
+    writeln!(out, "n = 24 + 20, {} relabellings per kernel\n", fmt::count(total)).map_err(|e| e.to_string())?;
+    for l in lines {
+        writeln!(out, "{l}").map_err(|e| e.to_string())?;
+    }
+    writeln!(
+        out,
+        "\nratio, partial-shuffle mean kernel / full-shuffle baseline: {:.2}",
+        rates[0] / base
+    )
+    .map_err(|e| e.to_string())?;
+    Ok(())
+}

@@ -1,0 +1,142 @@
+//! The native command: same protocol, JSON fields, errors on stderr with a non-zero exit.
+
+use std::process::Command;
+
+fn reshuffle(args: &[&str]) -> (i32, String, String) {
+    let out = Command::new(env!("CARGO_BIN_EXE_reshuffle"))
+        .args(args)
+        .current_dir(env!("CARGO_MANIFEST_DIR"))
+        .output()
+        .expect("run reshuffle");
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).into_owned(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}
+
+#[test]
+fn json_report_has_the_documented_fields() {
+    let (code, out, err) = reshuffle(&[
+        "analyze",
+        "tests/reference/data/sleep.csv",
+        "--value",
+        "extra",
+        "--group",
+        "group",
+        "--first",
+        "2",
+        "--seed",
+        "5",
+        "--bootstrap",
+        "2000",
+        "--json",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    for key in [
+        "observed",
+        "p_value",
+        "exact",
+        "resamples",
+        "seed",
+        "rng",
+        "ci",
+        "welch",
+        "groups",
+    ] {
+        assert!(v.get(key).is_some(), "missing {key}");
+    }
+    for key in ["low", "high", "level", "method"] {
+        assert!(v["ci"].get(key).is_some(), "ci.{key}");
+    }
+    for key in ["t", "df", "p_value"] {
+        assert!(v["welch"].get(key).is_some(), "welch.{key}");
+    }
+    assert_eq!(v["groups"][0]["name"], "2");
+    assert_eq!(v["groups"][0]["n"], 10);
+    assert_eq!(v["seed"], 5);
+    // sleep, group 2 minus group 1: exact two-sided p by enumeration is 0.0814 (see
+    // tests/reference/expected.json, numpy computed).
+    assert_eq!(v["exact"], true);
+    assert!((v["p_value"].as_f64().unwrap() - 0.08144796380090498).abs() < 1e-12);
+    // Welch t for group 2 minus group 1 is +1.8608 (scipy 1.17.1 computed).
+    assert!((v["welch"]["t"].as_f64().unwrap() - 1.8608134674868526).abs() < 1e-9);
+}
+
+#[test]
+fn same_seed_gives_identical_json_and_text_mentions_groups() {
+    let args = [
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--seed",
+        "77",
+        "--resamples",
+        "5000",
+        "--bootstrap",
+        "1000",
+        "--json",
+    ];
+    let (_, a, _) = reshuffle(&args);
+    let (_, b, _) = reshuffle(&args);
+    assert_eq!(a, b);
+    let (code, text, _) = reshuffle(&args[..args.len() - 1]);
+    assert_eq!(code, 0);
+    assert!(
+        text.contains("drip") && text.contains("sprinkler"),
+        "{text}"
+    );
+    assert!(text.contains("random relabellings"), "{text}");
+}
+
+#[test]
+fn wide_format_and_errors() {
+    let (code, out, err) = reshuffle(&[
+        "analyze",
+        "demo-data/service-desk-minutes.tsv",
+        "--columns",
+        "north_desk,harbour_desk",
+        "--statistic",
+        "welch-t",
+        "--seed",
+        "1",
+        "--resamples",
+        "2000",
+        "--bootstrap",
+        "500",
+        "--json",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["groups"][1]["n"], 17);
+    let notes = v["notes"].as_array().unwrap();
+    assert!(
+        !notes.iter().any(|n| n.as_str().unwrap().contains("blank")),
+        "trailing blanks need no note: {notes:?}"
+    );
+
+    let (code, out, err) = reshuffle(&[
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--statistic",
+        "average",
+    ]);
+    assert_ne!(code, 0);
+    assert!(out.is_empty());
+    assert!(err.contains("--statistic takes"), "{err}");
+
+    let (code, _, err) = reshuffle(&["analyze", "no-such-file.csv"]);
+    assert_ne!(code, 0);
+    assert!(err.contains("no-such-file.csv"), "{err}");
+
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--value",
+        "yield_kg",
+        "--group",
+        "colour",
+    ]);
+    assert_ne!(code, 0);
+    assert!(err.contains("no column named \"colour\""), "{err}");
+}
