@@ -38,7 +38,11 @@ The question:
 ";
 
 /// Runs the command with its arguments (without the program name); returns the exit code.
-pub fn main_with(args: &[String], out: &mut dyn std::io::Write, err: &mut dyn std::io::Write) -> i32 {
+pub fn main_with(
+    args: &[String],
+    out: &mut dyn std::io::Write,
+    err: &mut dyn std::io::Write,
+) -> i32 {
     let r = match args.first().map(String::as_str) {
         Some("analyze") | Some("analyse") => analyze(&args[1..], out),
         Some("bench") => bench(out),
@@ -69,7 +73,10 @@ fn parse_num<T: std::str::FromStr>(flag: &str, v: &str) -> Result<T, String> {
 }
 
 /// Builds a request from the command line; `data` is the table text.
-pub fn request_from_args(args: &[String], data_from: &mut dyn FnMut(&str) -> Result<String, String>) -> Result<(Request, bool), String> {
+pub fn request_from_args(
+    args: &[String],
+    data_from: &mut dyn FnMut(&str) -> Result<String, String>,
+) -> Result<(Request, bool), String> {
     let mut file: Option<String> = None;
     let mut req = Request::new(String::new(), 0);
     let mut seed: Option<u64> = None;
@@ -80,14 +87,21 @@ pub fn request_from_args(args: &[String], data_from: &mut dyn FnMut(&str) -> Res
         let a = args[i].as_str();
         let mut val = || -> Result<String, String> {
             i += 1;
-            args.get(i).cloned().ok_or_else(|| format!("{a} needs a value."))
+            args.get(i)
+                .cloned()
+                .ok_or_else(|| format!("{a} needs a value."))
         };
         match a {
             "--json" => json = true,
             "--value" => value = Some(val()?),
             "--group" => group = Some(val()?),
             "--columns" => {
-                columns = Some(val()?.split(',').map(|s| s.trim().to_string()).collect::<Vec<_>>())
+                columns = Some(
+                    val()?
+                        .split(',')
+                        .map(|s| s.trim().to_string())
+                        .collect::<Vec<_>>(),
+                )
             }
             "--first" => req.first = Some(val()?),
             "--second" => req.second = Some(val()?),
@@ -96,7 +110,11 @@ pub fn request_from_args(args: &[String], data_from: &mut dyn FnMut(&str) -> Res
                     "detect" => HeaderChoice::Detect,
                     "names" => HeaderChoice::Names,
                     "data" => HeaderChoice::Data,
-                    o => return Err(format!("--header takes detect, names or data, not \"{o}\".")),
+                    o => {
+                        return Err(format!(
+                            "--header takes detect, names or data, not \"{o}\"."
+                        ))
+                    }
                 }
             }
             "--statistic" => {
@@ -130,10 +148,14 @@ pub fn request_from_args(args: &[String], data_from: &mut dyn FnMut(&str) -> Res
             "--exact-limit" => req.exact_limit = parse_num(a, &val()?)?,
             "--confidence" => req.confidence = parse_num(a, &val()?)?,
             "--seed" => seed = Some(parse_num(a, &val()?)?),
-            s if s.starts_with("--") => return Err(format!("Unknown option {s}. Try: reshuffle help")),
+            s if s.starts_with("--") => {
+                return Err(format!("Unknown option {s}. Try: reshuffle help"))
+            }
             s => {
                 if file.is_some() {
-                    return Err(format!("Only one data file can be given (also got \"{s}\")."));
+                    return Err(format!(
+                        "Only one data file can be given (also got \"{s}\")."
+                    ));
                 }
                 file = Some(s.to_string());
             }
@@ -149,7 +171,10 @@ pub fn request_from_args(args: &[String], data_from: &mut dyn FnMut(&str) -> Res
         (Some(_), None, None) | (None, Some(_), None) => {
             return Err("Long format needs both --value and --group.".into())
         }
-        _ => return Err("Use either --value with --group (long format) or --columns (wide format), not both.".into()),
+        _ => return Err(
+            "Use either --value with --group (long format) or --columns (wide format), not both."
+                .into(),
+        ),
     };
     req.seed = match seed {
         Some(s) => s,
@@ -214,7 +239,10 @@ pub fn report_text(r: &Report) -> String {
     if !r.notes.is_empty() {
         s.push('\n');
     }
-    s.push_str(&format!("{:<12} {:>6} {:>12} {:>12} {:>12} {:>12}\n", "group", "n", "mean", "median", "SD", "trim. mean"));
+    s.push_str(&format!(
+        "{:<12} {:>6} {:>12} {:>12} {:>12} {:>12}\n",
+        "group", "n", "mean", "median", "SD", "trim. mean"
+    ));
     for g in &r.groups {
         s.push_str(&format!(
             "{:<12} {:>6} {:>12} {:>12} {:>12} {:>12}\n",
@@ -227,7 +255,11 @@ pub fn report_text(r: &Report) -> String {
         ));
     }
     s.push('\n');
-    s.push_str(&format!("Statistic: {} = {}\n", r.statistic_label, fmt::sig(r.observed)));
+    s.push_str(&format!(
+        "Statistic: {} = {}\n",
+        r.statistic_label,
+        fmt::sig(r.observed)
+    ));
     if r.exact {
         s.push_str(&format!(
             "p-value: {} (exact, all {} relabellings enumerated)\n",
@@ -256,7 +288,11 @@ pub fn report_text(r: &Report) -> String {
             r.ci.method,
             fmt::count(r.bootstrap_resamples)
         )),
-        _ => s.push_str(&format!("{} {}: no interval\n", r.effect_label, fmt::fixed(r.effect, d))),
+        _ => s.push_str(&format!(
+            "{} {}: no interval\n",
+            r.effect_label,
+            fmt::fixed(r.effect, d)
+        )),
     }
     if let Some(n) = &r.ci.note {
         s.push_str(&format!("  ({n})\n"));
@@ -300,14 +336,23 @@ fn bench(out: &mut dyn std::io::Write) -> Result<(), String> {
     let total: u64 = 1_000_000;
     let mut lines = Vec::new();
     let mut rates = Vec::new();
-    for st in [Statistic::MeanDifference, Statistic::WelchT, Statistic::MedianDifference] {
+    for st in [
+        Statistic::MeanDifference,
+        Statistic::WelchT,
+        Statistic::MedianDifference,
+    ] {
         let setup = perm::Setup::new(st, &a, &b);
         let t0 = Instant::now();
-        let (c, _) = analysis::random_blocks(&setup, 7, total, 0..rng::block_count(total), &mut |_| true)
-            .map_err(|e| e.to_string())?;
+        let (c, _) =
+            analysis::random_blocks(&setup, 7, total, 0..rng::block_count(total), &mut |_| true)
+                .map_err(|e| e.to_string())?;
         let secs = t0.elapsed().as_secs_f64();
         rates.push(c.total as f64 / secs);
-        lines.push(format!("{:<28} {:>14.0} relabellings/s", format!("kernel, {}", st.key()), c.total as f64 / secs));
+        lines.push(format!(
+            "{:<28} {:>14.0} relabellings/s",
+            format!("kernel, {}", st.key()),
+            c.total as f64 / secs
+        ));
     }
     // Baseline: shuffle all 44 values and recompute both means, per relabelling.
     let pooled: Vec<f64> = a.iter().chain(&b).copied().collect();
@@ -325,14 +370,27 @@ fn bench(out: &mut dyn std::io::Write) -> Result<(), String> {
         acc += m1 - m2;
     }
     let base = total as f64 / t0.elapsed().as_secs_f64();
-    lines.push(format!("{:<28} {:>14.0} relabellings/s   (checksum {:.3})", "full shuffle, mean (baseline)", base, acc / total as f64));
+    lines.push(format!(
+        "{:<28} {:>14.0} relabellings/s   (checksum {:.3})",
+        "full shuffle, mean (baseline)",
+        base,
+        acc / total as f64
+    ));
     // Exact enumeration rate: C(20, 10) = 184,756 splits.
     let setup = perm::Setup::new(Statistic::MeanDifference, &a[..10], &b[..10]);
     let t0 = Instant::now();
     let (c, _) = setup.enumerate(u64::MAX, &mut |_| true).ok_or("stopped")?;
     let exact = c.total as f64 / t0.elapsed().as_secs_f64();
-    lines.push(format!("{:<28} {:>14.0} splits/s", "enumeration, mean-difference", exact));
-    writeln!(out, "n = 24 + 20, {} relabellings per kernel\n", fmt::count(total)).map_err(|e| e.to_string())?;
+    lines.push(format!(
+        "{:<28} {:>14.0} splits/s",
+        "enumeration, mean-difference", exact
+    ));
+    writeln!(
+        out,
+        "n = 24 + 20, {} relabellings per kernel\n",
+        fmt::count(total)
+    )
+    .map_err(|e| e.to_string())?;
     for l in lines {
         writeln!(out, "{l}").map_err(|e| e.to_string())?;
     }

@@ -8,6 +8,7 @@ pub mod finding;
 pub mod format;
 pub mod groups;
 pub mod perm;
+pub mod plot;
 pub mod protocol;
 pub mod rng;
 pub mod stats;

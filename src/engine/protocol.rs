@@ -327,7 +327,13 @@ pub struct Progress {
 #[derive(Clone, Debug, Serialize, Deserialize)]
 #[serde(tag = "type", rename_all = "kebab-case")]
 pub enum WorkerMessage {
+    /// The worker has loaded and takes requests.
+    Ready,
     Progress(Progress),
-    Done { report: Box<Report> },
-    Failed { message: String },
+    Done {
+        report: Box<Report>,
+    },
+    Failed {
+        message: String,
+    },
 }

@@ -1,0 +1,339 @@
+//! SVG figures as text: the relabelling (null) distribution and the bootstrap distribution.
+//! Plain Rust, so the page, a saved report and the tests all draw the same figure. Every
+//! piece of text from the data (group and column names) is XML-escaped.
+
+use super::format as fmt;
+use super::protocol::{Histogram, Report};
+
+/// Bars of the part not counted toward p / outside the interval.
+pub const BODY: &str = "#3f5f8f";
+/// Bars counted toward p (also hatched, so colour is not the only cue).
+pub const TAIL: &str = "#b3461f";
+/// Lines and text.
+pub const INK: &str = "#1f2328";
+pub const GRID: &str = "#d0d4da";
+/// Bars outside the bootstrap interval (3.6:1 against white).
+pub const OUTSIDE: &str = "#7b8494";
+
+const W: f64 = 640.0;
+const H: f64 = 300.0;
+const LEFT: f64 = 64.0;
+const RIGHT: f64 = 20.0;
+const TOP: f64 = 50.0;
+const BOTTOM: f64 = 58.0;
+
+/// Escapes text for XML content and attribute values.
+pub fn escape(s: &str) -> String {
+    let mut out = String::with_capacity(s.len());
+    for c in s.chars() {
+        match c {
+            '&' => out.push_str("&amp;"),
+            '<' => out.push_str("&lt;"),
+            '>' => out.push_str("&gt;"),
+            '"' => out.push_str("&quot;"),
+            '\'' => out.push_str("&#39;"),
+            c if (c as u32) < 0x20 && c != '\n' && c != '\t' => {}
+            c => out.push(c),
+        }
+    }
+    out
+}
+
+/// Round tick positions covering [lo, hi] with about `target` steps of 1, 2 or 5 × 10^k.
+pub fn nice_ticks(lo: f64, hi: f64, target: usize) -> Vec<f64> {
+    if hi <= lo || !lo.is_finite() || !hi.is_finite() {
+        return vec![lo];
+    }
+    let raw = (hi - lo) / target.max(1) as f64;
+    let mag = 10f64.powf(raw.log10().floor());
+    let step = [1.0, 2.0, 5.0, 10.0]
+        .iter()
+        .map(|m| m * mag)
+        .find(|s| *s >= raw)
+        .unwrap_or(10.0 * mag);
+    let start = (lo / step).ceil() as i64;
+    let end = (hi / step).floor() as i64;
+    (start..=end).map(|i| i as f64 * step).collect()
+}
+
+fn tick_label(v: f64, step: f64) -> String {
+    let dec = if step >= 1.0 {
+        0
+    } else {
+        (-step.log10().floor()) as usize
+    };
+    fmt::fixed(v, dec)
+}
+
+struct Frame {
+    lo: f64,
+    hi: f64,
+    ymax: f64,
+}
+
+impl Frame {
+    fn x(&self, v: f64) -> f64 {
+        LEFT + (v - self.lo) / (self.hi - self.lo) * (W - LEFT - RIGHT)
+    }
+    fn y(&self, c: f64) -> f64 {
+        H - BOTTOM - c / self.ymax * (H - TOP - BOTTOM)
+    }
+}
+
+/// A vertical marker line with a label above the plot area.
+fn marker(out: &mut String, f: &Frame, v: f64, label: &str, dashed: bool, anchor_right: bool) {
+    if !v.is_finite() {
+        return;
+    }
+    let x = f.x(v.clamp(f.lo, f.hi));
+    out.push_str(&format!(
+        r#"<line x1="{x:.1}" x2="{x:.1}" y1="{:.1}" y2="{:.1}" stroke="{INK}" stroke-width="2"{}/>"#,
+        TOP - 6.0,
+        H - BOTTOM,
+        if dashed { r#" stroke-dasharray="5 3""# } else { "" }
+    ));
+    out.push_str(&format!(
+        r#"<text x="{:.1}" y="{:.1}" font-size="12" fill="{INK}" text-anchor="{}">{}</text>"#,
+        if anchor_right { x - 4.0 } else { x + 4.0 },
+        TOP - 10.0,
+        if anchor_right { "end" } else { "start" },
+        escape(label)
+    ));
+}
+
+fn axes(out: &mut String, f: &Frame, xlabel: &str, ylabel: &str) {
+    let (x0, x1, y0) = (LEFT, W - RIGHT, H - BOTTOM);
+    // y grid and labels
+    for t in nice_ticks(0.0, f.ymax, 4) {
+        let y = f.y(t);
+        out.push_str(&format!(
+            r#"<line x1="{x0}" x2="{x1}" y1="{y:.1}" y2="{y:.1}" stroke="{GRID}" stroke-width="1"/><text x="{:.1}" y="{:.1}" font-size="11" fill="{INK}" text-anchor="end">{}</text>"#,
+            x0 - 6.0,
+            y + 4.0,
+            fmt::count(t.round() as u64)
+        ));
+    }
+    out.push_str(&format!(
+        r#"<line x1="{x0}" x2="{x1}" y1="{y0}" y2="{y0}" stroke="{INK}" stroke-width="1"/>"#
+    ));
+    let ticks = nice_ticks(f.lo, f.hi, 6);
+    let step = if ticks.len() > 1 {
+        ticks[1] - ticks[0]
+    } else {
+        1.0
+    };
+    for t in ticks {
+        let x = f.x(t);
+        out.push_str(&format!(
+            r#"<line x1="{x:.1}" x2="{x:.1}" y1="{y0}" y2="{:.1}" stroke="{INK}"/><text x="{x:.1}" y="{:.1}" font-size="11" fill="{INK}" text-anchor="middle">{}</text>"#,
+            y0 + 5.0,
+            y0 + 18.0,
+            tick_label(t, step)
+        ));
+    }
+    out.push_str(&format!(
+        r#"<text x="{:.1}" y="{:.1}" font-size="12" fill="{INK}" text-anchor="middle">{}</text>"#,
+        (x0 + x1) / 2.0,
+        H - 14.0,
+        escape(xlabel)
+    ));
+    out.push_str(&format!(
+        r#"<text transform="translate(14 {:.1}) rotate(-90)" font-size="12" fill="{INK}" text-anchor="middle">{}</text>"#,
+        (TOP + y0) / 2.0,
+        escape(ylabel)
+    ));
+}
+
+fn open(out: &mut String, id: &str, title: &str, desc: &str) {
+    out.push_str(&format!(
+        r#"<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 {W} {H}" width="100%" role="img" aria-labelledby="{id}-title {id}-desc" font-family="system-ui, sans-serif"><title id="{id}-title">{}</title><desc id="{id}-desc">{}</desc><defs><pattern id="{id}-hatch" patternUnits="userSpaceOnUse" width="6" height="6" patternTransform="rotate(45)"><rect width="6" height="6" fill="{TAIL}"/><line x1="0" y1="0" x2="0" y2="6" stroke="white" stroke-width="1.5" stroke-opacity="0.55"/></pattern></defs><rect width="{W}" height="{H}" fill="white"/>"#,
+        escape(title),
+        escape(desc)
+    ));
+}
+
+fn bars(
+    out: &mut String,
+    f: &Frame,
+    h: &Histogram,
+    fills: (&str, &str),
+    highlighted: &dyn Fn(f64) -> bool,
+) {
+    for (i, &c) in h.counts.iter().enumerate() {
+        if c == 0 {
+            continue;
+        }
+        let (a, b) = (h.edges[i], h.edges[i + 1]);
+        let mid = 0.5 * (a + b);
+        let (x0, x1) = (f.x(a), f.x(b));
+        let y = f.y(c as f64);
+        let fill = if highlighted(mid) { fills.0 } else { fills.1 };
+        out.push_str(&format!(
+            r#"<rect x="{:.2}" y="{y:.2}" width="{:.2}" height="{:.2}" fill="{fill}"/>"#,
+            x0 + 0.5,
+            (x1 - x0 - 1.0).max(0.5),
+            (H - BOTTOM - y).max(0.0)
+        ));
+    }
+}
+
+fn legend(out: &mut String, items: &[(&str, &str)]) {
+    let mut x = LEFT;
+    let y = 6.0;
+    for (label, fill) in items {
+        out.push_str(&format!(
+            r#"<rect x="{x:.1}" y="{y}" width="12" height="12" fill="{fill}"/><text x="{:.1}" y="{:.1}" font-size="12" fill="{INK}">{}</text>"#,
+            x + 16.0,
+            y + 10.5,
+            escape(label)
+        ));
+        x += 28.0 + 6.6 * label.chars().count() as f64;
+    }
+}
+
+fn frame(h: &Histogram) -> Option<Frame> {
+    if h.counts.is_empty() {
+        return None;
+    }
+    Some(Frame {
+        lo: h.edges[0],
+        hi: h.edges[h.edges.len() - 1],
+        ymax: (*h.counts.iter().max().unwrap_or(&1)).max(1) as f64 * 1.08,
+    })
+}
+
+/// Short text alternative of the relabelling plot.
+pub fn null_description(r: &Report) -> String {
+    let kind = if r.exact { "all possible" } else { "random" };
+    format!(
+        "Histogram of the {} over {} {kind} relabellings of the groups. The observed value, {}, \
+         is marked with a dashed line; the hatched bars are the relabellings counted toward the \
+         p-value ({} of {}, {}).",
+        r.statistic_label,
+        fmt::count(r.resamples),
+        fmt::sig(r.observed),
+        fmt::count(r.extreme_count),
+        fmt::count(r.resamples),
+        fmt::p_value(r.p_value)
+    )
+}
+
+/// The relabelling (null) distribution with the observed value and the tail counted toward p.
+pub fn null_svg(r: &Report, id: &str) -> String {
+    let mut out = String::new();
+    let title = format!(
+        "What relabelling gives: the {} when group labels are shuffled",
+        r.statistic_label
+    );
+    open(&mut out, id, &title, &null_description(r));
+    if let Some(f) = frame(&r.null_histogram) {
+        let hatch = format!("url(#{id}-hatch)");
+        legend(
+            &mut out,
+            &[("counted toward p", &hatch), ("other relabellings", BODY)],
+        );
+        let (lo, hi) = (r.tail.low, r.tail.high);
+        let hl = move |m: f64| lo.is_some_and(|l| m <= l) || hi.is_some_and(|h| m >= h);
+        bars(&mut out, &f, &r.null_histogram, (&hatch, BODY), &hl);
+        axes(
+            &mut out,
+            &f,
+            &format!("{} under relabelling", r.statistic_label),
+            "relabellings",
+        );
+        marker(
+            &mut out,
+            &f,
+            r.observed,
+            &format!("observed {}", fmt::sig(r.observed)),
+            true,
+            r.observed > 0.5 * (f.lo + f.hi),
+        );
+    }
+    out.push_str("</svg>");
+    out
+}
+
+pub fn bootstrap_description(r: &Report) -> String {
+    match (r.ci.low, r.ci.high) {
+        (Some(l), Some(h)) => format!(
+            "Histogram of the {} over {} bootstrap resamples. The estimate, {}, is marked with a \
+             solid line; the {} interval runs from {} to {} (dark bars, between the dashed lines).",
+            r.effect_label,
+            fmt::count(r.bootstrap_resamples),
+            fmt::sig(r.effect),
+            fmt::percent(r.ci.level),
+            fmt::sig(l),
+            fmt::sig(h)
+        ),
+        _ => format!(
+            "Histogram of the {} over {} bootstrap resamples; no interval could be formed.",
+            r.effect_label,
+            fmt::count(r.bootstrap_resamples)
+        ),
+    }
+}
+
+/// The bootstrap distribution of the effect with its confidence interval.
+pub fn bootstrap_svg(r: &Report, id: &str) -> String {
+    let mut out = String::new();
+    let title = format!("Bootstrap distribution of the {}", r.effect_label);
+    open(&mut out, id, &title, &bootstrap_description(r));
+    if let Some(f) = frame(&r.bootstrap_histogram) {
+        let inside_label = format!("inside the {} interval", fmt::percent(r.ci.level));
+        legend(&mut out, &[(&inside_label, BODY), ("outside", OUTSIDE)]);
+        let (lo, hi) = (r.ci.low, r.ci.high);
+        let inside = move |m: f64| matches!((lo, hi), (Some(l), Some(h)) if m >= l && m <= h);
+        bars(
+            &mut out,
+            &f,
+            &r.bootstrap_histogram,
+            (BODY, OUTSIDE),
+            &inside,
+        );
+        axes(
+            &mut out,
+            &f,
+            &format!("{} in bootstrap resamples", r.effect_label),
+            "resamples",
+        );
+        if let (Some(l), Some(h)) = (lo, hi) {
+            marker(&mut out, &f, l, &format!("{} low", fmt::sig(l)), true, true);
+            marker(
+                &mut out,
+                &f,
+                h,
+                &format!("{} high", fmt::sig(h)),
+                true,
+                false,
+            );
+        }
+        let x = f.x(r.effect.clamp(f.lo, f.hi));
+        out.push_str(&format!(
+            r#"<line x1="{x:.1}" x2="{x:.1}" y1="{TOP}" y2="{:.1}" stroke="{INK}" stroke-width="2.5"/>"#,
+            H - BOTTOM
+        ));
+    }
+    out.push_str("</svg>");
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn ticks_are_round() {
+        assert_eq!(
+            nice_ticks(0.0, 10.0, 5),
+            vec![0.0, 2.0, 4.0, 6.0, 8.0, 10.0]
+        );
+        let t = nice_ticks(-0.93, 0.87, 6);
+        assert!(t.contains(&0.0) || t.iter().any(|v| v.abs() < 1e-12));
+    }
+
+    #[test]
+    fn hostile_text_is_escaped() {
+        assert_eq!(escape("<script>&\"'"), "&lt;script&gt;&amp;&quot;&#39;");
+    }
+}

@@ -1,0 +1,869 @@
+//! The page: three steps (the data, the question, the findings). It parses the pasted table
+//! for the preview with the engine's own reader, builds a protocol request, hands it to the
+//! web worker, and renders the report. Nothing is computed here that the engine computes.
+
+use std::cell::RefCell;
+
+use leptos::prelude::*;
+use wasm_bindgen::prelude::*;
+use wasm_bindgen::JsCast;
+
+use crate::engine::finding;
+use crate::engine::format as fmt;
+use crate::engine::groups;
+use crate::engine::plot;
+use crate::engine::protocol::*;
+use crate::engine::table::{self, ColumnKind, HeaderChoice};
+
+/// Invented example tables, built into the page so it works without fetching anything.
+const EXAMPLES: [(&str, &str, &str); 2] = [
+    (
+        "tomato",
+        "Tomato yield, drip vs sprinkler irrigation (invented)",
+        include_str!("../../demo-data/tomato-irrigation.csv"),
+    ),
+    (
+        "desks",
+        "Minutes per ticket at two service desks (invented)",
+        include_str!("../../demo-data/service-desk-minutes.tsv"),
+    ),
+];
+
+/// Script that starts the worker (written by Trunk's loader shim for the `worker` program).
+const WORKER_URL: &str = "./worker_loader.js";
+
+const MAX_FILE_BYTES: f64 = 20.0 * 1024.0 * 1024.0;
+
+#[derive(Clone, Debug, PartialEq)]
+enum Status {
+    Idle,
+    Starting,
+    Running {
+        stage: String,
+        done: u64,
+        total: u64,
+    },
+    Failed(String),
+    Stopped,
+    Done,
+}
+
+/// Signals the worker callbacks write to.
+#[derive(Clone, Copy)]
+struct Sinks {
+    status: RwSignal<Status>,
+    report: RwSignal<Option<Report>>,
+}
+
+struct WorkerHandle {
+    worker: web_sys::Worker,
+    ready: bool,
+    pending: Option<String>,
+    _on_message: Closure<dyn FnMut(web_sys::MessageEvent)>,
+    _on_error: Closure<dyn FnMut(web_sys::Event)>,
+}
+
+thread_local! {
+    static WORKER: RefCell<Option<WorkerHandle>> = const { RefCell::new(None) };
+}
+
+fn spawn_worker(sinks: Sinks) -> Result<(), String> {
+    let opts = web_sys::WorkerOptions::new();
+    opts.set_type(web_sys::WorkerType::Classic);
+    let worker = web_sys::Worker::new_with_options(WORKER_URL, &opts)
+        .map_err(|e| format!("The computing worker could not be started ({e:?})."))?;
+    let on_message =
+        Closure::<dyn FnMut(web_sys::MessageEvent)>::new(move |ev: web_sys::MessageEvent| {
+            let text = ev.data().as_string().unwrap_or_default();
+            match serde_json::from_str::<WorkerMessage>(&text) {
+                Ok(WorkerMessage::Ready) => {
+                    let pending = WORKER.with(|w| {
+                        let mut w = w.borrow_mut();
+                        w.as_mut().and_then(|h| {
+                            h.ready = true;
+                            h.pending.take().map(|p| (h.worker.clone(), p))
+                        })
+                    });
+                    if let Some((worker, p)) = pending {
+                        let _ = worker.post_message(&JsValue::from_str(&p));
+                    }
+                }
+                Ok(WorkerMessage::Progress(p)) => sinks.status.set(Status::Running {
+                    stage: p.stage,
+                    done: p.done,
+                    total: p.total,
+                }),
+                Ok(WorkerMessage::Done { report }) => {
+                    sinks.report.set(Some(*report));
+                    sinks.status.set(Status::Done);
+                }
+                Ok(WorkerMessage::Failed { message }) => sinks.status.set(Status::Failed(message)),
+                Err(e) => sinks.status.set(Status::Failed(format!(
+                    "The worker sent a message that could not be read ({e})."
+                ))),
+            }
+        });
+    let on_error = Closure::<dyn FnMut(web_sys::Event)>::new(move |ev: web_sys::Event| {
+        ev.prevent_default();
+        let detail = ev
+            .dyn_ref::<web_sys::ErrorEvent>()
+            .map(|e| e.message())
+            .unwrap_or_default();
+        sinks.status.set(Status::Failed(format!(
+            "The computation stopped unexpectedly{}. Your data and settings are unchanged; \
+             try again, or with fewer resamples.",
+            if detail.is_empty() {
+                String::new()
+            } else {
+                format!(" ({detail})")
+            }
+        )));
+        // A crashed worker cannot be reused.
+        WORKER.with(|w| {
+            if let Some(h) = w.borrow_mut().take() {
+                h.worker.terminate();
+            }
+        });
+    });
+    worker.set_onmessage(Some(on_message.as_ref().unchecked_ref()));
+    worker.set_onerror(Some(on_error.as_ref().unchecked_ref()));
+    WORKER.with(|w| {
+        *w.borrow_mut() = Some(WorkerHandle {
+            worker,
+            ready: false,
+            pending: None,
+            _on_message: on_message,
+            _on_error: on_error,
+        })
+    });
+    Ok(())
+}
+
+fn send_to_worker(sinks: Sinks, text: String) -> Result<(), String> {
+    if WORKER.with(|w| w.borrow().is_none()) {
+        spawn_worker(sinks)?;
+    }
+    WORKER.with(|w| {
+        let mut w = w.borrow_mut();
+        if let Some(h) = w.as_mut() {
+            if h.ready {
+                let _ = h.worker.post_message(&JsValue::from_str(&text));
+            } else {
+                h.pending = Some(text);
+            }
+        }
+    });
+    Ok(())
+}
+
+fn stop_worker() {
+    WORKER.with(|w| {
+        if let Some(h) = w.borrow_mut().take() {
+            h.worker.terminate();
+        }
+    });
+}
+
+/// A fresh seed from the browser's cryptographic generator, below 2^53.
+fn fresh_seed() -> u64 {
+    let mut bytes = [0u8; 8];
+    let ok = web_sys::window()
+        .and_then(|w| w.crypto().ok())
+        .map(|c| c.get_random_values_with_u8_array(&mut bytes).is_ok())
+        .unwrap_or(false);
+    let raw = if ok {
+        u64::from_le_bytes(bytes)
+    } else {
+        (js_sys::Math::random() * 9007199254740992.0) as u64
+    };
+    crate::engine::rng::seed_from_entropy(raw)
+}
+
+/// What the preview shows of a parsed table.
+#[derive(Clone, Debug, PartialEq)]
+struct TableView {
+    columns: Vec<(String, ColumnKind)>,
+    preview: Vec<Vec<String>>,
+    rows: usize,
+    delimiter: &'static str,
+    header: bool,
+}
+
+fn kind_label(k: &ColumnKind) -> &'static str {
+    match k {
+        ColumnKind::Number => "numbers",
+        ColumnKind::NumberWithText => "numbers, some text",
+        ColumnKind::Label => "labels",
+        ColumnKind::Empty => "empty",
+    }
+}
+
+fn parse_count(label: &str, text: &str) -> Result<u64, String> {
+    let cleaned: String = text
+        .chars()
+        .filter(|c| !matches!(c, ',' | '_' | ' '))
+        .collect();
+    cleaned
+        .parse::<u64>()
+        .map_err(|_| format!("{label}: \"{text}\" is not a whole number."))
+}
+
+#[component]
+fn App() -> impl IntoView {
+    // Step 1: the data.
+    let data = RwSignal::new(EXAMPLES[0].2.to_string());
+    let example = RwSignal::new(EXAMPLES[0].0.to_string());
+    let header = RwSignal::new(HeaderChoice::Detect);
+    let file_note = RwSignal::new(String::new());
+    let layout_kind = RwSignal::new("long".to_string());
+    let value_col = RwSignal::new(String::new());
+    let group_col = RwSignal::new(String::new());
+    let col_a = RwSignal::new(String::new());
+    let col_b = RwSignal::new(String::new());
+    // Step 2: the question.
+    let first = RwSignal::new(String::new());
+    let second = RwSignal::new(String::new());
+    let statistic = RwSignal::new(Statistic::MeanDifference);
+    let alternative = RwSignal::new(Alternative::TwoSided);
+    let two_sided = RwSignal::new(TwoSidedRule::Absolute);
+    let interval = RwSignal::new(IntervalMethod::Bca);
+    let resamples = RwSignal::new("100000".to_string());
+    let exact_limit = RwSignal::new("1000000".to_string());
+    let bootstrap = RwSignal::new("10000".to_string());
+    let confidence = RwSignal::new("95".to_string());
+    let seed = RwSignal::new(String::new());
+    let settings_error = RwSignal::new(String::new());
+    // Step 3: the findings.
+    let status = RwSignal::new(Status::Idle);
+    let report = RwSignal::new(None::<Report>);
+    let last_request = RwSignal::new(None::<Request>);
+    let sinks = Sinks { status, report };
+
+    let parsed = Memo::new(move |_| {
+        table::parse(&data.get(), header.get())
+            .map(|t| TableView {
+                columns: t
+                    .columns
+                    .iter()
+                    .map(|c| (c.name.clone(), c.kind.clone()))
+                    .collect(),
+                preview: (0..t.rows.min(6))
+                    .map(|r| t.columns.iter().map(|c| c.cells[r].text.clone()).collect())
+                    .collect(),
+                rows: t.rows,
+                delimiter: table::delimiter_name(t.delimiter),
+                header: t.header,
+            })
+            .map_err(|e| e.0)
+    });
+
+    // Choose sensible columns whenever the table changes and the choice no longer fits.
+    Effect::new(move |_| {
+        let Ok(view) = parsed.get() else { return };
+        let names: Vec<String> = view.columns.iter().map(|c| c.0.clone()).collect();
+        let fits = match layout_kind.get_untracked().as_str() {
+            "long" => {
+                names.contains(&value_col.get_untracked())
+                    && names.contains(&group_col.get_untracked())
+            }
+            _ => names.contains(&col_a.get_untracked()) && names.contains(&col_b.get_untracked()),
+        };
+        if fits {
+            return;
+        }
+        if let Ok(t) = table::parse(&data.get_untracked(), header.get_untracked()) {
+            match groups::detect_layout(&t) {
+                Ok(Layout::Long { value, group }) => {
+                    layout_kind.set("long".into());
+                    value_col.set(value);
+                    group_col.set(group);
+                }
+                Ok(Layout::Wide { columns }) => {
+                    layout_kind.set("wide".into());
+                    col_a.set(columns[0].clone());
+                    col_b.set(columns[1].clone());
+                }
+                _ => {
+                    // Leave the choice to the user; pre-fill with the first columns.
+                    value_col.set(names.first().cloned().unwrap_or_default());
+                    group_col.set(names.get(1).cloned().unwrap_or_default());
+                    col_a.set(names.first().cloned().unwrap_or_default());
+                    col_b.set(names.get(1).cloned().unwrap_or_default());
+                }
+            }
+        }
+    });
+
+    // The groups on offer: labels of the group column, or the two chosen columns.
+    let levels = Memo::new(move |_| -> Vec<String> {
+        if layout_kind.get() == "wide" {
+            return vec![col_a.get(), col_b.get()];
+        }
+        let Ok(t) = table::parse(&data.get(), header.get()) else {
+            return vec![];
+        };
+        let Some(col) = t.columns.iter().find(|c| c.name == group_col.get()) else {
+            return vec![];
+        };
+        let mut out: Vec<String> = Vec::new();
+        for c in &col.cells {
+            let l = c.text.trim();
+            if !l.is_empty() && !out.iter().any(|o| o == l) {
+                out.push(l.to_string());
+            }
+            if out.len() > 50 {
+                break;
+            }
+        }
+        out
+    });
+    Effect::new(move |_| {
+        let lv = levels.get();
+        if lv.is_empty() {
+            return;
+        }
+        if !lv.contains(&first.get_untracked()) {
+            first.set(lv[0].clone());
+        }
+        let f = first.get_untracked();
+        let s = second.get_untracked();
+        if !lv.contains(&s) || s == f {
+            if let Some(other) = lv.iter().find(|l| **l != f) {
+                second.set(other.clone());
+            }
+        }
+    });
+
+    let build_request = move |seed_value: u64| -> Result<Request, String> {
+        let mut r = Request::new(data.get_untracked(), seed_value);
+        r.header = header.get_untracked();
+        r.layout = if layout_kind.get_untracked() == "long" {
+            Layout::Long {
+                value: value_col.get_untracked(),
+                group: group_col.get_untracked(),
+            }
+        } else {
+            Layout::Wide {
+                columns: vec![col_a.get_untracked(), col_b.get_untracked()],
+            }
+        };
+        r.first = Some(first.get_untracked()).filter(|s| !s.is_empty());
+        r.second = Some(second.get_untracked())
+            .filter(|s| !s.is_empty() && layout_kind.get_untracked() == "long");
+        r.statistic = statistic.get_untracked();
+        r.alternative = alternative.get_untracked();
+        r.two_sided = two_sided.get_untracked();
+        r.interval = interval.get_untracked();
+        r.resamples = parse_count("Random relabellings", &resamples.get_untracked())?;
+        r.exact_limit = parse_count("Enumerate all splits up to", &exact_limit.get_untracked())?;
+        r.bootstrap_resamples = parse_count("Bootstrap resamples", &bootstrap.get_untracked())?;
+        let c = confidence.get_untracked();
+        let level: f64 = c
+            .trim()
+            .trim_end_matches('%')
+            .replace(',', ".")
+            .parse()
+            .map_err(|_| {
+                format!(
+                    "Confidence level: \"{c}\" is not a number; write it as a percentage, e.g. 95."
+                )
+            })?;
+        r.confidence = if level > 1.0 { level / 100.0 } else { level };
+        Ok(r)
+    };
+
+    let run = move || {
+        settings_error.set(String::new());
+        let seed_text = seed.get_untracked();
+        let seed_value = if seed_text.trim().is_empty() {
+            let s = fresh_seed();
+            seed.set(s.to_string());
+            s
+        } else {
+            match parse_count("Seed", &seed_text) {
+                Ok(s) => s,
+                Err(e) => {
+                    settings_error.set(e);
+                    return;
+                }
+            }
+        };
+        let req = match build_request(seed_value) {
+            Ok(r) => r,
+            Err(e) => {
+                settings_error.set(e);
+                return;
+            }
+        };
+        let text = match serde_json::to_string(&req) {
+            Ok(t) => t,
+            Err(e) => {
+                settings_error.set(format!("The settings could not be encoded ({e})."));
+                return;
+            }
+        };
+        last_request.set(Some(req));
+        status.set(Status::Starting);
+        if let Err(e) = send_to_worker(sinks, text) {
+            status.set(Status::Failed(e));
+        }
+    };
+    let stop = move || {
+        stop_worker();
+        status.set(Status::Stopped);
+    };
+
+    let running =
+        Memo::new(move |_| matches!(status.get(), Status::Starting | Status::Running { .. }));
+    // Whether the shown result still matches the settings on screen.
+    let stale = Memo::new(move |_| {
+        let Some(last) = last_request.get() else {
+            return false;
+        };
+        let _ = (
+            data.get(),
+            header.get(),
+            layout_kind.get(),
+            value_col.get(),
+            group_col.get(),
+            col_a.get(),
+            col_b.get(),
+            first.get(),
+            second.get(),
+            statistic.get(),
+            alternative.get(),
+            two_sided.get(),
+            interval.get(),
+            resamples.get(),
+            exact_limit.get(),
+            bootstrap.get(),
+            confidence.get(),
+        );
+        let s = parse_count("Seed", &seed.get()).unwrap_or(last.seed);
+        match build_request(s) {
+            Ok(now) => now != last,
+            Err(_) => true,
+        }
+    });
+
+    let load_text = move |text: String, note: String| {
+        data.set(text);
+        file_note.set(note);
+        example.set(String::new());
+    };
+
+    let on_drop = move |ev: web_sys::DragEvent| {
+        ev.prevent_default();
+        let Some(dt) = ev.data_transfer() else { return };
+        let Some(files) = dt.files() else { return };
+        if let Some(file) = files.get(0) {
+            read_file(file, load_text, file_note);
+        }
+    };
+
+    let column_options = move || parsed.get().map(|v| v.columns).unwrap_or_default();
+
+    view! {
+        <header class="masthead">
+            <h1>"Reshuffle"</h1>
+            <p class="tagline">"Compare two groups by relabelling and resampling — computed in this browser tab."</p>
+        </header>
+        <main>
+            <section class="step" aria-labelledby="step-data">
+                <h2 id="step-data"><span class="step-no">"1"</span>" The data"</h2>
+                <p class="privacy">
+                    "Your data stays on this computer: it is read and analysed inside this page, and nothing is uploaded."
+                </p>
+                <div class="data-inputs">
+                    <label for="example">"Start from an example"</label>
+                    <select id="example" on:change=move |ev| {
+                        let key = event_target_value(&ev);
+                        if let Some(ex) = EXAMPLES.iter().find(|e| e.0 == key) {
+                            data.set(ex.2.to_string());
+                            file_note.set(String::new());
+                        }
+                        example.set(key);
+                    }>
+                        <option value="" selected=move || example.get().is_empty()>"(your own data)"</option>
+                        {EXAMPLES.iter().map(|(key, label, _)| {
+                            let key = key.to_string();
+                            let k2 = key.clone();
+                            view! { <option value=key selected=move || example.get() == k2>{*label}</option> }
+                        }).collect_view()}
+                    </select>
+                    <label class="file-pick">
+                        "Open a file (.csv, .tsv, .txt)"
+                        <input type="file" accept=".csv,.tsv,.txt,text/csv,text/plain,text/tab-separated-values"
+                            on:change=move |ev| {
+                                let input: web_sys::HtmlInputElement = event_target(&ev);
+                                if let Some(file) = input.files().and_then(|f| f.get(0)) {
+                                    read_file(file, load_text, file_note);
+                                }
+                                input.set_value("");
+                            }/>
+                    </label>
+                </div>
+                <label for="data" class="block-label">"Paste a table here (from a spreadsheet, or comma-, semicolon- or tab-separated text), or drop a file on it"</label>
+                <textarea id="data" rows="10" spellcheck="false"
+                    prop:value=move || data.get()
+                    on:input=move |ev| { data.set(event_target_value(&ev)); example.set(String::new()); }
+                    on:dragover=move |ev: web_sys::DragEvent| ev.prevent_default()
+                    on:drop=on_drop></textarea>
+                <p class="file-note" aria-live="polite">{move || file_note.get()}</p>
+                <div class="row">
+                    <label for="header">"First row"</label>
+                    <select id="header" on:change=move |ev| header.set(match event_target_value(&ev).as_str() {
+                        "names" => HeaderChoice::Names,
+                        "data" => HeaderChoice::Data,
+                        _ => HeaderChoice::Detect,
+                    })>
+                        <option value="detect">"decide from the data"</option>
+                        <option value="names">"holds column names"</option>
+                        <option value="data">"holds data"</option>
+                    </select>
+                </div>
+                {move || match parsed.get() {
+                    Err(e) => view! { <p class="error" role="alert" id="data-error">{e}</p> }.into_any(),
+                    Ok(v) => view! {
+                        <div class="preview" id="preview">
+                            <p class="meta">{format!("{} rows, {} columns, {}-separated{}.", v.rows, v.columns.len(), v.delimiter,
+                                if v.header { ", names from the first row" } else { "" })}</p>
+                            <div class="table-scroll" tabindex="0" role="region" aria-label="Preview of the table">
+                            <table>
+                                <thead>
+                                    <tr>{v.columns.iter().map(|(n, _)| view! { <th scope="col">{n.clone()}</th> }).collect_view()}</tr>
+                                    <tr class="kinds">{v.columns.iter().map(|(_, k)| view! { <td>{kind_label(k)}</td> }).collect_view()}</tr>
+                                </thead>
+                                <tbody>
+                                    {v.preview.iter().map(|r| view! {
+                                        <tr>{r.iter().map(|c| view! { <td>{c.clone()}</td> }).collect_view()}</tr>
+                                    }).collect_view()}
+                                </tbody>
+                            </table>
+                            </div>
+                        </div>
+                    }.into_any(),
+                }}
+                <fieldset class="layout">
+                    <legend>"Where are the groups?"</legend>
+                    <label class="choice">
+                        <input type="radio" name="layout" value="long" prop:checked=move || layout_kind.get() == "long"
+                            on:change=move |_| layout_kind.set("long".into())/>
+                        "One column of values and one column naming each row's group"
+                    </label>
+                    <label class="choice">
+                        <input type="radio" name="layout" value="wide" prop:checked=move || layout_kind.get() == "wide"
+                            on:change=move |_| layout_kind.set("wide".into())/>
+                        "Each group in its own column"
+                    </label>
+                    {move || if layout_kind.get() == "long" {
+                        view! {
+                            <div class="row">
+                                <label for="value-col">"Values"</label>
+                                <ColumnSelect id="value-col" options=Signal::derive(column_options) chosen=value_col/>
+                                <label for="group-col">"Groups"</label>
+                                <ColumnSelect id="group-col" options=Signal::derive(column_options) chosen=group_col/>
+                            </div>
+                        }.into_any()
+                    } else {
+                        view! {
+                            <div class="row">
+                                <label for="col-a">"Group column"</label>
+                                <ColumnSelect id="col-a" options=Signal::derive(column_options) chosen=col_a/>
+                                <label for="col-b">"and"</label>
+                                <ColumnSelect id="col-b" options=Signal::derive(column_options) chosen=col_b/>
+                            </div>
+                        }.into_any()
+                    }}
+                </fieldset>
+            </section>
+
+            <section class="step" aria-labelledby="step-question">
+                <h2 id="step-question"><span class="step-no">"2"</span>" The question"</h2>
+                <div class="row">
+                    <label for="first">"Compare"</label>
+                    <select id="first" on:change=move |ev| first.set(event_target_value(&ev))>
+                        {move || levels.get().into_iter().map(|l| {
+                            let (l2, l3) = (l.clone(), l.clone());
+                            view! { <option value=l3 selected=move || first.get() == l2>{l}</option> }
+                        }).collect_view()}
+                    </select>
+                    <label for="second">"with"</label>
+                    <select id="second" on:change=move |ev| second.set(event_target_value(&ev))>
+                        {move || levels.get().into_iter().filter(|l| *l != first.get()).map(|l| {
+                            let (l2, l3) = (l.clone(), l.clone());
+                            view! { <option value=l3 selected=move || second.get() == l2>{l}</option> }
+                        }).collect_view()}
+                    </select>
+                </div>
+                <div class="row">
+                    <label for="statistic">"Measure the difference by"</label>
+                    <select id="statistic" on:change=move |ev| {
+                        if let Some(s) = Statistic::from_key(&event_target_value(&ev)) { statistic.set(s) }
+                    }>
+                        <option value="mean-difference">"difference in means"</option>
+                        <option value="median-difference">"difference in medians"</option>
+                        <option value="trimmed-mean-difference">"difference in 20% trimmed means"</option>
+                        <option value="welch-t">"Welch t (allows unequal spreads)"</option>
+                    </select>
+                </div>
+                <fieldset>
+                    <legend>"Which answer are you after?"</legend>
+                    {move || {
+                        let (f, s) = (first.get(), second.get());
+                        [
+                            (Alternative::TwoSided, format!("Do {f} and {s} differ, in either direction?")),
+                            (Alternative::Greater, format!("Is {f} higher than {s}?")),
+                            (Alternative::Less, format!("Is {f} lower than {s}?")),
+                        ].into_iter().map(|(alt, text)| view! {
+                            <label class="choice">
+                                <input type="radio" name="alternative" value=alt.key()
+                                    prop:checked=move || alternative.get() == alt
+                                    on:change=move |_| alternative.set(alt)/>
+                                {text}
+                            </label>
+                        }).collect_view()
+                    }}
+                </fieldset>
+                <details class="settings">
+                    <summary>"Resampling settings"</summary>
+                    <div class="grid">
+                        <label for="resamples">"Random relabellings"</label>
+                        <input id="resamples" inputmode="numeric" prop:value=move || resamples.get()
+                            on:input=move |ev| resamples.set(event_target_value(&ev))/>
+                        <label for="exact-limit">"Enumerate every split when there are at most"</label>
+                        <input id="exact-limit" inputmode="numeric" prop:value=move || exact_limit.get()
+                            on:input=move |ev| exact_limit.set(event_target_value(&ev))/>
+                        <label for="bootstrap">"Bootstrap resamples"</label>
+                        <input id="bootstrap" inputmode="numeric" prop:value=move || bootstrap.get()
+                            on:input=move |ev| bootstrap.set(event_target_value(&ev))/>
+                        <label for="confidence">"Confidence level (%)"</label>
+                        <input id="confidence" inputmode="decimal" prop:value=move || confidence.get()
+                            on:input=move |ev| confidence.set(event_target_value(&ev))/>
+                        <label for="interval">"Interval method"</label>
+                        <select id="interval" on:change=move |ev| {
+                            if let Some(m) = IntervalMethod::from_key(&event_target_value(&ev)) { interval.set(m) }
+                        }>
+                            <option value="bca">"BCa (bias-corrected and accelerated)"</option>
+                            <option value="percentile">"percentile"</option>
+                        </select>
+                        <label for="two-sided">"Two-sided p-value"</label>
+                        <select id="two-sided" on:change=move |ev| {
+                            if let Some(m) = TwoSidedRule::from_key(&event_target_value(&ev)) { two_sided.set(m) }
+                        }>
+                            <option value="absolute">"count |relabelled| ≥ |observed|"</option>
+                            <option value="doubled-tail">"twice the smaller one-sided p"</option>
+                        </select>
+                        <label for="seed">"Seed (blank: a new one)"</label>
+                        <div class="seed-row">
+                            <input id="seed" inputmode="numeric" prop:value=move || seed.get()
+                                on:input=move |ev| seed.set(event_target_value(&ev))/>
+                            <button type="button" class="secondary" on:click=move |_| seed.set(fresh_seed().to_string())>"New seed"</button>
+                        </div>
+                    </div>
+                </details>
+                <div class="actions">
+                    <button type="button" id="run" class="primary" disabled=move || running.get() || parsed.get().is_err()
+                        on:click=move |_| run()>"Run analysis"</button>
+                    <button type="button" id="stop" class="secondary" disabled=move || !running.get()
+                        on:click=move |_| stop()>"Stop"</button>
+                </div>
+                <p class="error" role="alert">{move || settings_error.get()}</p>
+            </section>
+
+            <section class="step" aria-labelledby="step-findings">
+                <h2 id="step-findings"><span class="step-no">"3"</span>" The findings"</h2>
+                <div aria-live="polite" id="status">
+                    {move || match status.get() {
+                        Status::Idle => view! { <p class="hint">"Run the analysis to see the findings here."</p> }.into_any(),
+                        Status::Starting => view! { <p class="hint">"Starting…"</p> }.into_any(),
+                        Status::Running { stage, done, total } => {
+                            let pct = if total > 0 { done as f64 / total as f64 * 100.0 } else { 0.0 };
+                            let what = if stage == "bootstrap" { "Bootstrap resamples" } else { "Relabellings" };
+                            view! {
+                                <div class="progress">
+                                    <label for="progress">{format!("{what}: {} of {}", fmt::count(done), fmt::count(total))}</label>
+                                    <progress id="progress" max="100" value=format!("{pct:.0}")></progress>
+                                </div>
+                            }.into_any()
+                        }
+                        Status::Failed(m) => view! { <p class="error" role="alert" id="run-error">{m}</p> }.into_any(),
+                        Status::Stopped => view! { <p class="hint">"Stopped. The settings and data are unchanged."</p> }.into_any(),
+                        Status::Done => view! { <span></span> }.into_any(),
+                    }}
+                </div>
+                {move || stale.get().then(|| view! {
+                    <p class="stale">"The settings have changed since these findings were computed; run the analysis again to update them."</p>
+                })}
+                {move || report.get().map(|r| view! { <Findings report=r/> })}
+            </section>
+        </main>
+        <footer>
+            <p>{format!("Reshuffle {ENGINE_VERSION} · computed in your browser · generator: {}", crate::engine::rng::RNG_NAME)}</p>
+        </footer>
+    }
+}
+
+/// Reads a dropped or chosen file as text into the data box.
+fn read_file(file: web_sys::File, load: impl Fn(String, String) + 'static, note: RwSignal<String>) {
+    let name = file.name();
+    if file.size() > MAX_FILE_BYTES {
+        note.set(format!(
+            "\"{name}\" is {:.1} MB; files up to 20 MB can be opened here. The data box was left as it was.",
+            file.size() / 1_048_576.0
+        ));
+        return;
+    }
+    let promise = file.text();
+    leptos::task::spawn_local(async move {
+        match wasm_bindgen_futures::JsFuture::from(promise).await {
+            Ok(v) => {
+                let text = v.as_string().unwrap_or_default();
+                let warn = if text.contains('\u{FFFD}') {
+                    " Some characters could not be read as UTF-8; save the file as UTF-8 text (\"CSV UTF-8\") if names look wrong."
+                } else {
+                    ""
+                };
+                load(text, format!("Read \"{name}\".{warn}"));
+            }
+            Err(_) => note.set(format!(
+                "\"{name}\" could not be read. The data box was left as it was."
+            )),
+        }
+    });
+}
+
+#[component]
+fn ColumnSelect(
+    id: &'static str,
+    options: Signal<Vec<(String, ColumnKind)>>,
+    chosen: RwSignal<String>,
+) -> impl IntoView {
+    view! {
+        <select id=id on:change=move |ev| chosen.set(event_target_value(&ev))>
+            {move || options.get().into_iter().map(|(name, kind)| {
+                let n2 = name.clone();
+                let label = format!("{name} ({})", kind_label(&kind));
+                view! { <option value=name selected=move || chosen.get() == n2>{label}</option> }
+            }).collect_view()}
+        </select>
+    }
+}
+
+#[component]
+fn Findings(report: Report) -> impl IntoView {
+    let r = report;
+    let d = finding::effect_decimals(&r);
+    let null_svg = plot::null_svg(&r, "null-plot");
+    let boot_svg = plot::bootstrap_svg(&r, "boot-plot");
+    let p_detail = if r.exact {
+        format!(
+            "exact: all {} possible relabellings enumerated",
+            fmt::count(r.resamples)
+        )
+    } else {
+        let se = r.mc_se.unwrap_or(0.0);
+        let pi = r
+            .p_interval
+            .as_ref()
+            .map(|p| {
+                format!(
+                    "; 99% interval for the p-value {:.4} to {:.4}",
+                    p.low, p.high
+                )
+            })
+            .unwrap_or_default();
+        format!(
+            "Monte Carlo: {} random relabellings, p = {:.4} with standard error {:.4}{pi}",
+            fmt::count(r.resamples),
+            r.p_value,
+            se
+        )
+    };
+    let ci_text = match (r.ci.low, r.ci.high) {
+        (Some(l), Some(h)) => format!(
+            "[{}, {}] ({}, {} resamples)",
+            fmt::fixed(l, d),
+            fmt::fixed(h, d),
+            if r.ci.method == "bca" {
+                "BCa"
+            } else {
+                "percentile"
+            },
+            fmt::count(r.bootstrap_resamples)
+        ),
+        _ => "not available".into(),
+    };
+    let welch_text = match (r.welch.t, r.welch.df, r.welch.p_value) {
+        (Some(t), Some(df), Some(p)) => {
+            format!("t = {:.3}, df = {:.1}, {}", t, df, fmt::p_value(p))
+        }
+        _ => "undefined (no spread in either group)".into(),
+    };
+    let welch_ci = match (r.welch.ci.low, r.welch.ci.high) {
+        (Some(l), Some(h)) => format!("[{}, {}]", fmt::fixed(l, d), fmt::fixed(h, d)),
+        _ => "—".into(),
+    };
+    let g_text = match r.hedges_g.estimate {
+        Some(g) => match (r.hedges_g.ci.low, r.hedges_g.ci.high) {
+            (Some(l), Some(h)) => format!("{:.2} [{:.2}, {:.2}]", g, l, h),
+            _ => format!("{:.2}", g),
+        },
+        None => "undefined".into(),
+    };
+    let level = fmt::percent(r.ci.level);
+    let notes = r.notes.clone();
+    let ci_note = r.ci.note.clone();
+    let g_note = r.hedges_g.ci.note.clone();
+    let null_caption = plot::null_description(&r);
+    let boot_caption = plot::bootstrap_description(&r);
+    let groups = r.groups.clone();
+    view! {
+        <div class="findings" id="findings">
+            <p class="headline" id="finding">{r.finding.clone()}</p>
+            {(!notes.is_empty()).then(|| view! {
+                <ul class="notes">{notes.into_iter().map(|n| view! { <li>{n}</li> }).collect_view()}</ul>
+            })}
+            <div class="plots">
+                <figure>
+                    <div class="svg" inner_html=null_svg id="null-figure"></div>
+                    <figcaption>{null_caption}</figcaption>
+                </figure>
+                <figure>
+                    <div class="svg" inner_html=boot_svg id="boot-figure"></div>
+                    <figcaption>{boot_caption}</figcaption>
+                </figure>
+            </div>
+            <table class="results" id="results">
+                <caption>"Results"</caption>
+                <thead><tr><th scope="col">"group"</th><th scope="col">"n"</th><th scope="col">"mean"</th><th scope="col">"median"</th><th scope="col">"SD"</th></tr></thead>
+                <tbody>
+                    {groups.into_iter().map(|g| view! {
+                        <tr><th scope="row">{g.name}</th><td>{g.n}</td><td>{fmt::fixed(g.mean, d + 1)}</td><td>{fmt::fixed(g.median, d + 1)}</td><td>{fmt::fixed(g.sd, d + 1)}</td></tr>
+                    }).collect_view()}
+                </tbody>
+            </table>
+            <dl class="numbers">
+                <dt>{format!("Observed {}", r.statistic_label)}</dt><dd>{fmt::sig(r.observed)}</dd>
+                <dt>"p-value"</dt><dd>{format!("{} — {}", fmt::p_number(r.p_value), p_detail)}</dd>
+                <dt>{format!("{} with {level} CI", r.effect_label)}</dt>
+                <dd>{format!("{} {}", fmt::fixed(r.effect, d), ci_text)}
+                    {ci_note.map(|n| view! { <span class="note">{format!(" {n}")}</span> })}</dd>
+                <dt>"Welch t-test (classical cross-check)"</dt><dd>{format!("{welch_text}; {level} CI for the difference in means {welch_ci}")}</dd>
+                <dt>{format!("Hedges' g with {level} CI")}</dt><dd>{g_text}
+                    {g_note.map(|n| view! { <span class="note">{format!(" {n}")}</span> })}</dd>
+                <dt>"Seed and generator"</dt><dd>{format!("{} · {}", r.seed, r.rng)}</dd>
+            </dl>
+            <aside class="cautions" aria-labelledby="cautions-title">
+                <h3 id="cautions-title">"Before you rely on this"</h3>
+                <ul>{r.cautions.iter().map(|c| view! { <li>{c.clone()}</li> }).collect_view()}</ul>
+            </aside>
+        </div>
+    }
+}
+
+/// Entry point of the page program.
+pub fn start() {
+    console_error_panic_hook::set_once();
+    leptos::mount::mount_to_body(App);
+}

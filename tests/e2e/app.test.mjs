@@ -1,0 +1,128 @@
+// Browser end-to-end tests: the built page (dist/) served on 127.0.0.1, driven in Debian's
+// headless chromium by playwright-core. Run after `trunk build --release`.
+import { test, before, after } from "node:test";
+import assert from "node:assert/strict";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+import { chromium } from "playwright-core";
+import { serve } from "./server.mjs";
+
+const here = path.dirname(fileURLToPath(import.meta.url));
+const root = path.resolve(here, "../..");
+const dist = path.join(root, "dist");
+const out = path.join(here, "out");
+fs.mkdirSync(out, { recursive: true });
+
+function chromiumPath() {
+  for (const p of [process.env.CHROMIUM, "/usr/bin/chromium", "/usr/bin/chromium-browser"]) {
+    if (p && fs.existsSync(p)) return p;
+  }
+  throw new Error("Debian's chromium was not found (apt-get install chromium)");
+}
+
+let server, base, browser, context;
+const requests = [];
+
+before(async () => {
+  assert.ok(fs.existsSync(path.join(dist, "index.html")), "dist/index.html missing: run trunk build --release first");
+  server = await serve(dist);
+  base = `http://127.0.0.1:${server.address().port}/`;
+  const userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), "reshuffle-chromium-"));
+  context = await chromium.launchPersistentContext(userDataDir, {
+    executablePath: chromiumPath(),
+    headless: true,
+    args: [
+      "--headless", "--no-sandbox", "--disable-gpu", "--disable-background-networking",
+      "--disable-component-update", "--disable-sync", "--no-first-run", "--disable-quic",
+    ],
+    viewport: { width: 1280, height: 900 },
+  });
+  context.on("request", (r) => requests.push(r.url()));
+  browser = context;
+});
+
+after(async () => {
+  await context?.close();
+  server?.close();
+});
+
+async function openPage() {
+  const page = await context.newPage();
+  const errors = [];
+  page.on("pageerror", (e) => errors.push(String(e)));
+  await page.goto(base);
+  await page.waitForSelector("#run:not([disabled])", { timeout: 30000 });
+  return { page, errors };
+}
+
+test("the demo analysis runs in the worker and shows the finding and both plots", async () => {
+  const { page, errors } = await openPage();
+  // The default example (invented tomato data) is loaded, with a preview.
+  await page.waitForSelector("#preview table");
+  assert.match(await page.textContent("#preview"), /yield_kg/);
+  await page.click("summary");
+  await page.fill("#seed", "2024");
+  await page.click("#run");
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  const finding = await page.textContent("#finding");
+  assert.match(finding, /The mean yield_kg was 0\.\d+ higher in drip than in sprinkler \(95% CI \[/);
+  assert.match(finding, /random relabellings of the groups \(p = \.0\d\d\)/);
+  // Both figures are SVG with a title and a text alternative.
+  for (const id of ["#null-figure svg", "#boot-figure svg"]) {
+    const svg = await page.$(id);
+    assert.ok(svg, `${id} missing`);
+    assert.equal(await svg.getAttribute("role"), "img");
+    assert.ok((await svg.$("title")) && (await svg.$("desc")), `${id} needs title and desc`);
+  }
+  assert.ok((await page.$$("#null-figure rect")).length > 10, "histogram bars drawn");
+  assert.match(await page.textContent("#results"), /drip/);
+  assert.match(await page.textContent(".cautions"), /qualified statistician/);
+  // The same seed gives the same numbers as the native command (checked in cli tests) and
+  // as a second run here.
+  await page.click("#run");
+  await page.waitForSelector("#finding");
+  assert.equal(await page.textContent("#finding"), finding);
+  await page.screenshot({ path: path.join(out, "findings.png"), fullPage: true });
+  assert.deepEqual(errors, []);
+  await page.close();
+});
+
+test("a broken table gets a specific message and the pasted text is kept", async () => {
+  const { page } = await openPage();
+  const broken = "yield,schedule\n4.1,drip\n3.9,drip\n4.l,drip\n3.0,sprinkler\n2.8,sprinkler\n";
+  await page.fill("#data", broken);
+  await page.click("#run");
+  await page.waitForSelector("#run-error", { timeout: 30000 });
+  const msg = await page.textContent("#run-error");
+  assert.match(msg, /Line 4 of column "yield" holds "4\.l", which is not a number/);
+  assert.equal(await page.inputValue("#data"), broken);
+  // A table with one group only.
+  await page.fill("#data", "y,g\n1,a\n2,a\n3,a\n");
+  await page.click("#run");
+  await page.waitForFunction(() => /only one group/.test(document.querySelector("#run-error")?.textContent || ""));
+  await page.screenshot({ path: path.join(out, "error.png"), fullPage: true });
+  await page.close();
+});
+
+test("a long run shows progress and can be stopped", async () => {
+  const { page } = await openPage();
+  await page.click("summary");
+  await page.fill("#resamples", "10000000");
+  await page.selectOption("#statistic", "median-difference");
+  await page.click("#run");
+  await page.waitForSelector("#progress", { timeout: 30000 });
+  await page.click("#stop");
+  await page.waitForFunction(() => /Stopped/.test(document.querySelector("#status")?.textContent || ""));
+  // The page still works after stopping: a small run completes.
+  await page.fill("#resamples", "2000");
+  await page.click("#run");
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  await page.close();
+});
+
+test("the page makes no request beyond its own files", async () => {
+  const foreign = requests.filter((u) => !u.startsWith(base) && !u.startsWith("data:") && !u.startsWith("blob:"));
+  assert.deepEqual(foreign, []);
+});
