@@ -84,6 +84,25 @@ pub fn acceleration(samples: &[&[f64]], statistic: TwoSampleFn) -> Option<f64> {
     Some(num / (6.0 * den.powf(1.5)))
 }
 
+/// The same acceleration from precomputed leave-one-out values of the two-sample statistic:
+/// `loo[j][i]` is the statistic with observation i of sample j left out.
+pub fn acceleration_from_loo(loo: &[Vec<f64>]) -> Option<f64> {
+    let (mut num, mut den) = (0.0, 0.0);
+    for theta in loo {
+        let n = theta.len() as f64;
+        let m = stats::mean(theta);
+        for t in theta {
+            let u = (n - 1.0) * (m - t);
+            num += u * u * u / (n * n * n);
+            den += u * u / (n * n);
+        }
+    }
+    if den <= 0.0 || !den.is_finite() {
+        return None;
+    }
+    Some(num / (6.0 * den.powf(1.5)))
+}
+
 /// A confidence interval from bootstrap statistics (non-finite values already removed).
 pub fn interval(
     method: IntervalMethod,

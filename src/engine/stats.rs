@@ -135,3 +135,142 @@ mod tests {
         assert!((hedges_j(df) - (1.0 - 3.0 / (4.0 * df - 1.0))).abs() < 2e-4);
     }
 }
+
+/// Median without a full sort (reorders the slice), O(n).
+pub fn median_select(x: &mut [f64]) -> f64 {
+    let n = x.len();
+    if n == 0 {
+        return f64::NAN;
+    }
+    let (_, &mut hi, _) = x.select_nth_unstable_by(n / 2, f64::total_cmp);
+    if n % 2 == 1 {
+        hi
+    } else {
+        // The largest value below position n/2.
+        let lo = x[..n / 2].iter().copied().fold(f64::NEG_INFINITY, f64::max);
+        0.5 * (lo + hi)
+    }
+}
+
+/// 20% trimmed mean without a full sort (reorders the slice), O(n).
+pub fn trimmed_mean_select(x: &mut [f64]) -> f64 {
+    let n = x.len();
+    let g = trim_count(n);
+    if g == 0 {
+        return mean(x);
+    }
+    x.select_nth_unstable_by(g, f64::total_cmp);
+    let rest = &mut x[g..];
+    let keep = n - 2 * g;
+    rest.select_nth_unstable_by(keep - 1, f64::total_cmp);
+    mean(&rest[..keep])
+}
+
+/// Leave-one-out values of a one-sample statistic, in the original order of `x`, in
+/// O(n log n): for the mean from the total, for the median and trimmed mean from the sorted
+/// data and prefix sums.
+pub fn leave_one_out(kind: LooKind, x: &[f64]) -> Vec<f64> {
+    let n = x.len();
+    let m = n - 1;
+    match kind {
+        LooKind::Mean => {
+            let s: f64 = x.iter().sum();
+            x.iter().map(|v| (s - v) / m as f64).collect()
+        }
+        LooKind::Median | LooKind::TrimmedMean => {
+            let mut idx: Vec<usize> = (0..n).collect();
+            idx.sort_by(|&i, &j| x[i].total_cmp(&x[j]));
+            let s: Vec<f64> = idx.iter().map(|&i| x[i]).collect();
+            let mut prefix = vec![0.0; n + 1];
+            for i in 0..n {
+                prefix[i + 1] = prefix[i] + s[i];
+            }
+            // Element k of the sorted data without rank r.
+            let at = |k: usize, r: usize| if k < r { s[k] } else { s[k + 1] };
+            // Sum of elements lo..hi of the sorted data without rank r.
+            let sum = |lo: usize, hi: usize, r: usize| {
+                if r < lo {
+                    prefix[hi + 1] - prefix[lo + 1]
+                } else if r >= hi {
+                    prefix[hi] - prefix[lo]
+                } else {
+                    prefix[hi + 1] - prefix[lo] - s[r]
+                }
+            };
+            let mut out = vec![0.0; n];
+            for (r, &i) in idx.iter().enumerate() {
+                out[i] = match kind {
+                    LooKind::Median => {
+                        if m % 2 == 1 {
+                            at(m / 2, r)
+                        } else {
+                            0.5 * (at(m / 2 - 1, r) + at(m / 2, r))
+                        }
+                    }
+                    _ => {
+                        let g = trim_count(m);
+                        sum(g, m - g, r) / (m - 2 * g) as f64
+                    }
+                };
+            }
+            out
+        }
+    }
+}
+
+/// Which one-sample statistic [`leave_one_out`] computes.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum LooKind {
+    Mean,
+    Median,
+    TrimmedMean,
+}
+
+#[cfg(test)]
+mod fast_tests {
+    use super::*;
+
+    fn data(n: usize, seed: u64) -> Vec<f64> {
+        let mut s =
+            crate::engine::rng::Stream::new(seed, crate::engine::rng::Purpose::Bootstrap, 0);
+        // Rounded so that ties occur.
+        (0..n).map(|_| (s.unit() * 20.0).round() / 2.0).collect()
+    }
+
+    #[test]
+    fn selection_statistics_equal_sorted_ones() {
+        for n in 2..40 {
+            let x = data(n, n as u64);
+            let mut y = x.clone();
+            assert_eq!(median_select(&mut y), median(&x), "n={n}");
+            let mut y = x.clone();
+            assert!(
+                (trimmed_mean_select(&mut y) - trimmed_mean(&x)).abs() < 1e-12,
+                "n={n}"
+            );
+        }
+    }
+
+    #[test]
+    fn fast_leave_one_out_equals_brute_force() {
+        for n in 3..30 {
+            let x = data(n, 100 + n as u64);
+            for (kind, f) in [
+                (LooKind::Mean, mean as fn(&[f64]) -> f64),
+                (LooKind::Median, median),
+                (LooKind::TrimmedMean, trimmed_mean),
+            ] {
+                let fast = leave_one_out(kind, &x);
+                for i in 0..n {
+                    let rest: Vec<f64> = x
+                        .iter()
+                        .enumerate()
+                        .filter(|(k, _)| *k != i)
+                        .map(|(_, v)| *v)
+                        .collect();
+                    assert!((fast[i] - f(&rest)).abs() < 1e-9, "{kind:?} n={n} i={i}");
+                }
+            }
+        }
+    }
+}
