@@ -36,7 +36,7 @@ pub fn decimals_for(scale: f64) -> usize {
     if !scale.is_finite() || scale <= 0.0 {
         return 2;
     }
-    (1.0 - scale.log10().floor()).clamp(0.0, 6.0) as usize
+    (1.0 - libm::log10(scale).floor()).clamp(0.0, 6.0) as usize
 }
 
 pub fn fixed(x: f64, decimals: usize) -> String {
@@ -66,7 +66,7 @@ pub fn sig(x: f64) -> String {
     if !x.is_finite() {
         return fixed(x, 0);
     }
-    let mag = x.abs().log10().floor() as i32;
+    let mag = libm::log10(x.abs()).floor() as i32;
     if !(-4..6).contains(&mag) {
         return format!("{x:.3e}");
     }

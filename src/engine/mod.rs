@@ -7,6 +7,7 @@ pub mod combin;
 pub mod finding;
 pub mod format;
 pub mod groups;
+pub mod normal;
 pub mod perm;
 pub mod plot;
 pub mod protocol;

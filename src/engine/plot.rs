@@ -45,7 +45,7 @@ pub fn nice_ticks(lo: f64, hi: f64, target: usize) -> Vec<f64> {
         return vec![lo];
     }
     let raw = (hi - lo) / target.max(1) as f64;
-    let mag = 10f64.powf(raw.log10().floor());
+    let mag = libm::pow(10.0, libm::log10(raw).floor());
     let step = [1.0, 2.0, 5.0, 10.0]
         .iter()
         .map(|m| m * mag)
@@ -60,7 +60,7 @@ fn tick_label(v: f64, step: f64) -> String {
     let dec = if step >= 1.0 {
         0
     } else {
-        (-step.log10().floor()) as usize
+        (-libm::log10(step).floor()) as usize
     };
     fmt::fixed(v, dec)
 }

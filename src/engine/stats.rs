@@ -90,8 +90,8 @@ pub fn hedges_g(a: &[f64], b: &[f64]) -> f64 {
 }
 
 pub fn hedges_j(df: f64) -> f64 {
-    use statrs::function::gamma::ln_gamma;
-    (ln_gamma(df / 2.0) - ln_gamma((df - 1.0) / 2.0)).exp() / (df / 2.0).sqrt()
+    use super::normal::ln_gamma;
+    libm::exp(ln_gamma(df / 2.0) - ln_gamma((df - 1.0) / 2.0)) / (df / 2.0).sqrt()
 }
 
 #[cfg(test)]
