@@ -95,8 +95,9 @@ pub fn random_blocks(
 ) -> Result<(Counts, Vec<f64>), RunError> {
     let mut counts = Counts::default();
     let mut values = Vec::new();
-    for b in blocks {
-        let (c, v) = setup.random_block(seed, b, rng::block_len(total, b));
+    let streams = rng::Streams::new(seed, rng::Purpose::Permutation, blocks.start);
+    for (b, stream) in blocks.zip(streams) {
+        let (c, v) = setup.random_block(stream, rng::block_len(total, b));
         counts.add(&c);
         values.extend_from_slice(&v);
         let p = Progress {
@@ -281,11 +282,23 @@ pub fn histogram(values: &[f64], marks: &[f64], bins: usize) -> Histogram {
         lo -= w;
         hi += w;
     }
-    let width = (hi - lo) / bins as f64;
+    let mut width = (hi - lo) / bins as f64;
+    let mut bins = bins;
+    // Put the first mark (the observed value) on a bin edge, so that no bar straddles the
+    // boundary of the region counted toward p.
+    if let Some(&m) = marks.first().filter(|m| m.is_finite()) {
+        let below = ((m - lo) / width).ceil();
+        let start = m - below * width;
+        let above = ((hi - m) / width).ceil().max(1.0);
+        lo = start;
+        bins = (below + above) as usize;
+        hi = lo + width * bins as f64;
+        width = (hi - lo) / bins as f64;
+    }
     let edges: Vec<f64> = (0..=bins).map(|i| lo + width * i as f64).collect();
     let mut counts = vec![0u64; bins];
     for v in finite {
-        let i = (((v - lo) / width) as usize).min(bins - 1);
+        let i = (((v - lo) / width).max(0.0) as usize).min(bins - 1);
         counts[i] += 1;
     }
     Histogram { edges, counts }
@@ -314,8 +327,9 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
     let fns: [TwoSampleFn; 2] = [effect_fn(st), hedges_fn];
     let total_b = req.bootstrap_resamples;
     let (mut boot_effect, mut boot_g) = (Vec::new(), Vec::new());
-    for blk in 0..rng::block_count(total_b) {
-        let out = boot::block(a, b, &fns, req.seed, blk, rng::block_len(total_b, blk));
+    let streams = rng::Streams::new(req.seed, rng::Purpose::Bootstrap, 0);
+    for (blk, stream) in (0..rng::block_count(total_b)).zip(streams) {
+        let out = boot::block(a, b, &fns, stream, rng::block_len(total_b, blk));
         boot_effect.extend_from_slice(&out[0]);
         boot_g.extend_from_slice(&out[1]);
         let p = Progress {
@@ -578,6 +592,16 @@ mod tests {
         let fast = boot::acceleration_from_loo(&hedges_leave_one_out(&a, &b)).unwrap();
         let slow = boot::acceleration(&[&a, &b], hedges_fn).unwrap();
         assert!((fast - slow).abs() < 1e-12, "g: {fast} vs {slow}");
+    }
+
+    #[test]
+    fn histogram_puts_the_observed_value_on_an_edge() {
+        let values: Vec<f64> = (0..1000).map(|i| (i as f64 * 0.37).sin()).collect();
+        let h = histogram(&values, &[0.4321], 40);
+        assert!(h.edges.iter().any(|e| (e - 0.4321).abs() < 1e-12));
+        assert_eq!(h.counts.iter().sum::<u64>(), 1000);
+        assert_eq!(h.edges.len(), h.counts.len() + 1);
+        assert!(h.edges[0] <= -1.0 + 1e-9 && *h.edges.last().unwrap() >= 1.0 - 1e-9);
     }
 
     #[test]

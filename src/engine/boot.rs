@@ -3,22 +3,20 @@
 
 use super::normal;
 use super::protocol::{Interval, IntervalMethod};
-use super::rng::{Purpose, Stream};
+use super::rng::Stream;
 use super::stats;
 
 /// A two-sample statistic computed from two groups. The slices may be reordered.
 pub type TwoSampleFn = fn(&mut [f64], &mut [f64]) -> f64;
 
-/// Bootstrap statistics for one block: for each resample, the value of each statistic.
+/// Bootstrap statistics for one block (with that block's stream): for each resample, the value of each statistic.
 pub fn block(
     a: &[f64],
     b: &[f64],
     statistics: &[TwoSampleFn],
-    seed: u64,
-    block: u64,
+    mut stream: Stream,
     len: u64,
 ) -> Vec<Vec<f64>> {
-    let mut stream = Stream::new(seed, Purpose::Bootstrap, block);
     let mut out: Vec<Vec<f64>> = statistics
         .iter()
         .map(|_| Vec::with_capacity(len as usize))

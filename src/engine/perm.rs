@@ -10,7 +10,9 @@
 
 use super::combin::RevolvingDoor;
 use super::protocol::Statistic;
-use super::rng::{Purpose, Stream};
+#[cfg(test)]
+use super::rng::Purpose;
+use super::rng::Stream;
 use super::stats;
 
 /// Relative tolerance for counting ties with the observed statistic: rounding in a sum of a
@@ -62,16 +64,11 @@ impl Counts {
 
     #[inline]
     fn record(&mut self, t: f64, obs: f64, tol: f64) {
+        // Branch-free: the comparisons are unpredictable.
         self.total += 1;
-        if t >= obs - tol {
-            self.ge += 1;
-        }
-        if t <= obs + tol {
-            self.le += 1;
-        }
-        if t.abs() >= obs.abs() - tol {
-            self.abs_ge += 1;
-        }
+        self.ge += u64::from(t >= obs - tol);
+        self.le += u64::from(t <= obs + tol);
+        self.abs_ge += u64::from(t.abs() >= obs.abs() - tol);
     }
 }
 
@@ -193,41 +190,49 @@ impl Setup {
         acc1 / c1 - acc2 / c2
     }
 
-    /// Runs one block of random relabellings; returns the counts and the statistics.
-    pub fn random_block(&self, seed: u64, block: u64, len: u64) -> (Counts, Vec<f64>) {
+    /// Runs one block of random relabellings with the block's stream.
+    pub fn random_block(&self, mut stream: Stream, len: u64) -> (Counts, Vec<f64>) {
         let n = self.pool.len();
-        let mut stream = Stream::new(seed, Purpose::Permutation, block);
-        let mut perm: Vec<usize> = (0..n).collect();
+        let k = self.k;
         let mut counts = Counts::default();
         let mut values = Vec::with_capacity(len as usize);
-        let mut mask = vec![false; n];
         let (obs, tol) = (self.observed, self.tolerance);
-        for _ in 0..len {
-            // Partial Fisher–Yates: the first k entries become a uniform random k-subset.
-            for i in 0..self.k {
-                let j = i + stream.below((n - i) as u64) as usize;
-                perm.swap(i, j);
-            }
-            let t = if self.is_sum_based() {
+        if self.is_sum_based() {
+            // Shuffle the values themselves and sum the drawn part as it is drawn.
+            let mut vals = self.pool.clone();
+            let welch = self.statistic == Statistic::WelchT;
+            for _ in 0..len {
                 let (mut s, mut q) = (0.0, 0.0);
-                for &i in &perm[..self.k] {
-                    let v = self.pool[i];
+                for i in 0..k {
+                    let j = i + stream.below((n - i) as u64) as usize;
+                    vals.swap(i, j);
+                    let v = vals[i];
                     s += v;
-                    q += v * v;
+                    if welch {
+                        q += v * v;
+                    }
                 }
-                self.stat_from_sums(s, q)
-            } else {
-                for &i in &perm[..self.k] {
-                    mask[i] = true;
+                let t = self.stat_from_sums(s, q);
+                counts.record(t, obs, tol);
+                values.push(t);
+            }
+        } else {
+            let mut perm: Vec<usize> = (0..n).collect();
+            let mut mask = vec![false; n];
+            for _ in 0..len {
+                // Partial Fisher–Yates: the first k entries become a uniform random k-subset.
+                for i in 0..k {
+                    let j = i + stream.below((n - i) as u64) as usize;
+                    perm.swap(i, j);
+                    mask[perm[i]] = true;
                 }
                 let t = self.stat_from_mask(&mask);
-                for &i in &perm[..self.k] {
+                for &i in &perm[..k] {
                     mask[i] = false;
                 }
-                t
-            };
-            counts.record(t, obs, tol);
-            values.push(t);
+                counts.record(t, obs, tol);
+                values.push(t);
+            }
         }
         (counts, values)
     }
@@ -378,11 +383,12 @@ mod tests {
     #[test]
     fn random_relabelling_is_reproducible_per_block() {
         let s = Setup::new(Statistic::MedianDifference, &A, &B);
-        let (c1, v1) = s.random_block(42, 3, 500);
-        let (c2, v2) = s.random_block(42, 3, 500);
+        let block = |b| Stream::new(42, Purpose::Permutation, b);
+        let (c1, v1) = s.random_block(block(3), 500);
+        let (c2, v2) = s.random_block(block(3), 500);
         assert_eq!(c1, c2);
         assert_eq!(v1, v2);
-        let (_, v3) = s.random_block(42, 4, 500);
+        let (_, v3) = s.random_block(block(4), 500);
         assert_ne!(v1, v3);
     }
 }

@@ -75,6 +75,29 @@ impl Stream {
     }
 }
 
+/// The streams of consecutive blocks, starting at `first`: one 2^128 jump per block after
+/// the first (the arbitrary jump that `Stream::new` makes is far slower than a plain jump).
+pub struct Streams {
+    next: Xoshiro256PlusPlus,
+}
+
+impl Streams {
+    pub fn new(seed: u64, purpose: Purpose, first: u64) -> Streams {
+        Streams {
+            next: Stream::new(seed, purpose, first).rng,
+        }
+    }
+}
+
+impl Iterator for Streams {
+    type Item = Stream;
+    fn next(&mut self) -> Option<Stream> {
+        let rng = self.next.clone();
+        self.next.jump();
+        Some(Stream { rng })
+    }
+}
+
 /// Number of blocks needed for `total` resamples, and the size of block `b`.
 pub fn block_count(total: u64) -> u64 {
     total.div_ceil(BLOCK)
@@ -103,6 +126,16 @@ mod tests {
         }
         let mut b = Stream::new(7, Purpose::Permutation, 5);
         assert_eq!(a.next_u64(), b.next_u64());
+    }
+
+    #[test]
+    fn consecutive_streams_equal_direct_ones() {
+        let mut fam = Streams::new(11, Purpose::Bootstrap, 3);
+        for b in 3..8 {
+            let mut a = fam.next().unwrap();
+            let mut d = Stream::new(11, Purpose::Bootstrap, b);
+            assert_eq!(a.next_u64(), d.next_u64(), "block {b}");
+        }
     }
 
     #[test]

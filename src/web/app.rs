@@ -819,7 +819,14 @@ fn Findings(report: Report) -> impl IntoView {
     let boot_caption = plot::bootstrap_description(&r);
     let groups = r.groups.clone();
     view! {
-        <div class="findings" id="findings">
+        // Full-precision numbers for checking against the native command.
+        <div class="findings" id="findings"
+            data-observed=format!("{:?}", r.observed)
+            data-p-value=format!("{:?}", r.p_value)
+            data-ci-low=format!("{:?}", r.ci.low)
+            data-ci-high=format!("{:?}", r.ci.high)
+            data-hedges-g=format!("{:?}", r.hedges_g.estimate)
+            data-g-low=format!("{:?}", r.hedges_g.ci.low)>
             <p class="headline" id="finding">{r.finding.clone()}</p>
             {(!notes.is_empty()).then(|| view! {
                 <ul class="notes">{notes.into_iter().map(|n| view! { <li>{n}</li> }).collect_view()}</ul>

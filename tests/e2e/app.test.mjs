@@ -122,6 +122,55 @@ test("a long run shows progress and can be stopped", async () => {
   await page.close();
 });
 
+
+test("the page and the native command give bit-identical numbers for the same seed", async () => {
+  const { execFileSync } = await import("node:child_process");
+  execFileSync("cargo", ["build", "--quiet", "--bin", "reshuffle"], { cwd: root, stdio: "inherit" });
+  const json = JSON.parse(execFileSync(path.join(root, "target/debug/reshuffle"), [
+    "analyze", "demo-data/service-desk-minutes.tsv", "--columns", "north_desk,harbour_desk",
+    "--first", "harbour_desk", "--statistic", "median-difference", "--seed", "31337", "--json",
+  ], { cwd: root, encoding: "utf8" }));
+  const { page } = await openPage();
+  await page.selectOption("#example", "desks");
+  await page.waitForFunction(() => /north_desk/.test(document.querySelector("#preview")?.textContent || ""));
+  await page.selectOption("#first", "harbour_desk");
+  await page.selectOption("#statistic", "median-difference");
+  await page.click("summary");
+  await page.fill("#seed", "31337");
+  await page.click("#run");
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  const attr = async (name) => page.getAttribute("#findings", name);
+  // Rust's {:?} prints the shortest text that round-trips, like JSON does.
+  const some = (v) => (v === null ? "None" : `Some(${fmtF(v)})`);
+  const fmtF = (v) => (Number.isInteger(v) ? `${v}.0` : String(v));
+  assert.equal(await attr("data-observed"), fmtF(json.observed));
+  assert.equal(await attr("data-p-value"), fmtF(json.p_value));
+  assert.equal(await attr("data-ci-low"), some(json.ci.low));
+  assert.equal(await attr("data-ci-high"), some(json.ci.high));
+  assert.equal(await attr("data-hedges-g"), some(json.hedges_g.estimate));
+  assert.equal(await attr("data-g-low"), some(json.hedges_g.ci.low));
+  assert.equal(await page.textContent("#finding"), json.finding);
+  await page.close();
+});
+
+test("markup in the data is shown as text, never run", async () => {
+  const { page } = await openPage();
+  let dialogs = 0;
+  page.on("dialog", async (d) => { dialogs += 1; await d.dismiss(); });
+  const hostile = 'y,g\n1,<img src=x onerror=alert(1)>\n2,<img src=x onerror=alert(1)>\n3,<img src=x onerror=alert(1)>\n' +
+    '4,"<svg onload=alert(2)>"\n5,"<svg onload=alert(2)>"\n6,"<svg onload=alert(2)>"\n';
+  await page.fill("#data", hostile);
+  await page.click("summary");
+  await page.fill("#resamples", "999");
+  await page.fill("#bootstrap", "999");
+  await page.click("#run");
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  assert.match(await page.textContent("#finding"), /<img src=x onerror=alert\(1\)>/);
+  assert.equal(await page.$$eval("#findings img", (els) => els.length), 0);
+  assert.equal(dialogs, 0);
+  await page.close();
+});
+
 test("the page makes no request beyond its own files", async () => {
   const foreign = requests.filter((u) => !u.startsWith(base) && !u.startsWith("data:") && !u.startsWith("blob:"));
   assert.deepEqual(foreign, []);
