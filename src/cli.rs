@@ -31,7 +31,8 @@ The question:
   --resamples N                        random relabellings (default 100000)
   --exact-limit N                      enumerate all splits when there are at most N (default 1000000)
   --bootstrap N                        bootstrap resamples (default 10000)
-  --interval percentile|bca            bootstrap interval method (default bca)
+  --interval METHOD                    percentile, basic, normal, bca (default), studentized,
+                                       a comma-separated list, or all
   --confidence C                       confidence level (default 0.95)
   --seed S                             seed (default: a fresh one, printed with the result)
   --json                               print the report as one JSON object
@@ -63,6 +64,32 @@ pub fn main_with(
             2
         }
     }
+}
+
+/// `--interval`: one method, a comma-separated list (the first is the headline), or `all`
+/// (BCa first, then the others).
+pub fn parse_intervals(v: &str) -> Result<(IntervalMethod, Vec<IntervalMethod>), String> {
+    if v == "all" {
+        let more = IntervalMethod::ALL
+            .into_iter()
+            .filter(|m| *m != IntervalMethod::Bca)
+            .collect();
+        return Ok((IntervalMethod::Bca, more));
+    }
+    let mut list = Vec::new();
+    for part in v.split(',') {
+        let m = IntervalMethod::from_key(part.trim()).ok_or_else(|| {
+            format!(
+                "--interval takes {} or all, not \"{part}\".",
+                IntervalMethod::ALL.map(|m| m.key()).join(", ")
+            )
+        })?;
+        if !list.contains(&m) {
+            list.push(m);
+        }
+    }
+    let head = list.remove(0);
+    Ok((head, list))
 }
 
 fn parse_num<T: std::str::FromStr>(flag: &str, v: &str) -> Result<T, String> {
@@ -140,8 +167,9 @@ pub fn request_from_args(
             }
             "--interval" => {
                 let v = val()?;
-                req.interval = IntervalMethod::from_key(&v)
-                    .ok_or_else(|| format!("--interval takes percentile or bca, not \"{v}\"."))?
+                let (head, more) = parse_intervals(&v)?;
+                req.interval = head;
+                req.more_intervals = more;
             }
             "--resamples" => req.resamples = parse_num(a, &val()?)?,
             "--bootstrap" => req.bootstrap_resamples = parse_num(a, &val()?)?,
@@ -227,6 +255,29 @@ fn analyze(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> 
     out.write_all(text.as_bytes()).map_err(|e| e.to_string())
 }
 
+/// "percentile: 95% CI [0.10, 0.92]" or the reason there is none.
+pub fn interval_line(iv: &Interval, d: usize) -> String {
+    let name = IntervalMethod::from_key(&iv.method).map_or(iv.method.as_str(), |m| m.label());
+    let body = match (iv.side, iv.low, iv.high) {
+        (Side::TwoSided, Some(l), Some(h)) => fmt::ci(iv.level, l, h, d),
+        (Side::Lower, Some(l), _) => format!(
+            "{} lower bound {}",
+            fmt::percent(iv.level),
+            fmt::fixed(l, d)
+        ),
+        (Side::Upper, _, Some(h)) => format!(
+            "{} upper bound {}",
+            fmt::percent(iv.level),
+            fmt::fixed(h, d)
+        ),
+        _ => "no interval".to_string(),
+    };
+    match &iv.note {
+        Some(n) => format!("{name}: {body} ({n})"),
+        None => format!("{name}: {body}"),
+    }
+}
+
 /// The findings in words, as on the page.
 pub fn report_text(r: &Report) -> String {
     let d = finding::effect_decimals(r);
@@ -296,6 +347,11 @@ pub fn report_text(r: &Report) -> String {
     }
     if let Some(n) = &r.ci.note {
         s.push_str(&format!("  ({n})\n"));
+    }
+    if r.intervals.len() > 1 {
+        for iv in &r.intervals[1..] {
+            s.push_str(&format!("  {}\n", interval_line(iv, d)));
+        }
     }
     match (r.welch.t, r.welch.df, r.welch.p_value) {
         (Some(t), Some(df), Some(p)) => {

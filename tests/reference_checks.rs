@@ -217,7 +217,7 @@ fn t_quantiles_match_the_table_and_round_trip() {
 /// bounds must agree to rounding, with no Monte Carlo error between them.
 #[test]
 fn bca_pieces_match_scipy_on_a_fixed_bootstrap_distribution() {
-    use reshuffle::engine::boot::{acceleration, interval, TwoSampleFn};
+    use reshuffle::engine::boot::{acceleration, interval, Design, TwoSampleFn};
     use reshuffle::engine::stats;
     let exp = expected();
     for case in exp["cases"].as_array().unwrap() {
@@ -233,7 +233,9 @@ fn bca_pieces_match_scipy_on_a_fixed_bootstrap_distribution() {
         for (key, func) in fns {
             let e = &case["bca_fixed"][key];
             let boot: Vec<f64> = e["boot"].as_array().unwrap().iter().map(f).collect();
-            let acc = acceleration(&[&g.a, &g.b], func).unwrap_or(0.0);
+            let acc = acceleration(&Design::Two { a: &g.a, b: &g.b }, func)
+                .0
+                .unwrap_or(0.0);
             assert!(
                 (acc - f(&e["acceleration"])).abs() < 1e-12,
                 "{} {key}: a = {acc}",

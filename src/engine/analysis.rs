@@ -6,6 +6,7 @@ use super::combin::choose;
 use super::format as fmt;
 use super::groups::{self, TwoGroups};
 use super::perm::{self, Counts, Setup};
+use super::protocol::Side;
 use super::protocol::*;
 use super::rng::{self, RNG_NAME};
 use super::stats;
@@ -255,6 +256,57 @@ fn hedges_leave_one_out(a: &[f64], b: &[f64]) -> [Vec<f64>; 2] {
     ]
 }
 
+/// Standard error of the effect for the studentized interval: Welch's for a difference in
+/// means, Yuen's for a difference in trimmed means, a nested bootstrap for medians.
+fn effect_se(st: Statistic) -> boot::SeMethod {
+    match st.effect() {
+        Statistic::MedianDifference => boot::SeMethod::Nested(boot::NESTED),
+        Statistic::TrimmedMeanDifference => boot::SeMethod::Formula(|a, b| {
+            (stats::trimmed_mean_se2(a) + stats::trimmed_mean_se2(b)).sqrt()
+        }),
+        _ => boot::SeMethod::Formula(|a, b| {
+            (stats::variance(a) / a.len() as f64 + stats::variance(b) / b.len() as f64).sqrt()
+        }),
+    }
+}
+
+/// Bootstrap values and studentized t values, one list per statistic.
+pub type Resampled = (Vec<Vec<f64>>, Vec<Vec<f64>>);
+
+/// Runs the bootstrap in blocks with progress; returns values and t values per statistic.
+pub fn resample(
+    design: &boot::Design,
+    stats_: &[boot::Stat],
+    seed: u64,
+    total: u64,
+    progress: ProgressFn,
+) -> Result<Resampled, RunError> {
+    let mut values: Vec<Vec<f64>> = stats_
+        .iter()
+        .map(|_| Vec::with_capacity(total as usize))
+        .collect();
+    let mut tvals: Vec<Vec<f64>> = stats_.iter().map(|_| Vec::new()).collect();
+    let streams = rng::Streams::new(seed, rng::Purpose::Bootstrap, 0);
+    let mut done = 0;
+    for (blk, stream) in (0..rng::block_count(total)).zip(streams) {
+        let out = boot::block(design, stats_, stream, rng::block_len(total, blk));
+        for (k, (v, t)) in out.values.into_iter().zip(out.t).enumerate() {
+            values[k].extend(v);
+            tvals[k].extend(t);
+        }
+        done += rng::block_len(total, blk);
+        let p = Progress {
+            stage: "bootstrap".into(),
+            done,
+            total,
+        };
+        if !progress(&p) {
+            return Err(RunError::Cancelled);
+        }
+    }
+    Ok((values, tvals))
+}
+
 fn hedges_fn(a: &mut [f64], b: &mut [f64]) -> f64 {
     stats::hedges_g(a, b)
 }
@@ -324,32 +376,84 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
     // Bootstrap, within each group.
     let effect_st = st.effect();
     let effect = perm::statistic_value(effect_st, a, b);
-    let fns: [TwoSampleFn; 2] = [effect_fn(st), hedges_fn];
-    let total_b = req.bootstrap_resamples;
-    let (mut boot_effect, mut boot_g) = (Vec::new(), Vec::new());
-    let streams = rng::Streams::new(req.seed, rng::Purpose::Bootstrap, 0);
-    for (blk, stream) in (0..rng::block_count(total_b)).zip(streams) {
-        let out = boot::block(a, b, &fns, stream, rng::block_len(total_b, blk));
-        boot_effect.extend_from_slice(&out[0]);
-        boot_g.extend_from_slice(&out[1]);
-        let p = Progress {
-            stage: "bootstrap".into(),
-            done: boot_effect.len() as u64,
-            total: total_b,
-        };
-        if !progress(&p) {
-            return Err(RunError::Cancelled);
+    let g_est = stats::hedges_g(a, b);
+    let mut methods = vec![req.interval];
+    for m in &req.more_intervals {
+        if !methods.contains(m) {
+            methods.push(*m);
         }
     }
-    let ci = boot::interval(req.interval, req.confidence, effect, &boot_effect, || {
-        boot::acceleration_from_loo(&effect_leave_one_out(st, a, b))
-    });
-    let g_est = stats::hedges_g(a, b);
+    let studentize = methods.contains(&IntervalMethod::Studentized);
+    let design = boot::Design::Two { a, b };
+    let effect_stat = boot::Stat {
+        f: effect_fn(st),
+        estimate: effect,
+        se: if studentize {
+            effect_se(st)
+        } else {
+            boot::SeMethod::None
+        },
+    };
+    let g_stat = boot::Stat {
+        f: hedges_fn,
+        estimate: g_est,
+        se: boot::SeMethod::None,
+    };
+    let total_b = req.bootstrap_resamples;
+    let (values, tvals) = resample(&design, &[effect_stat, g_stat], req.seed, total_b, progress)?;
+    let (boot_effect, boot_g) = (&values[0], &values[1]);
+    let t_finite: Vec<f64> = tvals[0].iter().copied().filter(|v| v.is_finite()).collect();
+    let se_hat = match effect_stat.se {
+        boot::SeMethod::Formula(f) => f(&mut a.clone(), &mut b.clone()),
+        boot::SeMethod::Nested(_) => boot::standard_error(boot_effect).unwrap_or(f64::NAN),
+        boot::SeMethod::None => f64::NAN,
+    };
+    let summary = boot::Summary {
+        estimate: effect,
+        boot: boot_effect,
+        t: studentize.then_some((&t_finite[..], se_hat)),
+        bounds: None,
+    };
+    let mut effect_accel = || {
+        (
+            boot::acceleration_from_loo(&effect_leave_one_out(st, a, b)),
+            false,
+        )
+    };
+    let intervals: Vec<Interval> = methods
+        .iter()
+        .map(|&m| {
+            boot::interval_by(
+                m,
+                req.confidence,
+                Side::TwoSided,
+                &summary,
+                &mut effect_accel,
+            )
+        })
+        .collect();
+    let ci = intervals[0].clone();
     let g_finite: Vec<f64> = boot_g.iter().copied().filter(|v| v.is_finite()).collect();
+    // Hedges' g has no simple standard error here: a studentized headline uses BCa for g.
+    let g_method = if req.interval == IntervalMethod::Studentized {
+        IntervalMethod::Bca
+    } else {
+        req.interval
+    };
     let g_ci = if g_est.is_finite() {
-        let mut iv = boot::interval(req.interval, req.confidence, g_est, &g_finite, || {
-            boot::acceleration_from_loo(&hedges_leave_one_out(a, b))
-        });
+        let gs = boot::Summary {
+            estimate: g_est,
+            boot: &g_finite,
+            t: None,
+            bounds: None,
+        };
+        let mut g_accel = || {
+            (
+                boot::acceleration_from_loo(&hedges_leave_one_out(a, b)),
+                false,
+            )
+        };
+        let mut iv = boot::interval_by(g_method, req.confidence, Side::TwoSided, &gs, &mut g_accel);
         let dropped = boot_g.len() - g_finite.len();
         if dropped > 0 {
             let extra = format!(
@@ -369,7 +473,8 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
             low: None,
             high: None,
             level: req.confidence,
-            method: req.interval.key().into(),
+            method: g_method.key().into(),
+            side: Side::TwoSided,
             note: Some("Hedges' g is undefined: neither group varies.".into()),
         }
     };
@@ -428,7 +533,7 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
     let mut bmarks = vec![effect];
     bmarks.extend(ci.low);
     bmarks.extend(ci.high);
-    let bootstrap_histogram = histogram(&boot_effect, &bmarks, 48);
+    let bootstrap_histogram = histogram(boot_effect, &bmarks, 48);
     let infinite = null.values.iter().filter(|v| !v.is_finite()).count();
     if infinite > 0 {
         notes.push(format!(
@@ -471,8 +576,9 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
         effect_label: effect_st.label().into(),
         effect,
         ci,
+        intervals,
         bootstrap_resamples: total_b,
-        bootstrap_se: boot::standard_error(&boot_effect),
+        bootstrap_se: boot::standard_error(boot_effect),
         welch,
         hedges_g: EffectSize {
             name: "Hedges' g".into(),
@@ -586,11 +692,15 @@ mod tests {
         let b = [1.8, 2.9, 3.3, 2.1, 0.7, 2.6, 2.6, 9.0, 1.1];
         for st in Statistic::ALL {
             let fast = boot::acceleration_from_loo(&effect_leave_one_out(st, &a, &b)).unwrap();
-            let slow = boot::acceleration(&[&a, &b], effect_fn(st)).unwrap();
+            let slow = boot::acceleration(&boot::Design::Two { a: &a, b: &b }, effect_fn(st))
+                .0
+                .unwrap();
             assert!((fast - slow).abs() < 1e-12, "{st:?}: {fast} vs {slow}");
         }
         let fast = boot::acceleration_from_loo(&hedges_leave_one_out(&a, &b)).unwrap();
-        let slow = boot::acceleration(&[&a, &b], hedges_fn).unwrap();
+        let slow = boot::acceleration(&boot::Design::Two { a: &a, b: &b }, hedges_fn)
+            .0
+            .unwrap();
         assert!((fast - slow).abs() < 1e-12, "g: {fast} vs {slow}");
     }
 

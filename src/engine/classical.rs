@@ -17,6 +17,7 @@ pub fn welch(a: &[f64], b: &[f64], alternative: Alternative, level: f64) -> Welc
         high: None,
         level,
         method: "Welch t".into(),
+        side: super::protocol::Side::TwoSided,
         note: None,
     };
     if se2 <= 0.0 || !se2.is_finite() {

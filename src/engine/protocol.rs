@@ -131,26 +131,68 @@ impl TwoSidedRule {
 #[serde(rename_all = "kebab-case")]
 pub enum IntervalMethod {
     Percentile,
+    Basic,
+    Normal,
     Bca,
+    Studentized,
 }
 
 impl IntervalMethod {
+    pub const ALL: [IntervalMethod; 5] = [
+        IntervalMethod::Percentile,
+        IntervalMethod::Basic,
+        IntervalMethod::Normal,
+        IntervalMethod::Bca,
+        IntervalMethod::Studentized,
+    ];
     pub fn key(self) -> &'static str {
         match self {
             IntervalMethod::Percentile => "percentile",
+            IntervalMethod::Basic => "basic",
+            IntervalMethod::Normal => "normal",
             IntervalMethod::Bca => "bca",
+            IntervalMethod::Studentized => "studentized",
         }
     }
     pub fn from_key(s: &str) -> Option<IntervalMethod> {
-        [IntervalMethod::Percentile, IntervalMethod::Bca]
-            .into_iter()
-            .find(|x| x.key() == s)
+        IntervalMethod::ALL.into_iter().find(|x| x.key() == s)
     }
     pub fn label(self) -> &'static str {
         match self {
-            IntervalMethod::Percentile => "percentile bootstrap",
-            IntervalMethod::Bca => "BCa bootstrap",
+            IntervalMethod::Percentile => "percentile",
+            IntervalMethod::Basic => "basic (reverse percentile)",
+            IntervalMethod::Normal => "normal, bootstrap SE",
+            IntervalMethod::Bca => "BCa",
+            IntervalMethod::Studentized => "studentized (bootstrap-t)",
         }
+    }
+}
+
+/// Which bound(s) an interval gives.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Side {
+    /// [low, high]
+    #[default]
+    TwoSided,
+    /// [low, ∞): a lower confidence bound.
+    Lower,
+    /// (−∞, high]: an upper confidence bound.
+    Upper,
+}
+
+impl Side {
+    pub fn key(self) -> &'static str {
+        match self {
+            Side::TwoSided => "two-sided",
+            Side::Lower => "lower",
+            Side::Upper => "upper",
+        }
+    }
+    pub fn from_key(s: &str) -> Option<Side> {
+        [Side::TwoSided, Side::Lower, Side::Upper]
+            .into_iter()
+            .find(|x| x.key() == s)
     }
 }
 
@@ -180,7 +222,11 @@ pub struct Request {
     pub exact_limit: u64,
     pub bootstrap_resamples: u64,
     pub confidence: f64,
+    /// The interval method of the headline interval.
     pub interval: IntervalMethod,
+    /// Further interval methods to report beside it.
+    #[serde(default)]
+    pub more_intervals: Vec<IntervalMethod>,
     pub seed: u64,
 }
 
@@ -202,6 +248,7 @@ impl Request {
             bootstrap_resamples: 10_000,
             confidence: 0.95,
             interval: IntervalMethod::Bca,
+            more_intervals: Vec::new(),
             seed,
         }
     }
@@ -230,6 +277,9 @@ pub struct Interval {
     pub high: Option<f64>,
     pub level: f64,
     pub method: String,
+    /// Two-sided, or a one-sided bound (then the other end is open and null).
+    #[serde(default)]
+    pub side: Side,
     /// Why the interval is missing or should be read with care.
     pub note: Option<String>,
 }
@@ -304,6 +354,8 @@ pub struct Report {
     pub effect_label: String,
     pub effect: f64,
     pub ci: Interval,
+    /// The headline interval and any further methods asked for, side by side.
+    pub intervals: Vec<Interval>,
     pub bootstrap_resamples: u64,
     pub bootstrap_se: Option<f64>,
     pub welch: Welch,

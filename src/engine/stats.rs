@@ -274,3 +274,24 @@ mod fast_tests {
         }
     }
 }
+
+/// Winsorized variance for the 20% trimmed mean: the g = floor(0.2 n) smallest values are
+/// set to the (g+1)-th smallest and the g largest to the (g+1)-th largest, then the sample
+/// variance is taken (Wilcox, "Introduction to Robust Estimation and Hypothesis Testing",
+/// 3rd ed., section 3.3).
+pub fn winsorized_variance(x: &[f64]) -> f64 {
+    let s = sorted(x);
+    let n = s.len();
+    let g = trim_count(n);
+    let (lo, hi) = (s[g], s[n - 1 - g]);
+    let w: Vec<f64> = s.iter().map(|v| v.clamp(lo, hi)).collect();
+    variance(&w)
+}
+
+/// Squared standard error of a 20% trimmed mean, (n − 1) s_w² / (h (h − 1)) with
+/// h = n − 2g: Yuen's d term (Wilcox, 3rd ed., section 5.3).
+pub fn trimmed_mean_se2(x: &[f64]) -> f64 {
+    let n = x.len();
+    let h = (n - 2 * trim_count(n)) as f64;
+    (n as f64 - 1.0) * winsorized_variance(x) / (h * (h - 1.0))
+}
