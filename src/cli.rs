@@ -13,7 +13,8 @@ const USAGE: &str = "\
 reshuffle: permutation tests and bootstrap intervals for two groups
 
 Usage:
-  reshuffle analyze FILE [options]     analyse a table (FILE may be - for standard input)
+  reshuffle analyze FILE [options]     test and estimate a two-group difference (FILE may be -)
+  reshuffle estimate FILE [options]    bootstrap confidence intervals only, no test
   reshuffle bench                      compare the speed of the relabelling kernels
   reshuffle help                       show this text
 
@@ -36,6 +37,17 @@ The question:
   --confidence C                       confidence level (default 0.95)
   --seed S                             seed (default: a fresh one, printed with the result)
   --json                               print the report as one JSON object
+
+Estimate only (reshuffle estimate):
+  --value COL --estimate mean|median|trimmed-mean|sd|cv|quantile|proportion [--q 0.9]
+      [--strata COL]                   one column; resample within strata if given
+  --value COL --group COL | --columns A,B [--paired]
+      --estimate mean-difference|median-difference|trimmed-mean-difference|mean-ratio|
+                 median-ratio|hedges-g|cliffs-delta|superiority
+  --x COL --y COL --estimate pearson|spearman|slope
+  --interval percentile|basic|normal|bca|studentized|all (or a comma-separated list)
+  --side two-sided|lower|upper         a two-sided interval or a one-sided bound
+  --confidence C  --resamples N  --seed S  --json  --header ...  --first/--second LEVEL
 ";
 
 /// Runs the command with its arguments (without the program name); returns the exit code.
@@ -46,6 +58,7 @@ pub fn main_with(
 ) -> i32 {
     let r = match args.first().map(String::as_str) {
         Some("analyze") | Some("analyse") => analyze(&args[1..], out),
+        Some("estimate") => estimate(&args[1..], out),
         Some("bench") => bench(out),
         Some("help") | Some("--help") | Some("-h") | None => {
             let _ = out.write_all(USAGE.as_bytes());
@@ -276,6 +289,165 @@ pub fn interval_line(iv: &Interval, d: usize) -> String {
         Some(n) => format!("{name}: {body} ({n})"),
         None => format!("{name}: {body}"),
     }
+}
+
+fn estimate(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> {
+    use crate::engine::estimate::{self as est, Estimate, EstimateLayout, EstimateRequest};
+    let mut file = None;
+    let (mut value, mut group, mut columns, mut x, mut y, mut strata) =
+        (None, None, None, None, None, None);
+    let (mut first, mut second, mut paired, mut json) = (None, None, false, false);
+    let mut which: Option<Estimate> = None;
+    let mut q = None;
+    let mut methods = vec![IntervalMethod::Bca];
+    let mut side = Side::TwoSided;
+    let (mut confidence, mut resamples, mut seed) = (0.95, 10_000u64, None);
+    let mut header = HeaderChoice::Detect;
+    let mut i = 0;
+    while i < args.len() {
+        let a = args[i].as_str();
+        let mut val = || -> Result<String, String> {
+            i += 1;
+            args.get(i)
+                .cloned()
+                .ok_or_else(|| format!("{a} needs a value."))
+        };
+        match a {
+            "--json" => json = true,
+            "--paired" => paired = true,
+            "--value" => value = Some(val()?),
+            "--group" => group = Some(val()?),
+            "--columns" => {
+                columns = Some(
+                    val()?
+                        .split(',')
+                        .map(|s| s.trim().to_string())
+                        .collect::<Vec<_>>(),
+                )
+            }
+            "--x" => x = Some(val()?),
+            "--y" => y = Some(val()?),
+            "--strata" => strata = Some(val()?),
+            "--first" => first = Some(val()?),
+            "--second" => second = Some(val()?),
+            "--estimate" => {
+                let v = val()?;
+                which = Some(Estimate::from_key(&v).ok_or_else(|| {
+                    format!(
+                        "--estimate takes {}, not \"{v}\".",
+                        Estimate::ALL.map(|e| e.key()).join(", ")
+                    )
+                })?)
+            }
+            "--q" => q = Some(parse_num::<f64>(a, &val()?)?),
+            "--interval" => {
+                let (h, more) = parse_intervals(&val()?)?;
+                methods = std::iter::once(h).chain(more).collect();
+            }
+            "--side" => {
+                let v = val()?;
+                side = Side::from_key(&v).ok_or_else(|| {
+                    format!("--side takes two-sided, lower or upper, not \"{v}\".")
+                })?
+            }
+            "--confidence" => confidence = parse_num(a, &val()?)?,
+            "--resamples" => resamples = parse_num(a, &val()?)?,
+            "--seed" => seed = Some(parse_num(a, &val()?)?),
+            "--header" => {
+                header = match val()?.as_str() {
+                    "detect" => HeaderChoice::Detect,
+                    "names" => HeaderChoice::Names,
+                    "data" => HeaderChoice::Data,
+                    o => {
+                        return Err(format!(
+                            "--header takes detect, names or data, not \"{o}\"."
+                        ))
+                    }
+                }
+            }
+            s if s.starts_with("--") => {
+                return Err(format!("Unknown option {s}. Try: reshuffle help"))
+            }
+            s => {
+                if file.is_some() {
+                    return Err(format!(
+                        "Only one data file can be given (also got \"{s}\")."
+                    ));
+                }
+                file = Some(s.to_string());
+            }
+        }
+        i += 1;
+    }
+    let file = file.ok_or("Name the data file (or - for standard input).")?;
+    let which =
+        which.ok_or("Say what to estimate with --estimate (for example --estimate median).")?;
+    let layout = match (value, group, columns, x, y) {
+        (Some(v), None, None, None, None) => EstimateLayout::One { value: v, strata },
+        (Some(v), Some(g), None, None, None) => EstimateLayout::Groups {
+            layout: Layout::Long { value: v, group: g },
+            first,
+            second,
+            paired,
+        },
+        (None, None, Some(c), None, None) => EstimateLayout::Groups { layout: Layout::Wide { columns: c }, first, second, paired },
+        (None, None, None, Some(x), Some(y)) => EstimateLayout::Pairs { x, y },
+        _ => {
+            return Err(
+                "Give the data as --value COL (one sample), --value COL --group COL or --columns A,B (two groups), or --x COL --y COL (association).".into(),
+            )
+        }
+    };
+    let mut req = EstimateRequest::new(
+        read_data(&file)?,
+        layout,
+        which,
+        seed.unwrap_or_else(fresh_seed),
+    );
+    req.header = header;
+    req.q = q;
+    req.methods = methods;
+    req.side = side;
+    req.confidence = confidence;
+    req.resamples = resamples;
+    let rep = est::run(&req, &mut |_| true).map_err(|e| e.to_string())?;
+    let text = if json {
+        serde_json::to_string_pretty(&rep).map_err(|e| e.to_string())? + "\n"
+    } else {
+        let d = rep
+            .intervals
+            .first()
+            .and_then(|iv| Some(iv.high? - iv.low?))
+            .map_or(2, fmt::decimals_for);
+        let mut s = format!("{}\n\n", rep.finding);
+        for n in &rep.notes {
+            s.push_str(&format!("Note: {n}\n"));
+        }
+        s.push_str(&format!(
+            "Estimate {}; bootstrap SE {}; bias {}\n",
+            fmt::sig(rep.estimate),
+            rep.se.map_or("undefined".into(), fmt::sig),
+            rep.bias.map_or("undefined".into(), fmt::sig)
+        ));
+        for iv in &rep.intervals {
+            s.push_str(&format!("  {}\n", interval_line(iv, d)));
+        }
+        if let Some(c) = &rep.classical {
+            s.push_str(&format!(
+                "  classical cross-check, {}\n",
+                interval_line(c, d)
+            ));
+        }
+        s.push_str(&format!(
+            "{}\nSeed: {} ({})\n\n",
+            rep.method_reason, rep.seed, rep.rng
+        ));
+        for c in &rep.cautions {
+            s.push_str(&format!("- {c}\n"));
+        }
+        s
+    };
+    out.write_all(text.as_bytes()).map_err(|e| e.to_string())
 }
 
 /// The findings in words, as on the page.

@@ -258,13 +258,13 @@ fn hedges_leave_one_out(a: &[f64], b: &[f64]) -> [Vec<f64>; 2] {
 
 /// Standard error of the effect for the studentized interval: Welch's for a difference in
 /// means, Yuen's for a difference in trimmed means, a nested bootstrap for medians.
-fn effect_se(st: Statistic) -> boot::SeMethod {
+fn effect_se(st: Statistic) -> boot::SeMethod<'static> {
     match st.effect() {
         Statistic::MedianDifference => boot::SeMethod::Nested(boot::NESTED),
-        Statistic::TrimmedMeanDifference => boot::SeMethod::Formula(|a, b| {
+        Statistic::TrimmedMeanDifference => boot::SeMethod::Formula(&|a, b| {
             (stats::trimmed_mean_se2(a) + stats::trimmed_mean_se2(b)).sqrt()
         }),
-        _ => boot::SeMethod::Formula(|a, b| {
+        _ => boot::SeMethod::Formula(&|a, b| {
             (stats::variance(a) / a.len() as f64 + stats::variance(b) / b.len() as f64).sqrt()
         }),
     }
@@ -385,8 +385,9 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
     }
     let studentize = methods.contains(&IntervalMethod::Studentized);
     let design = boot::Design::Two { a, b };
+    let effect_f = effect_fn(st);
     let effect_stat = boot::Stat {
-        f: effect_fn(st),
+        f: &effect_f,
         estimate: effect,
         se: if studentize {
             effect_se(st)
@@ -395,7 +396,7 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
         },
     };
     let g_stat = boot::Stat {
-        f: hedges_fn,
+        f: &hedges_fn,
         estimate: g_est,
         se: boot::SeMethod::None,
     };
@@ -692,13 +693,13 @@ mod tests {
         let b = [1.8, 2.9, 3.3, 2.1, 0.7, 2.6, 2.6, 9.0, 1.1];
         for st in Statistic::ALL {
             let fast = boot::acceleration_from_loo(&effect_leave_one_out(st, &a, &b)).unwrap();
-            let slow = boot::acceleration(&boot::Design::Two { a: &a, b: &b }, effect_fn(st))
+            let slow = boot::acceleration(&boot::Design::Two { a: &a, b: &b }, &effect_fn(st))
                 .0
                 .unwrap();
             assert!((fast - slow).abs() < 1e-12, "{st:?}: {fast} vs {slow}");
         }
         let fast = boot::acceleration_from_loo(&hedges_leave_one_out(&a, &b)).unwrap();
-        let slow = boot::acceleration(&boot::Design::Two { a: &a, b: &b }, hedges_fn)
+        let slow = boot::acceleration(&boot::Design::Two { a: &a, b: &b }, &hedges_fn)
             .0
             .unwrap();
         assert!((fast - slow).abs() < 1e-12, "g: {fast} vs {slow}");

