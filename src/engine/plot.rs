@@ -3,7 +3,7 @@
 //! piece of text from the data (group and column names) is XML-escaped.
 
 use super::format as fmt;
-use super::protocol::{Histogram, Report};
+use super::protocol::{Histogram, Interval, Report};
 
 /// Bars of the part not counted toward p / outside the interval.
 pub const BODY: &str = "#3f5f8f";
@@ -254,51 +254,81 @@ pub fn null_svg(r: &Report, id: &str) -> String {
     out
 }
 
+/// What a bootstrap figure shows.
+pub struct BootFigure<'a> {
+    pub label: &'a str,
+    pub estimate: f64,
+    pub interval: &'a Interval,
+    pub histogram: &'a Histogram,
+    pub resamples: u64,
+}
+
 pub fn bootstrap_description(r: &Report) -> String {
-    match (r.ci.low, r.ci.high) {
-        (Some(l), Some(h)) => format!(
+    describe_bootstrap(&figure_of(r))
+}
+
+fn figure_of(r: &Report) -> BootFigure<'_> {
+    BootFigure {
+        label: &r.effect_label,
+        estimate: r.effect,
+        interval: &r.ci,
+        histogram: &r.bootstrap_histogram,
+        resamples: r.bootstrap_resamples,
+    }
+}
+
+pub fn describe_bootstrap(b: &BootFigure) -> String {
+    let iv = b.interval;
+    let range = match (iv.low, iv.high) {
+        (Some(l), Some(h)) => Some(format!("runs from {} to {}", fmt::sig(l), fmt::sig(h))),
+        (Some(l), None) => Some(format!("is the lower bound {}", fmt::sig(l))),
+        (None, Some(h)) => Some(format!("is the upper bound {}", fmt::sig(h))),
+        _ => None,
+    };
+    match range {
+        Some(r) => format!(
             "Histogram of the {} over {} bootstrap resamples. The estimate, {}, is marked with a \
-             solid line; the {} interval runs from {} to {} (dark bars, between the dashed lines).",
-            r.effect_label,
-            fmt::count(r.bootstrap_resamples),
-            fmt::sig(r.effect),
-            fmt::percent(r.ci.level),
-            fmt::sig(l),
-            fmt::sig(h)
+             solid line; the {} interval {r} (dark bars, dashed lines).",
+            b.label,
+            fmt::count(b.resamples),
+            fmt::sig(b.estimate),
+            fmt::percent(iv.level),
         ),
-        _ => format!(
+        None => format!(
             "Histogram of the {} over {} bootstrap resamples; no interval could be formed.",
-            r.effect_label,
-            fmt::count(r.bootstrap_resamples)
+            b.label,
+            fmt::count(b.resamples)
         ),
     }
 }
 
 /// The bootstrap distribution of the effect with its confidence interval.
 pub fn bootstrap_svg(r: &Report, id: &str) -> String {
+    bootstrap_figure_svg(&figure_of(r), id)
+}
+
+/// A bootstrap distribution with the estimate and an interval (or one-sided bound) marked.
+pub fn bootstrap_figure_svg(b: &BootFigure, id: &str) -> String {
     let mut out = String::new();
-    let title = format!("Bootstrap distribution of the {}", r.effect_label);
-    open(&mut out, id, &title, &bootstrap_description(r));
-    if let Some(f) = frame(&r.bootstrap_histogram) {
-        let inside_label = format!("inside the {} interval", fmt::percent(r.ci.level));
+    let title = format!("Bootstrap distribution of the {}", b.label);
+    open(&mut out, id, &title, &describe_bootstrap(b));
+    if let Some(f) = frame(b.histogram) {
+        let inside_label = format!("inside the {} interval", fmt::percent(b.interval.level));
         legend(&mut out, &[(&inside_label, BODY), ("outside", OUTSIDE)]);
-        let (lo, hi) = (r.ci.low, r.ci.high);
-        let inside = move |m: f64| matches!((lo, hi), (Some(l), Some(h)) if m >= l && m <= h);
-        bars(
-            &mut out,
-            &f,
-            &r.bootstrap_histogram,
-            (BODY, OUTSIDE),
-            &inside,
-        );
+        let (lo, hi) = (b.interval.low, b.interval.high);
+        let any = lo.is_some() || hi.is_some();
+        let inside = move |m: f64| any && lo.is_none_or(|l| m >= l) && hi.is_none_or(|h| m <= h);
+        bars(&mut out, &f, b.histogram, (BODY, OUTSIDE), &inside);
         axes(
             &mut out,
             &f,
-            &format!("{} in bootstrap resamples", r.effect_label),
+            &format!("{} in bootstrap resamples", b.label),
             "resamples",
         );
-        if let (Some(l), Some(h)) = (lo, hi) {
+        if let Some(l) = lo {
             marker(&mut out, &f, l, &format!("{} low", fmt::sig(l)), true, true);
+        }
+        if let Some(h) = hi {
             marker(
                 &mut out,
                 &f,
@@ -308,7 +338,7 @@ pub fn bootstrap_svg(r: &Report, id: &str) -> String {
                 false,
             );
         }
-        let x = f.x(r.effect.clamp(f.lo, f.hi));
+        let x = f.x(b.estimate.clamp(f.lo, f.hi));
         out.push_str(&format!(
             r#"<line x1="{x:.1}" x2="{x:.1}" y1="{TOP}" y2="{:.1}" stroke="{INK}" stroke-width="2.5"/>"#,
             H - BOTTOM

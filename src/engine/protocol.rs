@@ -375,6 +375,14 @@ pub struct Progress {
     pub total: u64,
 }
 
+/// A unit of work for the worker (and the command's `--request` files).
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "job", content = "request", rename_all = "kebab-case")]
+pub enum Job {
+    Compare(Request),
+    Estimate(super::estimate::EstimateRequest),
+}
+
 /// Messages from the worker to the page.
 #[derive(Clone, Debug, Serialize, Deserialize)]
 #[serde(tag = "type", rename_all = "kebab-case")]
@@ -384,6 +392,9 @@ pub enum WorkerMessage {
     Progress(Progress),
     Done {
         report: Box<Report>,
+    },
+    Estimated {
+        report: Box<super::estimate::EstimateReport>,
     },
     Failed {
         message: String,

@@ -8,6 +8,7 @@ use leptos::prelude::*;
 use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
 
+use crate::engine::estimate::{Estimate, EstimateLayout, EstimateReport, EstimateRequest, Kind};
 use crate::engine::finding;
 use crate::engine::format as fmt;
 use crate::engine::groups;
@@ -53,6 +54,7 @@ enum Status {
 struct Sinks {
     status: RwSignal<Status>,
     report: RwSignal<Option<Report>>,
+    estimated: RwSignal<Option<EstimateReport>>,
 }
 
 struct WorkerHandle {
@@ -95,6 +97,10 @@ fn spawn_worker(sinks: Sinks) -> Result<(), String> {
                 }),
                 Ok(WorkerMessage::Done { report }) => {
                     sinks.report.set(Some(*report));
+                    sinks.status.set(Status::Done);
+                }
+                Ok(WorkerMessage::Estimated { report }) => {
+                    sinks.estimated.set(Some(*report));
                     sinks.status.set(Status::Done);
                 }
                 Ok(WorkerMessage::Failed { message }) => sinks.status.set(Status::Failed(message)),
@@ -226,18 +232,33 @@ fn App() -> impl IntoView {
     let statistic = RwSignal::new(Statistic::MeanDifference);
     let alternative = RwSignal::new(Alternative::TwoSided);
     let two_sided = RwSignal::new(TwoSidedRule::Absolute);
-    let interval = RwSignal::new(IntervalMethod::Bca);
     let resamples = RwSignal::new("100000".to_string());
     let exact_limit = RwSignal::new("1000000".to_string());
     let bootstrap = RwSignal::new("10000".to_string());
     let confidence = RwSignal::new("95".to_string());
     let seed = RwSignal::new(String::new());
     let settings_error = RwSignal::new(String::new());
+    // Estimate-only mode.
+    let mode = RwSignal::new("compare".to_string());
+    let est_kind = RwSignal::new(Estimate::Median);
+    let est_q = RwSignal::new("0.9".to_string());
+    let est_value = RwSignal::new(String::new());
+    let est_strata = RwSignal::new(String::new());
+    let est_x = RwSignal::new(String::new());
+    let est_y = RwSignal::new(String::new());
+    let paired = RwSignal::new(false);
+    let side = RwSignal::new(Side::TwoSided);
+    let est_methods = RwSignal::new("all".to_string());
     // Step 3: the findings.
     let status = RwSignal::new(Status::Idle);
     let report = RwSignal::new(None::<Report>);
-    let last_request = RwSignal::new(None::<Request>);
-    let sinks = Sinks { status, report };
+    let estimated = RwSignal::new(None::<EstimateReport>);
+    let last_job = RwSignal::new(None::<Job>);
+    let sinks = Sinks {
+        status,
+        report,
+        estimated,
+    };
 
     let parsed = Memo::new(move |_| {
         table::parse(&data.get(), header.get())
@@ -261,6 +282,23 @@ fn App() -> impl IntoView {
     Effect::new(move |_| {
         let Ok(view) = parsed.get() else { return };
         let names: Vec<String> = view.columns.iter().map(|c| c.0.clone()).collect();
+        let numeric: Vec<String> = view
+            .columns
+            .iter()
+            .filter(|c| matches!(c.1, ColumnKind::Number | ColumnKind::NumberWithText))
+            .map(|c| c.0.clone())
+            .collect();
+        let pick = |i: usize| numeric.get(i).or(names.get(i)).cloned().unwrap_or_default();
+        if !names.contains(&est_value.get_untracked()) {
+            est_value.set(pick(0));
+        }
+        if !names.contains(&est_x.get_untracked()) || !names.contains(&est_y.get_untracked()) {
+            est_x.set(pick(0));
+            est_y.set(pick(1));
+        }
+        if !est_strata.get_untracked().is_empty() && !names.contains(&est_strata.get_untracked()) {
+            est_strata.set(String::new());
+        }
         let fits = match layout_kind.get_untracked().as_str() {
             "long" => {
                 names.contains(&value_col.get_untracked())
@@ -334,6 +372,20 @@ fn App() -> impl IntoView {
         }
     });
 
+    let interval_choice = RwSignal::new("bca".to_string());
+    let methods_from = |choice: &str| -> Vec<IntervalMethod> {
+        if choice == "all" {
+            let mut v = vec![IntervalMethod::Bca];
+            v.extend(
+                IntervalMethod::ALL
+                    .into_iter()
+                    .filter(|m| *m != IntervalMethod::Bca),
+            );
+            v
+        } else {
+            vec![IntervalMethod::from_key(choice).unwrap_or(IntervalMethod::Bca)]
+        }
+    };
     let build_request = move |seed_value: u64| -> Result<Request, String> {
         let mut r = Request::new(data.get_untracked(), seed_value);
         r.header = header.get_untracked();
@@ -353,7 +405,9 @@ fn App() -> impl IntoView {
         r.statistic = statistic.get_untracked();
         r.alternative = alternative.get_untracked();
         r.two_sided = two_sided.get_untracked();
-        r.interval = interval.get_untracked();
+        let ms = methods_from(&interval_choice.get_untracked());
+        r.interval = ms[0];
+        r.more_intervals = ms[1..].to_vec();
         r.resamples = parse_count("Random relabellings", &resamples.get_untracked())?;
         r.exact_limit = parse_count("Enumerate all splits up to", &exact_limit.get_untracked())?;
         r.bootstrap_resamples = parse_count("Bootstrap resamples", &bootstrap.get_untracked())?;
@@ -370,6 +424,43 @@ fn App() -> impl IntoView {
             })?;
         r.confidence = if level > 1.0 { level / 100.0 } else { level };
         Ok(r)
+    };
+    let build_job = move |seed_value: u64| -> Result<Job, String> {
+        let base = build_request(seed_value)?;
+        if mode.get_untracked() == "compare" {
+            return Ok(Job::Compare(base));
+        }
+        let e = est_kind.get_untracked();
+        let layout = match e.kind() {
+            Kind::One => EstimateLayout::One {
+                value: est_value.get_untracked(),
+                strata: Some(est_strata.get_untracked()).filter(|s| !s.is_empty()),
+            },
+            Kind::Two => EstimateLayout::Groups {
+                layout: base.layout.clone(),
+                first: base.first.clone(),
+                second: base.second.clone(),
+                paired: paired.get_untracked() && layout_kind.get_untracked() == "wide",
+            },
+            Kind::Association => EstimateLayout::Pairs {
+                x: est_x.get_untracked(),
+                y: est_y.get_untracked(),
+            },
+        };
+        let mut r = EstimateRequest::new(base.data, layout, e, seed_value);
+        r.header = base.header;
+        r.confidence = base.confidence;
+        r.resamples = base.bootstrap_resamples;
+        r.methods = methods_from(&est_methods.get_untracked());
+        r.side = side.get_untracked();
+        if e == Estimate::Quantile {
+            let t = est_q.get_untracked();
+            let v: f64 = t.trim().replace(',', ".").parse().map_err(|_| {
+                format!("Quantile: \"{t}\" is not a number; write 0.9 for the 90th percentile.")
+            })?;
+            r.q = Some(if v > 1.0 { v / 100.0 } else { v });
+        }
+        Ok(Job::Estimate(r))
     };
 
     let run = move || {
@@ -388,21 +479,21 @@ fn App() -> impl IntoView {
                 }
             }
         };
-        let req = match build_request(seed_value) {
+        let job = match build_job(seed_value) {
             Ok(r) => r,
             Err(e) => {
                 settings_error.set(e);
                 return;
             }
         };
-        let text = match serde_json::to_string(&req) {
+        let text = match serde_json::to_string(&job) {
             Ok(t) => t,
             Err(e) => {
                 settings_error.set(format!("The settings could not be encoded ({e})."));
                 return;
             }
         };
-        last_request.set(Some(req));
+        last_job.set(Some(job));
         status.set(Status::Starting);
         if let Err(e) = send_to_worker(sinks, text) {
             status.set(Status::Failed(e));
@@ -417,7 +508,7 @@ fn App() -> impl IntoView {
         Memo::new(move |_| matches!(status.get(), Status::Starting | Status::Running { .. }));
     // Whether the shown result still matches the settings on screen.
     let stale = Memo::new(move |_| {
-        let Some(last) = last_request.get() else {
+        let Some(last) = last_job.get() else {
             return false;
         };
         let _ = (
@@ -433,14 +524,30 @@ fn App() -> impl IntoView {
             statistic.get(),
             alternative.get(),
             two_sided.get(),
-            interval.get(),
+            interval_choice.get(),
             resamples.get(),
             exact_limit.get(),
             bootstrap.get(),
             confidence.get(),
         );
-        let s = parse_count("Seed", &seed.get()).unwrap_or(last.seed);
-        match build_request(s) {
+        let _ = (
+            mode.get(),
+            est_kind.get(),
+            est_q.get(),
+            est_value.get(),
+            est_strata.get(),
+            est_x.get(),
+            est_y.get(),
+            paired.get(),
+            side.get(),
+            est_methods.get(),
+        );
+        let last_seed = match &last {
+            Job::Compare(r) => r.seed,
+            Job::Estimate(r) => r.seed,
+        };
+        let s = parse_count("Seed", &seed.get()).unwrap_or(last_seed);
+        match build_job(s) {
             Ok(now) => now != last,
             Err(_) => true,
         }
@@ -580,7 +687,88 @@ fn App() -> impl IntoView {
 
             <section class="step" aria-labelledby="step-question">
                 <h2 id="step-question"><span class="step-no">"2"</span>" The question"</h2>
-                <div class="row">
+                <fieldset>
+                    <legend>"What do you want to know?"</legend>
+                    <label class="choice">
+                        <input type="radio" name="mode" value="compare" prop:checked=move || mode.get() == "compare"
+                            on:change=move |_| mode.set("compare".into())/>
+                        "Whether two groups differ, and by how much (permutation test and interval)"
+                    </label>
+                    <label class="choice">
+                        <input type="radio" name="mode" id="mode-estimate" value="estimate" prop:checked=move || mode.get() == "estimate"
+                            on:change=move |_| mode.set("estimate".into())/>
+                        "How large something is, with a confidence interval (bootstrap only, no test)"
+                    </label>
+                </fieldset>
+                <div class="estimate-options" style:display=move || if mode.get() == "estimate" { "block" } else { "none" }>
+                    <div class="row">
+                        <label for="est-kind">"Estimate"</label>
+                        <select id="est-kind" on:change=move |ev| {
+                            if let Some(e) = Estimate::from_key(&event_target_value(&ev)) { est_kind.set(e) }
+                        }>
+                            {[("One column", Kind::One), ("Two groups", Kind::Two), ("Two columns as pairs (association)", Kind::Association)]
+                                .into_iter().map(|(group_label, kind)| view! {
+                                    <optgroup label=group_label>
+                                        {Estimate::ALL.into_iter().filter(|e| e.kind() == kind).map(|e| {
+                                            let label = if e == Estimate::Quantile { "quantile (percentile)".to_string() } else { e.label(0.5) };
+                                            view! { <option value=e.key() selected=move || est_kind.get() == e>{label}</option> }
+                                        }).collect_view()}
+                                    </optgroup>
+                                }).collect_view()}
+                        </select>
+                        <span style:display=move || if est_kind.get() == Estimate::Quantile { "inline" } else { "none" }>
+                            <label for="est-q">" at "</label>
+                            <input id="est-q" inputmode="decimal" size="5" prop:value=move || est_q.get()
+                                on:input=move |ev| est_q.set(event_target_value(&ev))/>
+                            " (0.9 = 90th percentile)"
+                        </span>
+                    </div>
+                    <div class="row" style:display=move || if est_kind.get().kind() == Kind::One { "flex" } else { "none" }>
+                        <label for="est-value">"Values"</label>
+                        <ColumnSelect id="est-value" options=Signal::derive(column_options) chosen=est_value/>
+                        <label for="est-strata">"Resample within strata of"</label>
+                        <select id="est-strata" on:change=move |ev| est_strata.set(event_target_value(&ev))>
+                            <option value="" selected=move || est_strata.get().is_empty()>"(no strata)"</option>
+                            {move || column_options().into_iter().map(|(name, _)| {
+                                let (n2, n3) = (name.clone(), name.clone());
+                                view! { <option value=n3 selected=move || est_strata.get() == n2>{name}</option> }
+                            }).collect_view()}
+                        </select>
+                    </div>
+                    <div class="row" style:display=move || if est_kind.get().kind() == Kind::Association { "flex" } else { "none" }>
+                        <label for="est-x">"x"</label>
+                        <ColumnSelect id="est-x" options=Signal::derive(column_options) chosen=est_x/>
+                        <label for="est-y">"y"</label>
+                        <ColumnSelect id="est-y" options=Signal::derive(column_options) chosen=est_y/>
+                    </div>
+                    <div class="row" style:display=move || if est_kind.get().kind() == Kind::Two && layout_kind.get() == "wide" { "flex" } else { "none" }>
+                        <label class="choice">
+                            <input type="checkbox" id="paired" prop:checked=move || paired.get()
+                                on:change=move |ev| paired.set(event_target_checked(&ev))/>
+                            " Paired: each row is one unit measured in both columns (resample whole rows)"
+                        </label>
+                    </div>
+                    <div class="row">
+                        <label for="est-methods">"Interval method"</label>
+                        <select id="est-methods" on:change=move |ev| est_methods.set(event_target_value(&ev))>
+                            <option value="all" selected=true>"all five, side by side (BCa first)"</option>
+                            <option value="bca">"BCa (bias-corrected and accelerated)"</option>
+                            <option value="percentile">"percentile"</option>
+                            <option value="basic">"basic (reverse percentile)"</option>
+                            <option value="normal">"normal, with bootstrap SE"</option>
+                            <option value="studentized">"studentized (bootstrap-t)"</option>
+                        </select>
+                        <label for="side">"Give"</label>
+                        <select id="side" on:change=move |ev| {
+                            if let Some(x) = Side::from_key(&event_target_value(&ev)) { side.set(x) }
+                        }>
+                            <option value="two-sided">"a two-sided interval"</option>
+                            <option value="lower">"a lower bound only"</option>
+                            <option value="upper">"an upper bound only"</option>
+                        </select>
+                    </div>
+                </div>
+                <div class="row" style:display=move || if mode.get() == "compare" || est_kind.get().kind() == Kind::Two { "flex" } else { "none" }>
                     <label for="first">"Compare"</label>
                     <select id="first" on:change=move |ev| first.set(event_target_value(&ev))>
                         {move || levels.get().into_iter().map(|l| {
@@ -596,6 +784,7 @@ fn App() -> impl IntoView {
                         }).collect_view()}
                     </select>
                 </div>
+                <div class="compare-options" style:display=move || if mode.get() == "compare" { "block" } else { "none" }>
                 <div class="row">
                     <label for="statistic">"Measure the difference by"</label>
                     <select id="statistic" on:change=move |ev| {
@@ -625,6 +814,7 @@ fn App() -> impl IntoView {
                         }).collect_view()
                     }}
                 </fieldset>
+                </div>
                 <details class="settings">
                     <summary>"Resampling settings"</summary>
                     <div class="grid">
@@ -641,11 +831,13 @@ fn App() -> impl IntoView {
                         <input id="confidence" inputmode="decimal" prop:value=move || confidence.get()
                             on:input=move |ev| confidence.set(event_target_value(&ev))/>
                         <label for="interval">"Interval method"</label>
-                        <select id="interval" on:change=move |ev| {
-                            if let Some(m) = IntervalMethod::from_key(&event_target_value(&ev)) { interval.set(m) }
-                        }>
+                        <select id="interval" on:change=move |ev| interval_choice.set(event_target_value(&ev))>
                             <option value="bca">"BCa (bias-corrected and accelerated)"</option>
                             <option value="percentile">"percentile"</option>
+                            <option value="basic">"basic (reverse percentile)"</option>
+                            <option value="normal">"normal, with bootstrap SE"</option>
+                            <option value="studentized">"studentized (bootstrap-t)"</option>
+                            <option value="all">"all five, side by side"</option>
                         </select>
                         <label for="two-sided">"Two-sided p-value"</label>
                         <select id="two-sided" on:change=move |ev| {
@@ -695,7 +887,11 @@ fn App() -> impl IntoView {
                 {move || stale.get().then(|| view! {
                     <p class="stale">"The settings have changed since these findings were computed; run the analysis again to update them."</p>
                 })}
-                {move || report.get().map(|r| view! { <Findings report=r/> })}
+                {move || if mode.get() == "compare" {
+                    report.get().map(|r| view! { <Findings report=r/> }.into_any())
+                } else {
+                    estimated.get().map(|r| view! { <EstimateFindings report=r/> }.into_any())
+                }}
             </section>
         </main>
         <footer>
@@ -861,8 +1057,107 @@ fn Findings(report: Report) -> impl IntoView {
                     {g_note.map(|n| view! { <span class="note">{format!(" {n}")}</span> })}</dd>
                 <dt>"Seed and generator"</dt><dd>{format!("{} · {}", r.seed, r.rng)}</dd>
             </dl>
+            {(r.intervals.len() > 1).then(|| view! {
+                <table class="results" id="compare-intervals">
+                    <caption>{format!("{level} intervals for the {}, by method", r.effect_label)}</caption>
+                    <thead><tr><th scope="col">"method"</th><th scope="col">"low"</th><th scope="col">"high"</th><th scope="col">"note"</th></tr></thead>
+                    <tbody>
+                        {r.intervals.iter().map(|iv| {
+                            let name = IntervalMethod::from_key(&iv.method).map_or(iv.method.clone(), |m| m.label().to_string());
+                            let cell = |v: Option<f64>| v.map_or("—".to_string(), |x| fmt::fixed(x, d));
+                            view! { <tr><th scope="row">{name}</th><td>{cell(iv.low)}</td><td>{cell(iv.high)}</td><td class="note-cell">{iv.note.clone().unwrap_or_default()}</td></tr> }
+                        }).collect_view()}
+                    </tbody>
+                </table>
+            })}
             <aside class="cautions" aria-labelledby="cautions-title">
                 <h3 id="cautions-title">"Before you rely on this"</h3>
+                <ul>{r.cautions.iter().map(|c| view! { <li>{c.clone()}</li> }).collect_view()}</ul>
+            </aside>
+        </div>
+    }
+}
+
+#[component]
+fn EstimateFindings(report: EstimateReport) -> impl IntoView {
+    let r = report;
+    let headline = r.intervals[0].clone();
+    let d = match (headline.low, headline.high) {
+        (Some(l), Some(h)) if h > l => fmt::decimals_for(h - l),
+        _ => fmt::decimals_for(r.se.unwrap_or(1.0)),
+    };
+    let fig = plot::BootFigure {
+        label: &r.estimate_label,
+        estimate: r.estimate,
+        interval: &headline,
+        histogram: &r.histogram,
+        resamples: r.resamples,
+    };
+    let svg = plot::bootstrap_figure_svg(&fig, "est-plot");
+    let caption = plot::describe_bootstrap(&fig);
+    let cell = |v: Option<f64>, open: &str| v.map_or(open.to_string(), |x| fmt::fixed(x, d + 1));
+    let rows: Vec<(String, String, String, String)> = r
+        .intervals
+        .iter()
+        .map(|iv| {
+            let name = IntervalMethod::from_key(&iv.method)
+                .map_or(iv.method.clone(), |m| m.label().to_string());
+            (
+                name,
+                cell(iv.low, "−∞"),
+                cell(iv.high, "∞"),
+                iv.note.clone().unwrap_or_default(),
+            )
+        })
+        .chain(r.classical.iter().map(|c| {
+            (
+                format!("{} (classical cross-check)", c.method),
+                cell(c.low, "—"),
+                cell(c.high, "—"),
+                String::new(),
+            )
+        }))
+        .collect();
+    let sizes = r
+        .samples
+        .iter()
+        .map(|s| format!("{}: n = {}", s.name, s.n))
+        .collect::<Vec<_>>()
+        .join("; ");
+    view! {
+        <div class="findings" id="estimate-findings"
+            data-estimate=format!("{:?}", r.estimate)
+            data-low=format!("{:?}", headline.low)
+            data-high=format!("{:?}", headline.high)>
+            <p class="headline" id="estimate-finding">{r.finding.clone()}</p>
+            {(!r.notes.is_empty()).then(|| view! {
+                <ul class="notes">{r.notes.iter().map(|n| view! { <li>{n.clone()}</li> }).collect_view()}</ul>
+            })}
+            <div class="plots">
+                <figure>
+                    <div class="svg" inner_html=svg id="est-figure"></div>
+                    <figcaption>{caption}</figcaption>
+                </figure>
+            </div>
+            <table class="results" id="interval-table">
+                <caption>{format!("{} intervals for the {}", fmt::percent(headline.level), r.estimate_label)}</caption>
+                <thead><tr><th scope="col">"method"</th><th scope="col">"low"</th><th scope="col">"high"</th><th scope="col">"note"</th></tr></thead>
+                <tbody>
+                    {rows.into_iter().map(|(m, l, h, n)| view! {
+                        <tr><th scope="row">{m}</th><td>{l}</td><td>{h}</td><td class="note-cell">{n}</td></tr>
+                    }).collect_view()}
+                </tbody>
+            </table>
+            <dl class="numbers">
+                <dt>"Estimate"</dt><dd>{fmt::fixed(r.estimate, d + 1)}</dd>
+                <dt>"Bootstrap standard error"</dt><dd>{r.se.map_or("undefined".into(), fmt::sig)}</dd>
+                <dt>"Bootstrap bias estimate"</dt><dd>{r.bias.map_or("undefined".into(), fmt::sig)}</dd>
+                <dt>"Sample"</dt><dd>{sizes}</dd>
+                <dt>"Why this method first"</dt><dd>{r.method_reason.clone()}</dd>
+                <dt>"Seed and generator"</dt><dd>{format!("{} · {}", r.seed, r.rng)}</dd>
+            </dl>
+            <aside class="cautions" aria-labelledby="est-cautions-title">
+                <h3 id="est-cautions-title">"Before you rely on this"</h3>
                 <ul>{r.cautions.iter().map(|c| view! { <li>{c.clone()}</li> }).collect_view()}</ul>
             </aside>
         </div>

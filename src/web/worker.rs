@@ -6,7 +6,7 @@ use wasm_bindgen::JsCast;
 use web_sys::{DedicatedWorkerGlobalScope, MessageEvent};
 
 use crate::engine::analysis::{run, RunError};
-use crate::engine::protocol::{Progress, Request, WorkerMessage};
+use crate::engine::protocol::{Job, Progress, WorkerMessage};
 
 fn post(scope: &DedicatedWorkerGlobalScope, msg: &WorkerMessage) {
     let text = serde_json::to_string(msg).unwrap_or_else(|e| {
@@ -17,7 +17,7 @@ fn post(scope: &DedicatedWorkerGlobalScope, msg: &WorkerMessage) {
 
 /// Handles one request text.
 fn handle(scope: &DedicatedWorkerGlobalScope, text: &str) {
-    let req: Request = match serde_json::from_str(text) {
+    let job: Job = match serde_json::from_str(text) {
         Ok(r) => r,
         Err(e) => {
             post(
@@ -38,10 +38,18 @@ fn handle(scope: &DedicatedWorkerGlobalScope, text: &str) {
         }
         true
     };
-    let msg = match run(&req, &mut progress) {
-        Ok(report) => WorkerMessage::Done {
+    let result = match &job {
+        Job::Compare(req) => run(req, &mut progress).map(|report| WorkerMessage::Done {
             report: Box::new(report),
-        },
+        }),
+        Job::Estimate(req) => crate::engine::estimate::run(req, &mut progress).map(|report| {
+            WorkerMessage::Estimated {
+                report: Box::new(report),
+            }
+        }),
+    };
+    let msg = match result {
+        Ok(m) => m,
         Err(RunError::Input(message)) => WorkerMessage::Failed { message },
         Err(RunError::Cancelled) => WorkerMessage::Failed {
             message: "The analysis was stopped.".into(),

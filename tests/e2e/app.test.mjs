@@ -171,6 +171,36 @@ test("markup in the data is shown as text, never run", async () => {
   await page.close();
 });
 
+test("estimate only: every interval method, and the same numbers as the native command", async () => {
+  const { execFileSync } = await import("node:child_process");
+  execFileSync("cargo", ["build", "--quiet", "--bin", "reshuffle"], { cwd: root, stdio: "inherit" });
+  const json = JSON.parse(execFileSync(path.join(root, "target/debug/reshuffle"), [
+    "estimate", "demo-data/tomato-irrigation.csv", "--value", "yield_kg", "--estimate", "median",
+    "--interval", "all", "--seed", "777", "--json",
+  ], { cwd: root, encoding: "utf8" }));
+  const { page, errors } = await openPage();
+  await page.check("#mode-estimate");
+  await page.selectOption("#est-kind", "median");
+  await page.click("summary");
+  await page.fill("#seed", "777");
+  await page.click("#run");
+  await page.waitForSelector("#estimate-finding", { timeout: 60000 });
+  assert.match(await page.textContent("#estimate-finding"), /^The median of yield_kg is /);
+  const rows = await page.$$eval("#interval-table tbody tr", (trs) => trs.map((t) => t.textContent));
+  assert.equal(rows.length, 5);
+  for (const name of ["BCa", "percentile", "basic", "normal", "studentized"]) {
+    assert.ok(rows.some((r) => r.includes(name)), `${name} row`);
+  }
+  const some = (v) => (v === null ? "None" : `Some(${Number.isInteger(v) ? `${v}.0` : String(v)})`);
+  assert.equal(await page.getAttribute("#estimate-findings", "data-low"), some(json.intervals[0].low));
+  assert.equal(await page.getAttribute("#estimate-findings", "data-high"), some(json.intervals[0].high));
+  assert.equal(await page.textContent("#estimate-finding"), json.finding);
+  assert.ok(await page.$("#est-figure svg title"));
+  await page.screenshot({ path: path.join(out, "estimate.png"), fullPage: true });
+  assert.deepEqual(errors, []);
+  await page.close();
+});
+
 test("the page makes no request beyond its own files", async () => {
   const foreign = requests.filter((u) => !u.startsWith(base) && !u.startsWith("data:") && !u.startsWith("blob:"));
   assert.deepEqual(foreign, []);
