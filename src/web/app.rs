@@ -817,12 +817,12 @@ fn App() -> impl IntoView {
                 </div>
                 <details class="settings">
                     <summary>"Resampling settings"</summary>
-                    <div class="grid">
-                        <label for="resamples">"Random relabellings"</label>
-                        <input id="resamples" inputmode="numeric" prop:value=move || resamples.get()
+                    <div class="grid" class:estimating=move || mode.get() == "estimate">
+                        <label class="compare-only" for="resamples">"Random relabellings"</label>
+                        <input class="compare-only" id="resamples" inputmode="numeric" prop:value=move || resamples.get()
                             on:input=move |ev| resamples.set(event_target_value(&ev))/>
-                        <label for="exact-limit">"Enumerate every split when there are at most"</label>
-                        <input id="exact-limit" inputmode="numeric" prop:value=move || exact_limit.get()
+                        <label class="compare-only" for="exact-limit">"Enumerate every split when there are at most"</label>
+                        <input class="compare-only" id="exact-limit" inputmode="numeric" prop:value=move || exact_limit.get()
                             on:input=move |ev| exact_limit.set(event_target_value(&ev))/>
                         <label for="bootstrap">"Bootstrap resamples"</label>
                         <input id="bootstrap" inputmode="numeric" prop:value=move || bootstrap.get()
@@ -830,8 +830,8 @@ fn App() -> impl IntoView {
                         <label for="confidence">"Confidence level (%)"</label>
                         <input id="confidence" inputmode="decimal" prop:value=move || confidence.get()
                             on:input=move |ev| confidence.set(event_target_value(&ev))/>
-                        <label for="interval">"Interval method"</label>
-                        <select id="interval" on:change=move |ev| interval_choice.set(event_target_value(&ev))>
+                        <label class="compare-only" for="interval">"Interval method"</label>
+                        <select class="compare-only" id="interval" on:change=move |ev| interval_choice.set(event_target_value(&ev))>
                             <option value="bca">"BCa (bias-corrected and accelerated)"</option>
                             <option value="percentile">"percentile"</option>
                             <option value="basic">"basic (reverse percentile)"</option>
@@ -839,8 +839,8 @@ fn App() -> impl IntoView {
                             <option value="studentized">"studentized (bootstrap-t)"</option>
                             <option value="all">"all five, side by side"</option>
                         </select>
-                        <label for="two-sided">"Two-sided p-value"</label>
-                        <select id="two-sided" on:change=move |ev| {
+                        <label class="compare-only" for="two-sided">"Two-sided p-value"</label>
+                        <select class="compare-only" id="two-sided" on:change=move |ev| {
                             if let Some(m) = TwoSidedRule::from_key(&event_target_value(&ev)) { two_sided.set(m) }
                         }>
                             <option value="absolute">"count |relabelled| ≥ |observed|"</option>
