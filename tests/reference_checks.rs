@@ -366,3 +366,37 @@ fn percentile_interval_of_a_large_sample_mean_is_near_the_normal_approximation()
     assert!((iv.high.unwrap() - (m + half)).abs() < 0.03 * half);
     assert!((rep.se.unwrap() - se).abs() < 0.03 * se);
 }
+
+/// A published worked example: the law school data (Efron & Tibshirani 1993, "An
+/// Introduction to the Bootstrap", Table 3.1; r = .776 in section 3.3, and a bootstrap
+/// standard error of about .13 for B in the hundreds to thousands in Table 6.1 — values from
+/// memory, so the check on the SE is deliberately loose).
+#[test]
+fn law_school_correlation_and_its_bootstrap_se() {
+    use reshuffle::engine::estimate::{run as estimate, Estimate, EstimateLayout, EstimateRequest};
+    let data = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/reference/data/law-school.csv"
+    ))
+    .unwrap();
+    let mut r = EstimateRequest::new(
+        data,
+        EstimateLayout::Pairs {
+            x: "LSAT".into(),
+            y: "GPA".into(),
+        },
+        Estimate::Pearson,
+        1993,
+    );
+    r.resamples = 20_000;
+    let rep = estimate(&r, &mut |_| true).unwrap();
+    assert!(
+        (rep.estimate - 0.776).abs() < 0.0005,
+        "r = {}",
+        rep.estimate
+    );
+    let se = rep.se.unwrap();
+    assert!((0.115..0.145).contains(&se), "bootstrap SE {se}");
+    // The interval respects the bound r <= 1.
+    assert!(rep.intervals[0].high.unwrap() <= 1.0);
+}

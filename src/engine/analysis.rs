@@ -580,6 +580,7 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
         intervals,
         bootstrap_resamples: total_b,
         bootstrap_se: boot::standard_error(boot_effect),
+        bootstrap_bias: (!boot_effect.is_empty()).then(|| stats::mean(boot_effect) - effect),
         welch,
         hedges_g: EffectSize {
             name: "Hedges' g".into(),

@@ -358,6 +358,8 @@ pub struct Report {
     pub intervals: Vec<Interval>,
     pub bootstrap_resamples: u64,
     pub bootstrap_se: Option<f64>,
+    /// Mean of the bootstrap effects minus the effect.
+    pub bootstrap_bias: Option<f64>,
     pub welch: Welch,
     pub hedges_g: EffectSize,
     pub null_histogram: Histogram,
