@@ -1,13 +1,14 @@
 //! The native `reshuffle` command: the same request/report protocol as the page, for
 //! scripting and checking.
 
-use std::io::Read;
+use std::io::{Read, Write};
 
 use crate::engine::analysis::{self, RunError};
 use crate::engine::format as fmt;
 use crate::engine::protocol::*;
+use crate::engine::report::{interval_line, report_text};
 use crate::engine::table::HeaderChoice;
-use crate::engine::{finding, perm, rng};
+use crate::engine::{perm, rng};
 
 const USAGE: &str = "\
 reshuffle: permutation tests and bootstrap intervals for two groups
@@ -15,6 +16,9 @@ reshuffle: permutation tests and bootstrap intervals for two groups
 Usage:
   reshuffle analyze FILE [options]     test and estimate a two-group difference (FILE may be -)
   reshuffle estimate FILE [options]    bootstrap confidence intervals only, no test
+  reshuffle analyze --link URL [--json]      re-run the analysis in a share link
+  reshuffle analyze --request FILE.json      re-run a saved analysis file
+  reshuffle link FILE [options] [--base URL] print the share link of an analysis
   reshuffle bench                      compare the speed of the relabelling kernels
   reshuffle help                       show this text
 
@@ -37,6 +41,8 @@ The question:
   --confidence C                       confidence level (default 0.95)
   --seed S                             seed (default: a fresh one, printed with the result)
   --json                               print the report as one JSON object
+  --markdown                           print the findings as Markdown
+  --html FILE                          also write a self-contained HTML report
 
 Estimate only (reshuffle estimate):
   --value COL --estimate mean|median|trimmed-mean|sd|cv|quantile|proportion [--q 0.9]
@@ -59,6 +65,7 @@ pub fn main_with(
     let r = match args.first().map(String::as_str) {
         Some("analyze") | Some("analyse") => analyze(&args[1..], out),
         Some("estimate") => estimate(&args[1..], out),
+        Some("link") => link_command(&args[1..], out),
         Some("bench") => bench(out),
         Some("help") | Some("--help") | Some("-h") | None => {
             let _ = out.write_all(USAGE.as_bytes());
@@ -254,41 +261,159 @@ fn read_data(file: &str) -> Result<String, String> {
     })
 }
 
-fn analyze(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> {
-    let (req, json) = request_from_args(args, &mut |f| read_data(f))?;
-    let report = analysis::run(&req, &mut |_| true).map_err(|e| match e {
-        RunError::Input(m) => m,
-        RunError::Cancelled => "stopped".into(),
-    })?;
-    let text = if json {
-        serde_json::to_string_pretty(&report).map_err(|e| e.to_string())? + "\n"
-    } else {
-        report_text(&report)
+/// Options every command that prints findings shares: where else to write them.
+struct Outputs {
+    json: bool,
+    markdown: bool,
+    html: Option<String>,
+}
+
+/// Takes `--markdown` and `--html FILE` out of the arguments.
+fn take_outputs(args: &[String]) -> Result<(Vec<String>, Outputs), String> {
+    let mut rest = Vec::new();
+    let mut o = Outputs {
+        json: false,
+        markdown: false,
+        html: None,
     };
+    let mut i = 0;
+    while i < args.len() {
+        match args[i].as_str() {
+            "--markdown" => o.markdown = true,
+            "--html" => {
+                i += 1;
+                o.html = Some(args.get(i).cloned().ok_or("--html needs a file name.")?);
+            }
+            _ => rest.push(args[i].clone()),
+        }
+        i += 1;
+    }
+    Ok((rest, o))
+}
+
+fn today() -> String {
+    let secs = std::time::SystemTime::now()
+        .duration_since(std::time::UNIX_EPOCH)
+        .map(|d| d.as_secs() as i64)
+        .unwrap_or(0);
+    crate::engine::report::iso_date(secs)
+}
+
+/// Runs a job and prints its findings as asked.
+fn run_job(job: &Job, o: &Outputs, out: &mut dyn std::io::Write) -> Result<(), String> {
+    use crate::engine::report;
+    let date = today();
+    let (text, html) = match job {
+        Job::Compare(req) => {
+            let rep = analysis::run(req, &mut |_| true).map_err(|e| match e {
+                RunError::Input(m) => m,
+                RunError::Cancelled => "stopped".into(),
+            })?;
+            let text = if o.json {
+                serde_json::to_string_pretty(&rep).map_err(|e| e.to_string())? + "\n"
+            } else if o.markdown {
+                report::markdown(&rep, &date)
+            } else {
+                report_text(&rep)
+            };
+            (text, o.html.as_ref().map(|_| report::html(&rep, &date)))
+        }
+        Job::Estimate(req) => {
+            let rep =
+                crate::engine::estimate::run(req, &mut |_| true).map_err(|e| e.to_string())?;
+            let text = if o.json {
+                serde_json::to_string_pretty(&rep).map_err(|e| e.to_string())? + "\n"
+            } else if o.markdown {
+                report::estimate_markdown(&rep, &date)
+            } else {
+                report::estimate_text(&rep)
+            };
+            (
+                text,
+                o.html.as_ref().map(|_| report::estimate_html(&rep, &date)),
+            )
+        }
+    };
+    if let (Some(path), Some(h)) = (&o.html, html) {
+        std::fs::write(path, h).map_err(|e| format!("Could not write \"{path}\": {e}"))?;
+    }
     out.write_all(text.as_bytes()).map_err(|e| e.to_string())
 }
 
-/// "percentile: 95% CI [0.10, 0.92]" or the reason there is none.
-pub fn interval_line(iv: &Interval, d: usize) -> String {
-    let name = IntervalMethod::from_key(&iv.method).map_or(iv.method.as_str(), |m| m.label());
-    let body = match (iv.side, iv.low, iv.high) {
-        (Side::TwoSided, Some(l), Some(h)) => fmt::ci(iv.level, l, h, d),
-        (Side::Lower, Some(l), _) => format!(
-            "{} lower bound {}",
-            fmt::percent(iv.level),
-            fmt::fixed(l, d)
-        ),
-        (Side::Upper, _, Some(h)) => format!(
-            "{} upper bound {}",
-            fmt::percent(iv.level),
-            fmt::fixed(h, d)
-        ),
-        _ => "no interval".to_string(),
-    };
-    match &iv.note {
-        Some(n) => format!("{name}: {body} ({n})"),
-        None => format!("{name}: {body}"),
+/// Reads an analysis file: a job (as the page saves it) or a bare two-group request.
+pub fn read_job(text: &str, name: &str) -> Result<Job, String> {
+    match serde_json::from_str::<Job>(text) {
+        Ok(j) => Ok(j),
+        Err(e1) => serde_json::from_str::<Request>(text)
+            .map(Job::Compare)
+            .map_err(|_| format!("\"{name}\" is not a Reshuffle analysis file ({e1}).")),
     }
+}
+
+fn analyze(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> {
+    let (args, mut o) = take_outputs(args)?;
+    // A saved analysis or a share link replaces the data file and the settings.
+    let pos = |flag: &str| args.iter().position(|a| a == flag);
+    if let Some(i) = pos("--link").or_else(|| pos("--request")) {
+        let value = args
+            .get(i + 1)
+            .ok_or_else(|| format!("{} needs a value.", args[i]))?;
+        let others: Vec<&String> = args
+            .iter()
+            .enumerate()
+            .filter(|(k, _)| *k != i && *k != i + 1)
+            .map(|(_, a)| a)
+            .collect();
+        for a in &others {
+            if a.as_str() != "--json" {
+                return Err(format!(
+                    "{} takes the whole analysis from the {}; {a} cannot be combined with it.",
+                    args[i],
+                    if args[i] == "--link" { "link" } else { "file" }
+                ));
+            }
+        }
+        o.json = !others.is_empty();
+        let job = if args[i] == "--link" {
+            crate::engine::link::decode(value)?
+        } else {
+            read_job(&read_data(value)?, value)?
+        };
+        return run_job(&job, &o, out);
+    }
+    let (req, json) = request_from_args(&args, &mut |f| read_data(f))?;
+    o.json = json;
+    run_job(&Job::Compare(req), &o, out)
+}
+
+/// `reshuffle link FILE [analyze options] [--base URL]`: the share link of an analysis.
+fn link_command(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> {
+    let mut base = "http://127.0.0.1:8080/".to_string();
+    let mut rest = Vec::new();
+    let mut i = 0;
+    while i < args.len() {
+        if args[i] == "--base" {
+            i += 1;
+            base = args
+                .get(i)
+                .cloned()
+                .ok_or("--base needs the page's address.")?;
+        } else {
+            rest.push(args[i].clone());
+        }
+        i += 1;
+    }
+    let (req, _) = request_from_args(&rest, &mut |f| read_data(f))?;
+    let l = crate::engine::link::link(&base, &Job::Compare(req));
+    if l.len() > crate::engine::link::LONG_LINK {
+        let _ = writeln!(
+            std::io::stderr(),
+            "reshuffle: note: the link is {} characters long; some chat and mail programs cut links over {}.",
+            l.len(),
+            crate::engine::link::LONG_LINK
+        );
+    }
+    writeln!(out, "{l}").map_err(|e| e.to_string())
 }
 
 fn estimate(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> {
@@ -448,111 +573,6 @@ fn estimate(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String>
         s
     };
     out.write_all(text.as_bytes()).map_err(|e| e.to_string())
-}
-
-/// The findings in words, as on the page.
-pub fn report_text(r: &Report) -> String {
-    let d = finding::effect_decimals(r);
-    let mut s = String::new();
-    s.push_str(&r.finding);
-    s.push_str("\n\n");
-    for n in &r.notes {
-        s.push_str(&format!("Note: {n}\n"));
-    }
-    if !r.notes.is_empty() {
-        s.push('\n');
-    }
-    s.push_str(&format!(
-        "{:<12} {:>6} {:>12} {:>12} {:>12} {:>12}\n",
-        "group", "n", "mean", "median", "SD", "trim. mean"
-    ));
-    for g in &r.groups {
-        s.push_str(&format!(
-            "{:<12} {:>6} {:>12} {:>12} {:>12} {:>12}\n",
-            g.name,
-            g.n,
-            fmt::fixed(g.mean, d + 1),
-            fmt::fixed(g.median, d + 1),
-            fmt::fixed(g.sd, d + 1),
-            fmt::fixed(g.trimmed_mean, d + 1)
-        ));
-    }
-    s.push('\n');
-    s.push_str(&format!(
-        "Statistic: {} = {}\n",
-        r.statistic_label,
-        fmt::sig(r.observed)
-    ));
-    if r.exact {
-        s.push_str(&format!(
-            "p-value: {} (exact, all {} relabellings enumerated)\n",
-            fmt::p_number(r.p_value),
-            fmt::count(r.resamples)
-        ));
-    } else {
-        s.push_str(&format!(
-            "p-value: {:.5} (Monte Carlo, {} relabellings; MC standard error {:.5}",
-            r.p_value,
-            fmt::count(r.resamples),
-            r.mc_se.unwrap_or(0.0)
-        ));
-        if let Some(pi) = &r.p_interval {
-            s.push_str(&format!("; 99% interval {:.5} to {:.5}", pi.low, pi.high));
-        }
-        s.push_str(")\n");
-    }
-    match (r.ci.low, r.ci.high) {
-        (Some(l), Some(h)) => s.push_str(&format!(
-            "{} {}: {} {} ({}, {} resamples)\n",
-            r.effect_label,
-            fmt::fixed(r.effect, d),
-            fmt::percent(r.ci.level),
-            format_args!("CI [{}, {}]", fmt::fixed(l, d), fmt::fixed(h, d)),
-            r.ci.method,
-            fmt::count(r.bootstrap_resamples)
-        )),
-        _ => s.push_str(&format!(
-            "{} {}: no interval\n",
-            r.effect_label,
-            fmt::fixed(r.effect, d)
-        )),
-    }
-    if let Some(n) = &r.ci.note {
-        s.push_str(&format!("  ({n})\n"));
-    }
-    if r.intervals.len() > 1 {
-        for iv in &r.intervals[1..] {
-            s.push_str(&format!("  {}\n", interval_line(iv, d)));
-        }
-    }
-    match (r.welch.t, r.welch.df, r.welch.p_value) {
-        (Some(t), Some(df), Some(p)) => {
-            s.push_str(&format!(
-                "Welch t-test (cross-check): t = {:.3}, df = {:.2}, p = {:.5}",
-                t, df, p
-            ));
-            if let (Some(l), Some(h)) = (r.welch.ci.low, r.welch.ci.high) {
-                s.push_str(&format!(", {}", fmt::ci(r.welch.ci.level, l, h, d)));
-            }
-            s.push('\n');
-        }
-        _ => s.push_str("Welch t-test (cross-check): undefined (no spread)\n"),
-    }
-    match r.hedges_g.estimate {
-        Some(g) => {
-            s.push_str(&format!("Hedges' g: {:.3}", g));
-            if let (Some(l), Some(h)) = (r.hedges_g.ci.low, r.hedges_g.ci.high) {
-                s.push_str(&format!(", {}", fmt::ci(r.hedges_g.ci.level, l, h, 3)));
-            }
-            s.push('\n');
-        }
-        None => s.push_str("Hedges' g: undefined (no spread)\n"),
-    }
-    s.push_str(&format!("Seed: {} ({})\n\n", r.seed, r.rng));
-    for c in &r.cautions {
-        s.push_str(&format!("- {c}\n"));
-    }
-    s
 }
 
 /// Speed of the relabelling kernels, side by side in one run (ratios, not absolute targets).

@@ -140,3 +140,67 @@ fn wide_format_and_errors() {
     assert_ne!(code, 0);
     assert!(err.contains("no column named \"colour\""), "{err}");
 }
+
+#[test]
+fn share_link_and_saved_file_reproduce_the_json() {
+    let opts = [
+        "demo-data/tomato-irrigation.csv",
+        "--statistic",
+        "median-difference",
+        "--seed",
+        "11",
+        "--resamples",
+        "3000",
+        "--bootstrap",
+        "1000",
+    ];
+    let direct: Vec<&str> = ["analyze"]
+        .iter()
+        .chain(opts.iter())
+        .chain(["--json"].iter())
+        .copied()
+        .collect();
+    let (_, want, _) = reshuffle(&direct);
+    let link_args: Vec<&str> = ["link"]
+        .iter()
+        .chain(opts.iter())
+        .chain(["--base", "http://127.0.0.1:9/x.html"].iter())
+        .copied()
+        .collect();
+    let (code, link, err) = reshuffle(&link_args);
+    assert_eq!(code, 0, "{err}");
+    assert!(link.starts_with("http://127.0.0.1:9/x.html#r1."), "{link}");
+    let (code, got, err) = reshuffle(&["analyze", "--link", link.trim(), "--json"]);
+    assert_eq!(code, 0, "{err}");
+    assert_eq!(got, want);
+    // A saved analysis file (the job JSON the page saves) gives the same numbers.
+    let job = reshuffle::engine::link::decode(link.trim()).unwrap();
+    let dir = std::env::temp_dir().join(format!("reshuffle-cli-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let file = dir.join("analysis.json");
+    std::fs::write(&file, serde_json::to_string(&job).unwrap()).unwrap();
+    let (code, got, err) = reshuffle(&["analyze", "--request", file.to_str().unwrap(), "--json"]);
+    assert_eq!(code, 0, "{err}");
+    assert_eq!(got, want);
+    // And an HTML report lands where asked.
+    let html = dir.join("report.html");
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "--request",
+        file.to_str().unwrap(),
+        "--html",
+        html.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let h = std::fs::read_to_string(&html).unwrap();
+    assert!(h.contains("<svg") && h.contains("Methods") && !h.contains("<script"));
+    // A tampered link is refused with a message.
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "--link",
+        &link.trim().replace("#r1.", "#r1.x"),
+        "--json",
+    ]);
+    assert_ne!(code, 0);
+    assert!(err.contains("damaged"), "{err}");
+}

@@ -592,7 +592,20 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
         bootstrap_histogram,
         finding: String::new(),
         cautions: Vec::new(),
+        null_values: None,
+        bootstrap_values: None,
     };
+    if req.keep_resamples {
+        let keep = |v: &[f64]| v[..v.len().min(MAX_KEPT)].to_vec();
+        report.null_values = Some(keep(&null.values));
+        report.bootstrap_values = Some(keep(boot_effect));
+        if null.values.len() > MAX_KEPT {
+            report.notes.push(format!(
+                "Only the first {} relabelled statistics are kept for download.",
+                fmt::count(MAX_KEPT as u64)
+            ));
+        }
+    }
     report.finding = super::finding::sentence(&report);
     report.cautions = super::finding::cautions(&report);
     Ok(report)

@@ -204,6 +204,9 @@ pub struct EstimateRequest {
     pub confidence: f64,
     pub resamples: u64,
     pub seed: u64,
+    /// Return every bootstrap value (for a CSV download).
+    #[serde(default)]
+    pub keep_resamples: bool,
 }
 
 impl EstimateRequest {
@@ -225,6 +228,7 @@ impl EstimateRequest {
             confidence: 0.95,
             resamples: 10_000,
             seed,
+            keep_resamples: false,
         }
     }
 }
@@ -259,6 +263,9 @@ pub struct EstimateReport {
     pub histogram: Histogram,
     pub finding: String,
     pub cautions: Vec<String>,
+    /// Every bootstrap value, in order (only when asked for).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub values: Option<Vec<f64>>,
 }
 
 // ----- statistics -------------------------------------------------------------------
@@ -916,6 +923,7 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
         histogram,
         finding: String::new(),
         cautions: Vec::new(),
+        values: req.keep_resamples.then(|| values[0].clone()),
     };
     report.finding = finding(&report);
     report.cautions = cautions(&report, n_min);

@@ -228,7 +228,14 @@ pub struct Request {
     #[serde(default)]
     pub more_intervals: Vec<IntervalMethod>,
     pub seed: u64,
+    /// Return every relabelled and bootstrap statistic (for a CSV download); up to
+    /// [`MAX_KEPT`] of each.
+    #[serde(default)]
+    pub keep_resamples: bool,
 }
+
+/// The most resampled statistics a report carries.
+pub const MAX_KEPT: usize = 1_000_000;
 
 impl Request {
     /// The defaults the page and the command start from.
@@ -250,6 +257,7 @@ impl Request {
             interval: IntervalMethod::Bca,
             more_intervals: Vec::new(),
             seed,
+            keep_resamples: false,
         }
     }
 }
@@ -367,6 +375,12 @@ pub struct Report {
     pub bootstrap_histogram: Histogram,
     pub finding: String,
     pub cautions: Vec<String>,
+    /// Every relabelled statistic, in order (only when asked for).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub null_values: Option<Vec<f64>>,
+    /// Every bootstrap effect, in order (only when asked for).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub bootstrap_values: Option<Vec<f64>>,
 }
 
 /// A step of a long run, for progress display.
