@@ -12,9 +12,12 @@ use crate::engine::estimate::{Estimate, EstimateLayout, EstimateReport, Estimate
 use crate::engine::finding;
 use crate::engine::format as fmt;
 use crate::engine::groups;
+use crate::engine::link;
 use crate::engine::plot;
 use crate::engine::protocol::*;
+use crate::engine::report;
 use crate::engine::table::{self, ColumnKind, HeaderChoice};
+use crate::web::share;
 
 /// Invented example tables, built into the page so it works without fetching anything.
 const EXAMPLES: [(&str, &str, &str); 2] = [
@@ -72,7 +75,12 @@ thread_local! {
 fn spawn_worker(sinks: Sinks) -> Result<(), String> {
     let opts = web_sys::WorkerOptions::new();
     opts.set_type(web_sys::WorkerType::Classic);
-    let worker = web_sys::Worker::new_with_options(WORKER_URL, &opts)
+    // The single-file offline build starts the worker from a Blob URL it sets here.
+    let url = web_sys::window()
+        .and_then(|w| js_sys::Reflect::get(&w, &JsValue::from_str("RESHUFFLE_WORKER_URL")).ok())
+        .and_then(|v| v.as_string())
+        .unwrap_or_else(|| WORKER_URL.to_string());
+    let worker = web_sys::Worker::new_with_options(&url, &opts)
         .map_err(|e| format!("The computing worker could not be started ({e:?})."))?;
     let on_message =
         Closure::<dyn FnMut(web_sys::MessageEvent)>::new(move |ev: web_sys::MessageEvent| {
@@ -405,6 +413,7 @@ fn App() -> impl IntoView {
         r.statistic = statistic.get_untracked();
         r.alternative = alternative.get_untracked();
         r.two_sided = two_sided.get_untracked();
+        r.keep_resamples = true;
         let ms = methods_from(&interval_choice.get_untracked());
         r.interval = ms[0];
         r.more_intervals = ms[1..].to_vec();
@@ -453,6 +462,7 @@ fn App() -> impl IntoView {
         r.resamples = base.bootstrap_resamples;
         r.methods = methods_from(&est_methods.get_untracked());
         r.side = side.get_untracked();
+        r.keep_resamples = true;
         if e == Estimate::Quantile {
             let t = est_q.get_untracked();
             let v: f64 = t.trim().replace(',', ".").parse().map_err(|_| {
@@ -553,6 +563,221 @@ fn App() -> impl IntoView {
         }
     });
 
+    // Share links, saved analysis files and the address bar.
+    let link_error = RwSignal::new(String::new());
+    let share_link = RwSignal::new(String::new());
+    let share_note = RwSignal::new(String::new());
+    let restore = move |job: Job| {
+        let (base, seed_value) = match &job {
+            Job::Compare(r) => (r.clone(), r.seed),
+            Job::Estimate(r) => {
+                let mut b = Request::new(r.data.clone(), r.seed);
+                b.header = r.header;
+                b.confidence = r.confidence;
+                b.bootstrap_resamples = r.resamples;
+                (b, r.seed)
+            }
+        };
+        data.set(base.data.clone());
+        example.set(String::new());
+        header.set(base.header);
+        let set_layout = |l: &Layout| match l {
+            Layout::Long { value, group } => {
+                layout_kind.set("long".into());
+                value_col.set(value.clone());
+                group_col.set(group.clone());
+            }
+            Layout::Wide { columns } => {
+                layout_kind.set("wide".into());
+                col_a.set(columns.first().cloned().unwrap_or_default());
+                col_b.set(columns.get(1).cloned().unwrap_or_default());
+            }
+            Layout::Detect => {
+                // Resolve now, so that a run straight after restoring has its columns.
+                if let Ok(t) = table::parse(&data.get_untracked(), header.get_untracked()) {
+                    match groups::detect_layout(&t) {
+                        Ok(Layout::Long { value, group }) => {
+                            layout_kind.set("long".into());
+                            value_col.set(value);
+                            group_col.set(group);
+                        }
+                        Ok(Layout::Wide { columns }) => {
+                            layout_kind.set("wide".into());
+                            col_a.set(columns[0].clone());
+                            col_b.set(columns[1].clone());
+                        }
+                        _ => {}
+                    }
+                }
+            }
+        };
+        let method_choice = |ms: &[IntervalMethod]| {
+            if ms.len() == IntervalMethod::ALL.len() {
+                "all".to_string()
+            } else {
+                ms.first()
+                    .copied()
+                    .unwrap_or(IntervalMethod::Bca)
+                    .key()
+                    .to_string()
+            }
+        };
+        match &job {
+            Job::Compare(r) => {
+                mode.set("compare".into());
+                set_layout(&r.layout);
+                if let Some(f) = &r.first {
+                    first.set(f.clone());
+                }
+                if let Some(s2) = &r.second {
+                    second.set(s2.clone());
+                }
+                statistic.set(r.statistic);
+                alternative.set(r.alternative);
+                two_sided.set(r.two_sided);
+                let ms: Vec<IntervalMethod> = std::iter::once(r.interval)
+                    .chain(r.more_intervals.iter().copied())
+                    .collect();
+                interval_choice.set(method_choice(&ms));
+                resamples.set(r.resamples.to_string());
+                exact_limit.set(r.exact_limit.to_string());
+                bootstrap.set(r.bootstrap_resamples.to_string());
+            }
+            Job::Estimate(r) => {
+                mode.set("estimate".into());
+                est_kind.set(r.estimate);
+                if let Some(q) = r.q {
+                    est_q.set(format!("{q}"));
+                }
+                match &r.layout {
+                    EstimateLayout::One { value, strata } => {
+                        est_value.set(value.clone());
+                        est_strata.set(strata.clone().unwrap_or_default());
+                    }
+                    EstimateLayout::Groups {
+                        layout,
+                        first: f,
+                        second: s2,
+                        paired: p,
+                    } => {
+                        set_layout(layout);
+                        if let Some(f) = f {
+                            first.set(f.clone());
+                        }
+                        if let Some(s2) = s2 {
+                            second.set(s2.clone());
+                        }
+                        paired.set(*p);
+                    }
+                    EstimateLayout::Pairs { x, y } => {
+                        est_x.set(x.clone());
+                        est_y.set(y.clone());
+                    }
+                }
+                est_methods.set(method_choice(&r.methods));
+                side.set(r.side);
+                bootstrap.set(r.resamples.to_string());
+            }
+        }
+        confidence.set(format!("{}", (base.confidence * 1e6).round() / 1e4));
+        seed.set(seed_value.to_string());
+    };
+    let has_data = move |job: &Job| match job {
+        Job::Compare(r) => !r.data.trim().is_empty(),
+        Job::Estimate(r) => !r.data.trim().is_empty(),
+    };
+    // Open the analysis in the address, if any.
+    let opened_from_link = {
+        let frag = share::fragment();
+        if frag.is_empty() {
+            false
+        } else {
+            match link::decode(&frag) {
+                Ok(job) => {
+                    let full = has_data(&job);
+                    restore(job);
+                    if !full {
+                        link_error.set("This link holds the settings only: paste the data in step 1, then run the analysis.".into());
+                    }
+                    full
+                }
+                Err(e) => {
+                    link_error.set(format!(
+                        "{e} The page has opened with the example data instead."
+                    ));
+                    false
+                }
+            }
+        }
+    };
+    if opened_from_link {
+        run();
+    }
+    // Keep the address bar a working link once a seed is set.
+    Effect::new(move |_| {
+        let _ = (stale.get(), seed.get(), data.get());
+        if seed.get().trim().is_empty() {
+            return;
+        }
+        if let Ok(s2) = parse_count("Seed", &seed.get()) {
+            if let Ok(job) = build_job(s2) {
+                share::set_fragment(&link::encode(&job));
+            }
+        }
+    });
+    let job_for_sharing = move || -> Option<Job> { last_job.get_untracked() };
+    let copy_link = move |settings_only: bool| {
+        let Some(job) = job_for_sharing() else { return };
+        let job = if settings_only {
+            link::without_data(&job)
+        } else {
+            job
+        };
+        let l = link::link(&share::base_url(), &job);
+        share::copy(&l);
+        share_note.set(if settings_only {
+            "Settings-only link copied (the collaborator pastes the data). It is also shown below.".into()
+        } else if l.len() > link::LONG_LINK {
+            format!(
+                "This link is {} characters long; chat and mail programs often cut links over {}. Copy a settings-only link, or save the analysis as a file and send that.",
+                fmt::count(l.len() as u64),
+                fmt::count(link::LONG_LINK as u64)
+            )
+        } else {
+            "Link copied. It contains the data itself: share it only with people who may see the data.".into()
+        });
+        share_link.set(l);
+    };
+    let save_job = move || {
+        if let Some(job) = job_for_sharing() {
+            let text = serde_json::to_string_pretty(&job).unwrap_or_default();
+            let _ = share::download("reshuffle-analysis.json", "application/json", &text);
+        }
+    };
+    let open_job_file = move |file: web_sys::File| {
+        let name = file.name();
+        let promise = file.text();
+        leptos::task::spawn_local(async move {
+            let Ok(v) = wasm_bindgen_futures::JsFuture::from(promise).await else {
+                link_error.set(format!("\"{name}\" could not be read."));
+                return;
+            };
+            let text = v.as_string().unwrap_or_default();
+            match serde_json::from_str::<Job>(&text) {
+                Ok(job) => {
+                    link_error.set(String::new());
+                    restore(job);
+                    file_note.set(format!(
+                        "Opened the analysis saved in \"{name}\"; run it to see the findings."
+                    ));
+                }
+                Err(e) => link_error.set(format!(
+                    "\"{name}\" is not a saved Reshuffle analysis ({e}). Nothing was changed."
+                )),
+            }
+        });
+    };
+
     let load_text = move |text: String, note: String| {
         data.set(text);
         file_note.set(note);
@@ -578,8 +803,10 @@ fn App() -> impl IntoView {
         <main>
             <section class="step" aria-labelledby="step-data">
                 <h2 id="step-data"><span class="step-no">"1"</span>" The data"</h2>
+                <p class="error" role="alert" id="link-error">{move || link_error.get()}</p>
                 <p class="privacy">
-                    "Your data stays on this computer: it is read and analysed inside this page, and nothing is uploaded."
+                    "Your data stays on this computer: it is read and analysed inside this page, and nothing is uploaded. "
+                    "A share link carries the data itself (in the part after #, which browsers do not send to servers): treat a link like the data."
                 </p>
                 <div class="data-inputs">
                     <label for="example">"Start from an example"</label>
@@ -610,6 +837,17 @@ fn App() -> impl IntoView {
                             }/>
                     </label>
                 </div>
+                <label class="file-pick">
+                    "Open a saved analysis (.json)"
+                    <input type="file" id="open-analysis" accept=".json,application/json"
+                        on:change=move |ev| {
+                            let input: web_sys::HtmlInputElement = event_target(&ev);
+                            if let Some(file) = input.files().and_then(|f| f.get(0)) {
+                                open_job_file(file);
+                            }
+                            input.set_value("");
+                        }/>
+                </label>
                 <label for="data" class="block-label">"Paste a table here (from a spreadsheet, or comma-, semicolon- or tab-separated text), or drop a file on it"</label>
                 <textarea id="data" rows="10" spellcheck="false"
                     prop:value=move || data.get()
@@ -887,6 +1125,78 @@ fn App() -> impl IntoView {
                 {move || stale.get().then(|| view! {
                     <p class="stale">"The settings have changed since these findings were computed; run the analysis again to update them."</p>
                 })}
+                {move || (report.get().is_some() || estimated.get().is_some()).then(|| view! {
+                    <div class="share" id="share">
+                        <h3>"Share and save"</h3>
+                        <div class="share-buttons">
+                            <button type="button" class="secondary" id="copy-link" on:click=move |_| copy_link(false)>"Copy link"</button>
+                            <button type="button" class="secondary" id="copy-settings-link" on:click=move |_| copy_link(true)>"Copy settings-only link"</button>
+                            <button type="button" class="secondary" id="save-analysis" on:click=move |_| save_job()>"Save analysis file"</button>
+                            <button type="button" class="secondary" id="copy-text" on:click=move |_| {
+                                let t = current_text(mode.get_untracked(), report.get_untracked(), estimated.get_untracked(), false);
+                                share::copy(&t);
+                                share_note.set("Findings copied as plain text.".into());
+                            }>"Copy as text"</button>
+                            <button type="button" class="secondary" id="copy-markdown" on:click=move |_| {
+                                let t = current_text(mode.get_untracked(), report.get_untracked(), estimated.get_untracked(), true);
+                                share::copy(&t);
+                                share_note.set("Findings copied as Markdown.".into());
+                            }>"Copy as Markdown"</button>
+                            <button type="button" class="secondary" id="download-report" on:click=move |_| {
+                                let h = match (mode.get_untracked().as_str(), report.get_untracked(), estimated.get_untracked()) {
+                                    ("compare", Some(r), _) => report::html(&r, &share::today()),
+                                    (_, _, Some(e)) => report::estimate_html(&e, &share::today()),
+                                    _ => return,
+                                };
+                                let _ = share::download("reshuffle-report.html", "text/html", &h);
+                            }>"Download report (HTML)"</button>
+                            <button type="button" class="secondary" id="download-csv" on:click=move |_| {
+                                if mode.get_untracked() == "compare" {
+                                    if let Some(r) = report.get_untracked() {
+                                        let _ = share::download("reshuffle-results.csv", "text/csv", &report::results_csv(&r));
+                                    }
+                                } else if let Some(e) = estimated.get_untracked() {
+                                    let rows: Vec<Vec<String>> = e.intervals.iter().map(|iv| vec![
+                                        iv.method.clone(), iv.low.map_or(String::new(), |v| format!("{v:?}")),
+                                        iv.high.map_or(String::new(), |v| format!("{v:?}")), iv.note.clone().unwrap_or_default()]).collect();
+                                    let _ = share::download("reshuffle-intervals.csv", "text/csv", &report::csv_table(&["method", "low", "high", "note"], &rows));
+                                }
+                            }>"Results (CSV)"</button>
+                            <button type="button" class="secondary" id="download-values" on:click=move |_| {
+                                let csv = if mode.get_untracked() == "compare" {
+                                    report.get_untracked().map(|r| report::values_csv(&[
+                                        ("relabelled", r.null_values.as_deref().unwrap_or(&[])),
+                                        ("bootstrap", r.bootstrap_values.as_deref().unwrap_or(&[])),
+                                    ]))
+                                } else {
+                                    estimated.get_untracked().map(|e| report::values_csv(&[("bootstrap", e.values.as_deref().unwrap_or(&[]))]))
+                                };
+                                if let Some(c) = csv {
+                                    let _ = share::download("reshuffle-resampled.csv", "text/csv", &c);
+                                }
+                            }>"Resampled statistics (CSV)"</button>
+                        </div>
+                        <div class="share-buttons">
+                            {move || figures(mode.get(), report.get(), estimated.get()).into_iter().map(|(name, svg)| {
+                                let (svg2, name2) = (svg.clone(), name.clone());
+                                view! {
+                                    <button type="button" class="secondary" on:click=move |_| {
+                                        let _ = share::download(&format!("reshuffle-{name}.svg"), "image/svg+xml", &svg);
+                                    }>{format!("Figure: {name} (SVG)")}</button>
+                                    <button type="button" class="secondary" on:click=move |_| {
+                                        let sized = svg2.replacen("width=\"100%\"", "width=\"640\" height=\"300\"", 1);
+                                        let _ = share::download_png(&format!("reshuffle-{name2}.png"), &sized, 640, 300);
+                                    }>{format!("Figure: {name2} (PNG)")}</button>
+                                }
+                            }).collect_view()}
+                        </div>
+                        <p class="hint" aria-live="polite" id="share-note">{move || share_note.get()}</p>
+                        {move || (!share_link.get().is_empty()).then(|| view! {
+                            <label for="share-link" class="block-label">"Link"</label>
+                            <input id="share-link" class="share-link" readonly=true prop:value=move || share_link.get()/>
+                        })}
+                    </div>
+                })}
                 {move || if mode.get() == "compare" {
                     report.get().map(|r| view! { <Findings report=r/> }.into_any())
                 } else {
@@ -896,7 +1206,69 @@ fn App() -> impl IntoView {
         </main>
         <footer>
             <p>{format!("Reshuffle {ENGINE_VERSION} · computed in your browser · generator: {}", crate::engine::rng::RNG_NAME)}</p>
+            {(!is_offline()).then(|| view! {
+                <p><a href="./reshuffle-offline.html" download="reshuffle-offline.html" id="offline-download">
+                    "Download Reshuffle as one file"</a>" to use without a server or network (open it from disk in a current browser)."</p>
+            })}
         </footer>
+    }
+}
+
+/// Whether this is the single-file offline build.
+fn is_offline() -> bool {
+    web_sys::window()
+        .and_then(|w| js_sys::Reflect::get(&w, &JsValue::from_str("RESHUFFLE_OFFLINE")).ok())
+        .is_some_and(|v| v.is_truthy())
+}
+
+/// The figures on screen, as (short name, SVG text).
+fn figures(mode: String, r: Option<Report>, e: Option<EstimateReport>) -> Vec<(String, String)> {
+    match (mode.as_str(), r, e) {
+        ("compare", Some(r), _) => vec![
+            ("relabelling".into(), plot::null_svg(&r, "dl-null")),
+            ("bootstrap".into(), plot::bootstrap_svg(&r, "dl-boot")),
+        ],
+        (_, _, Some(e)) => {
+            let fig = plot::BootFigure {
+                label: &e.estimate_label,
+                estimate: e.estimate,
+                interval: &e.intervals[0],
+                histogram: &e.histogram,
+                resamples: e.resamples,
+            };
+            vec![(
+                "bootstrap".into(),
+                plot::bootstrap_figure_svg(&fig, "dl-est"),
+            )]
+        }
+        _ => vec![],
+    }
+}
+
+/// The findings on screen as plain text or Markdown.
+fn current_text(
+    mode: String,
+    r: Option<Report>,
+    e: Option<EstimateReport>,
+    markdown: bool,
+) -> String {
+    let date = share::today();
+    match (mode.as_str(), r, e) {
+        ("compare", Some(r), _) => {
+            if markdown {
+                report::markdown(&r, &date)
+            } else {
+                report::report_text(&r)
+            }
+        }
+        (_, _, Some(e)) => {
+            if markdown {
+                report::estimate_markdown(&e, &date)
+            } else {
+                report::estimate_text(&e)
+            }
+        }
+        _ => String::new(),
     }
 }
 

@@ -3,4 +3,5 @@
 //! posts back progress and the [`crate::engine::protocol::Report`].
 
 pub mod app;
+pub mod share;
 pub mod worker;

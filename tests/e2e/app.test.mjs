@@ -7,6 +7,7 @@ import os from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { chromium } from "playwright-core";
+import { execFileSync } from "node:child_process";
 import { serve } from "./server.mjs";
 
 const here = path.dirname(fileURLToPath(import.meta.url));
@@ -124,7 +125,6 @@ test("a long run shows progress and can be stopped", async () => {
 
 
 test("the page and the native command give bit-identical numbers for the same seed", async () => {
-  const { execFileSync } = await import("node:child_process");
   execFileSync("cargo", ["build", "--quiet", "--bin", "reshuffle"], { cwd: root, stdio: "inherit" });
   const json = JSON.parse(execFileSync(path.join(root, "target/debug/reshuffle"), [
     "analyze", "demo-data/service-desk-minutes.tsv", "--columns", "north_desk,harbour_desk",
@@ -172,7 +172,6 @@ test("markup in the data is shown as text, never run", async () => {
 });
 
 test("estimate only: every interval method, and the same numbers as the native command", async () => {
-  const { execFileSync } = await import("node:child_process");
   execFileSync("cargo", ["build", "--quiet", "--bin", "reshuffle"], { cwd: root, stdio: "inherit" });
   const json = JSON.parse(execFileSync(path.join(root, "target/debug/reshuffle"), [
     "estimate", "demo-data/tomato-irrigation.csv", "--value", "yield_kg", "--estimate", "median",
@@ -201,7 +200,130 @@ test("estimate only: every interval method, and the same numbers as the native c
   await page.close();
 });
 
+function native(args) {
+  return execFileSync(path.join(root, "target/debug/reshuffle"), args, { cwd: root, encoding: "utf8", maxBuffer: 256 * 1024 * 1024 });
+}
+
+test("a share link restores the page and reproduces the sender's numbers", async () => {
+  execFileSync("cargo", ["build", "--quiet", "--bin", "reshuffle"], { cwd: root, stdio: "inherit" });
+  const opts = ["demo-data/service-desk-minutes.tsv", "--columns", "north_desk,harbour_desk", "--statistic", "welch-t",
+    "--alternative", "less", "--seed", "8080", "--resamples", "20000", "--bootstrap", "4000"];
+  const link = native(["link", ...opts, "--base", base]).trim();
+  const json = JSON.parse(native(["analyze", ...opts, "--json"]));
+  const page = await context.newPage();
+  await page.goto(link);
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  assert.equal(await page.textContent("#finding"), json.finding);
+  assert.equal(await page.getAttribute("#findings", "data-p-value"), String(json.p_value));
+  // The settings were restored, and the address bar stays a working link.
+  assert.equal(await page.inputValue("#seed"), "8080");
+  assert.match(await page.evaluate(() => location.hash), /^#r1\./);
+  // The page's own link for the same analysis gives the same numbers in a fresh tab.
+  await page.click("#copy-link");
+  const own = await page.inputValue("#share-link");
+  assert.ok(own.startsWith(base + "#r1."), own);
+  const again = await context.newPage();
+  await again.goto(own);
+  await again.waitForSelector("#finding", { timeout: 60000 });
+  assert.equal(await again.textContent("#finding"), json.finding);
+  await again.close();
+  await page.close();
+});
+
+test("damaged or hostile links give a message and a working page; nothing from a link runs", async () => {
+  const page = await context.newPage();
+  let dialogs = 0;
+  page.on("dialog", async (d) => { dialogs += 1; await d.dismiss(); });
+  await page.goto(base + "#r1.this-is-not-a-real-code");
+  await page.waitForSelector("#run:not([disabled])");
+  assert.match(await page.textContent("#link-error"), /damaged/);
+  await page.goto(base + "#r9.abc");
+  await page.reload();
+  await page.waitForFunction(() => /newer version/.test(document.querySelector("#link-error")?.textContent || ""));
+  // The page still works with the example.
+  await page.click("#run");
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  // A well-formed link whose data hold markup.
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), "reshuffle-e2e-"));
+  const f = path.join(dir, "hostile.csv");
+  fs.writeFileSync(f, 'y,g\n1,"<img src=x onerror=alert(1)>"\n2,"<img src=x onerror=alert(1)>"\n3,"<img src=x onerror=alert(1)>"\n' +
+    '4,<svg/onload=alert(2)>\n5,<svg/onload=alert(2)>\n6,<svg/onload=alert(2)>\n');
+  const link = native(["link", f, "--seed", "1", "--resamples", "999", "--bootstrap", "500", "--base", base]).trim();
+  await page.goto(link);
+  await page.reload();
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  assert.match(await page.textContent("#finding"), /<img src=x onerror=alert\(1\)>/);
+  assert.equal(await page.$$eval("main img", (els) => els.length), 0);
+  assert.equal(dialogs, 0);
+  await page.close();
+});
+
+test("reports and analysis files: download, save and reopen", async () => {
+  const { page } = await openPage();
+  await page.click("summary");
+  await page.fill("#seed", "99");
+  await page.click("#run");
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  const finding = await page.textContent("#finding");
+  const grab = async (id) => {
+    const [dl] = await Promise.all([page.waitForEvent("download"), page.click(id)]);
+    return fs.readFileSync(await dl.path(), "utf8");
+  };
+  const html = await grab("#download-report");
+  assert.match(html, /<svg/);
+  assert.ok(!/<script/i.test(html), "the report runs no script");
+  assert.ok(html.includes("seed 99"));
+  const csv = await grab("#download-values");
+  assert.match(csv.split("\n")[0], /^index,relabelled,bootstrap$/);
+  assert.equal(csv.trim().split("\n").length, 100001);
+  const saved = await grab("#save-analysis");
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), "reshuffle-e2e-"));
+  const file = path.join(dir, "analysis.json");
+  fs.writeFileSync(file, saved);
+  // Reopen in a fresh page and run: the same finding.
+  const { page: p2 } = await openPage();
+  await p2.setInputFiles("#open-analysis", file);
+  await p2.waitForFunction(() => /Opened the analysis/.test(document.body.textContent));
+  await p2.click("#run");
+  await p2.waitForSelector("#finding", { timeout: 60000 });
+  assert.equal(await p2.textContent("#finding"), finding);
+  // The saved file is what the native command reads with --request.
+  const json = JSON.parse(native(["analyze", "--request", file, "--json"]));
+  assert.equal(json.finding, finding);
+  await p2.close();
+  await page.close();
+});
+
+test("the single-file build works from disk with no server and no network", async () => {
+  const file = path.join(dist, "reshuffle-offline.html");
+  assert.ok(fs.existsSync(file), "dist/reshuffle-offline.html missing");
+  const page = await context.newPage();
+  const seen = [];
+  page.on("request", (r) => seen.push(r.url()));
+  const errors = [];
+  page.on("pageerror", (e) => errors.push(String(e)));
+  await page.goto("file://" + file);
+  await page.waitForSelector("#run:not([disabled])", { timeout: 30000 });
+  await page.click("summary");
+  await page.fill("#seed", "2024");
+  await page.click("#run");
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  const { page: served } = await openPage();
+  await served.click("summary");
+  await served.fill("#seed", "2024");
+  await served.click("#run");
+  await served.waitForSelector("#finding", { timeout: 60000 });
+  assert.equal(await page.textContent("#finding"), await served.textContent("#finding"));
+  const foreign = seen.filter((u) => !u.startsWith("file:") && !u.startsWith("data:") && !u.startsWith("blob:"));
+  assert.deepEqual(foreign, []);
+  assert.deepEqual(errors, []);
+  await page.screenshot({ path: path.join(out, "offline.png") });
+  await served.close();
+  await page.close();
+});
+
 test("the page makes no request beyond its own files", async () => {
-  const foreign = requests.filter((u) => !u.startsWith(base) && !u.startsWith("data:") && !u.startsWith("blob:"));
+  // (file: is the single-file build opened from disk in its own test.)
+  const foreign = requests.filter((u) => !u.startsWith(base) && !/^(data|blob|file):/.test(u));
   assert.deepEqual(foreign, []);
 });
