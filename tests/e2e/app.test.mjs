@@ -85,6 +85,15 @@ test("the demo analysis runs in the worker and shows the finding and both plots"
   await page.click("#run");
   await page.waitForSelector("#finding");
   assert.equal(await page.textContent("#finding"), finding);
+  // The address bar is now a working link to this analysis.
+  assert.match(await page.evaluate(() => location.hash), /^#r1\./);
+  // Figures download as SVG and as PNG.
+  const [svgDl] = await Promise.all([page.waitForEvent("download"), page.click("text=Figure: relabelling (SVG)")]);
+  assert.match(fs.readFileSync(await svgDl.path(), "utf8"), /^<svg[^>]*role="img"/);
+  const [pngDl] = await Promise.all([page.waitForEvent("download"), page.click("text=Figure: bootstrap (PNG)")]);
+  const png = fs.readFileSync(await pngDl.path());
+  assert.equal(png.subarray(1, 4).toString(), "PNG");
+  assert.ok(png.length > 5000, "the PNG has content");
   await page.screenshot({ path: path.join(out, "findings.png"), fullPage: true });
   assert.deepEqual(errors, []);
   await page.close();
@@ -255,6 +264,32 @@ test("damaged or hostile links give a message and a working page; nothing from a
   assert.match(await page.textContent("#finding"), /<img src=x onerror=alert\(1\)>/);
   assert.equal(await page.$$eval("main img", (els) => els.length), 0);
   assert.equal(dialogs, 0);
+  await page.close();
+});
+
+test("a link too long for chat programs gets a warning with two ways out", async () => {
+  const { page } = await openPage();
+  let rows = "value,group\n";
+  for (let i = 0; i < 3000; i++) rows += `${(Math.abs(Math.sin(i * 12.9898)) * 1000).toFixed(4)},${i % 2 ? "a" : "b"}\n`;
+  // Set the text directly: typing 3,000 rows through the automation layer is slow.
+  await page.evaluate((text) => {
+    const ta = document.querySelector("#data");
+    ta.value = text;
+    ta.dispatchEvent(new Event("input", { bubbles: true }));
+  }, rows);
+  await page.click("summary");
+  await page.fill("#resamples", "999");
+  await page.fill("#bootstrap", "500");
+  await page.click("#run");
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  await page.click("#copy-link");
+  const note = await page.textContent("#share-note");
+  assert.match(note, /characters long/);
+  assert.match(note, /settings-only link/);
+  assert.match(note, /save the analysis as a file/);
+  await page.click("#copy-settings-link");
+  const short = await page.inputValue("#share-link");
+  assert.ok(short.length < 2000, `settings-only link is ${short.length} characters`);
   await page.close();
 });
 
