@@ -1125,6 +1125,11 @@ fn App() -> impl IntoView {
                 {move || stale.get().then(|| view! {
                     <p class="stale">"The settings have changed since these findings were computed; run the analysis again to update them."</p>
                 })}
+                {move || if mode.get() == "compare" {
+                    report.get().map(|r| view! { <Findings report=r/> }.into_any())
+                } else {
+                    estimated.get().map(|r| view! { <EstimateFindings report=r/> }.into_any())
+                }}
                 {move || (report.get().is_some() || estimated.get().is_some()).then(|| view! {
                     <div class="share" id="share">
                         <h3>"Share and save"</h3>
@@ -1197,11 +1202,6 @@ fn App() -> impl IntoView {
                         })}
                     </div>
                 })}
-                {move || if mode.get() == "compare" {
-                    report.get().map(|r| view! { <Findings report=r/> }.into_any())
-                } else {
-                    estimated.get().map(|r| view! { <EstimateFindings report=r/> }.into_any())
-                }}
             </section>
         </main>
         <footer>
