@@ -6,7 +6,7 @@ use std::io::{Read, Write};
 use crate::engine::analysis::{self, RunError};
 use crate::engine::format as fmt;
 use crate::engine::protocol::*;
-use crate::engine::report::{interval_line, report_text};
+use crate::engine::report::report_text;
 use crate::engine::table::HeaderChoice;
 use crate::engine::{perm, rng};
 
@@ -539,38 +539,7 @@ fn estimate(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String>
     let text = if json {
         serde_json::to_string_pretty(&rep).map_err(|e| e.to_string())? + "\n"
     } else {
-        let d = rep
-            .intervals
-            .first()
-            .and_then(|iv| Some(iv.high? - iv.low?))
-            .map_or(2, fmt::decimals_for);
-        let mut s = format!("{}\n\n", rep.finding);
-        for n in &rep.notes {
-            s.push_str(&format!("Note: {n}\n"));
-        }
-        s.push_str(&format!(
-            "Estimate {}; bootstrap SE {}; bias {}\n",
-            fmt::sig(rep.estimate),
-            rep.se.map_or("undefined".into(), fmt::sig),
-            rep.bias.map_or("undefined".into(), fmt::sig)
-        ));
-        for iv in &rep.intervals {
-            s.push_str(&format!("  {}\n", interval_line(iv, d)));
-        }
-        if let Some(c) = &rep.classical {
-            s.push_str(&format!(
-                "  classical cross-check, {}\n",
-                interval_line(c, d)
-            ));
-        }
-        s.push_str(&format!(
-            "{}\nSeed: {} ({})\n\n",
-            rep.method_reason, rep.seed, rep.rng
-        ));
-        for c in &rep.cautions {
-            s.push_str(&format!("- {c}\n"));
-        }
-        s
+        crate::engine::report::estimate_text(&rep)
     };
     out.write_all(text.as_bytes()).map_err(|e| e.to_string())
 }

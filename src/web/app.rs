@@ -286,6 +286,28 @@ fn App() -> impl IntoView {
             .map_err(|e| e.0)
     });
 
+    // Sets the columns from the detected layout of the table in the data box; false when
+    // no layout could be detected.
+    let apply_detected = move || -> bool {
+        let Ok(t) = table::parse(&data.get_untracked(), header.get_untracked()) else {
+            return false;
+        };
+        match groups::detect_layout(&t) {
+            Ok(Layout::Long { value, group }) => {
+                layout_kind.set("long".into());
+                value_col.set(value);
+                group_col.set(group);
+                true
+            }
+            Ok(Layout::Wide { columns }) => {
+                layout_kind.set("wide".into());
+                col_a.set(columns[0].clone());
+                col_b.set(columns[1].clone());
+                true
+            }
+            _ => false,
+        }
+    };
     // Choose sensible columns whenever the table changes and the choice no longer fits.
     Effect::new(move |_| {
         let Ok(view) = parsed.get() else { return };
@@ -317,26 +339,12 @@ fn App() -> impl IntoView {
         if fits {
             return;
         }
-        if let Ok(t) = table::parse(&data.get_untracked(), header.get_untracked()) {
-            match groups::detect_layout(&t) {
-                Ok(Layout::Long { value, group }) => {
-                    layout_kind.set("long".into());
-                    value_col.set(value);
-                    group_col.set(group);
-                }
-                Ok(Layout::Wide { columns }) => {
-                    layout_kind.set("wide".into());
-                    col_a.set(columns[0].clone());
-                    col_b.set(columns[1].clone());
-                }
-                _ => {
-                    // Leave the choice to the user; pre-fill with the first columns.
-                    value_col.set(names.first().cloned().unwrap_or_default());
-                    group_col.set(names.get(1).cloned().unwrap_or_default());
-                    col_a.set(names.first().cloned().unwrap_or_default());
-                    col_b.set(names.get(1).cloned().unwrap_or_default());
-                }
-            }
+        if !apply_detected() {
+            // Leave the choice to the user; pre-fill with the first columns.
+            value_col.set(names.first().cloned().unwrap_or_default());
+            group_col.set(names.get(1).cloned().unwrap_or_default());
+            col_a.set(names.first().cloned().unwrap_or_default());
+            col_b.set(names.get(1).cloned().unwrap_or_default());
         }
     });
 
@@ -594,21 +602,7 @@ fn App() -> impl IntoView {
             }
             Layout::Detect => {
                 // Resolve now, so that a run straight after restoring has its columns.
-                if let Ok(t) = table::parse(&data.get_untracked(), header.get_untracked()) {
-                    match groups::detect_layout(&t) {
-                        Ok(Layout::Long { value, group }) => {
-                            layout_kind.set("long".into());
-                            value_col.set(value);
-                            group_col.set(group);
-                        }
-                        Ok(Layout::Wide { columns }) => {
-                            layout_kind.set("wide".into());
-                            col_a.set(columns[0].clone());
-                            col_b.set(columns[1].clone());
-                        }
-                        _ => {}
-                    }
-                }
+                apply_detected();
             }
         };
         let method_choice = |ms: &[IntervalMethod]| {
@@ -712,6 +706,9 @@ fn App() -> impl IntoView {
     };
     if opened_from_link {
         run();
+    } else if seed.get_untracked().is_empty() {
+        // A seed from the start, so the address bar is a working link at once.
+        seed.set(fresh_seed().to_string());
     }
     // Keep the address bar a working link once a seed is set.
     Effect::new(move |_| {
