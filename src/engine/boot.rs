@@ -14,6 +14,9 @@ pub type TwoSampleFn = fn(&mut [f64], &mut [f64]) -> f64;
 /// The same as a reference to a closure (for statistics with a parameter, like a quantile).
 pub type StatFn<'a> = &'a dyn Fn(&mut [f64], &mut [f64]) -> f64;
 
+/// An owned statistic closure.
+pub type BoxedStat = Box<dyn Fn(&mut [f64], &mut [f64]) -> f64>;
+
 /// How resamples are drawn.
 #[derive(Clone, Copy, Debug)]
 pub enum Design<'a> {

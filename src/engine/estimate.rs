@@ -5,7 +5,7 @@
 use serde::{Deserialize, Serialize};
 
 use super::analysis::{self, histogram, ProgressFn, RunError};
-use super::boot::{self, Design, SeMethod, Stat, StatFn};
+use super::boot::{self, BoxedStat, Design, SeMethod, Stat, StatFn};
 use super::classical;
 use super::format as fmt;
 use super::groups;
@@ -326,8 +326,6 @@ pub fn ranks(x: &[f64]) -> Vec<f64> {
 }
 
 /// The estimate as a two-slice function (second slice empty for one sample).
-/// A boxed statistic of one or two slices.
-type BoxedStat = Box<dyn Fn(&mut [f64], &mut [f64]) -> f64>;
 
 fn estimator(e: Estimate, q: f64) -> BoxedStat {
     match e {

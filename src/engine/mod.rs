@@ -10,11 +10,13 @@ pub mod format;
 pub mod groups;
 pub mod link;
 pub mod normal;
+pub mod paired;
 pub mod perm;
 pub mod plot;
 pub mod protocol;
 pub mod report;
 pub mod rng;
+pub mod signflip;
 pub mod stats;
 pub mod table;
 

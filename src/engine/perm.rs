@@ -63,7 +63,7 @@ impl Counts {
     }
 
     #[inline]
-    fn record(&mut self, t: f64, obs: f64, tol: f64) {
+    pub(crate) fn record(&mut self, t: f64, obs: f64, tol: f64) {
         // Branch-free: the comparisons are unpredictable.
         self.total += 1;
         self.ge += u64::from(t >= obs - tol);

@@ -603,6 +603,75 @@ pub fn iso_date(unix_seconds: i64) -> String {
     format!("{y:04}-{m:02}-{d:02}")
 }
 
+/// Paired or one-sample findings in words.
+pub fn paired_text(r: &super::paired::PairedReport) -> String {
+    let d = match (r.ci.low, r.ci.high) {
+        (Some(l), Some(h)) if h > l => fmt::decimals_for(h - l),
+        _ => 2,
+    };
+    let mut s = format!("{}\n\n", r.finding);
+    for n in &r.notes {
+        s.push_str(&format!("Note: {n}\n"));
+    }
+    s.push_str(&format!(
+        "Design: {}, {} differences ({})\n",
+        r.design, r.n, r.difference_label
+    ));
+    if r.exact {
+        s.push_str(&format!(
+            "p-value: {} (exact, all {} sign patterns)\n",
+            fmt::p_number(r.p_value),
+            fmt::count(r.resamples)
+        ));
+    } else {
+        s.push_str(&format!(
+            "p-value: {:.5} (Monte Carlo, {} sign patterns; MC standard error {:.5})\n",
+            r.p_value,
+            fmt::count(r.resamples),
+            r.mc_se.unwrap_or(0.0)
+        ));
+    }
+    s.push_str(&format!(
+        "{}: {}\n",
+        r.effect_label,
+        interval_line(&r.ci, d)
+    ));
+    match (r.t_test.t, r.t_test.p_value) {
+        (Some(t), Some(p)) => s.push_str(&format!(
+            "{} t-test (cross-check): t = {t:.3}, df = {}, p = {p:.5}\n",
+            if r.design == "paired" {
+                "Paired"
+            } else {
+                "One-sample"
+            },
+            r.t_test.df
+        )),
+        _ => s.push_str("t-test (cross-check): undefined (no spread)\n"),
+    }
+    match r.wilcoxon.p_value {
+        Some(p) => s.push_str(&format!(
+            "Wilcoxon signed-rank (cross-check): W+ = {}, p = {p:.5} ({}; {} zero difference{} left out)\n",
+            fmt::sig(r.wilcoxon.w_plus),
+            r.wilcoxon.method,
+            r.wilcoxon.zeros,
+            if r.wilcoxon.zeros == 1 { "" } else { "s" }
+        )),
+        None => s.push_str(&format!("Wilcoxon signed-rank: {}\n", r.wilcoxon.method)),
+    }
+    if let Some(dz) = r.dz.estimate {
+        s.push_str(&format!(
+            "{}: {dz:.3}, {}\n",
+            r.dz.name,
+            interval_line(&r.dz.ci, 3)
+        ));
+    }
+    s.push_str(&format!("Seed: {} ({})\n\n", r.seed, r.rng));
+    for c in &r.cautions {
+        s.push_str(&format!("- {c}\n"));
+    }
+    s
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

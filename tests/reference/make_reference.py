@@ -198,6 +198,38 @@ def main():
                 "high_mean": float(np.mean(highs)), "high_sd": float(np.std(highs, ddof=1))}
         est.append(entry)
         print(name, kind, "done", file=sys.stderr)
+    # Paired and one-sample designs: sign-flip p-values by brute force over all 2^n sign
+    # patterns, scipy.stats.ttest_rel / ttest_1samp and scipy.stats.wilcoxon (defaults).
+    paired = []
+    sleep = rdata("sleep")
+    wide = sleep.pivot(index="ID", columns="group", values="extra")
+    wide.columns = ["drug1", "drug2"]
+    wide.to_csv(os.path.join(HERE, "data", "sleep-paired.csv"), index=False)
+    air = rdata("boot", "aircondit")
+    for label, d, file, spec in [
+        ("sleep drug2 - drug1", (wide["drug2"] - wide["drug1"]).to_numpy(float), "sleep-paired.csv",
+         {"kind": "paired", "first": "drug2", "second": "drug1"}),
+        ("aircondit hours - 100", air["hours"].to_numpy(float) - 100.0, "aircondit.csv",
+         {"kind": "one-sample", "value": "hours", "reference": 100.0}),
+    ]:
+        n = len(d)
+        signs = np.array(list(itertools.product([1.0, -1.0], repeat=n)))
+        entry = {"label": label, "file": file, "layout": spec, "n": n, "flip": {}}
+        for st, fn in [("mean", lambda x: x.mean(axis=1)), ("median", lambda x: np.median(x, axis=1))]:
+            t = fn(signs * d)
+            obs = fn(d[None, :])[0]
+            tol = REL_TOL * max(abs(obs), np.abs(d).max())
+            entry["flip"][st] = {"observed": float(obs),
+                                 "greater": float(np.mean(t >= obs - tol)),
+                                 "less": float(np.mean(t <= obs + tol)),
+                                 "two_sided_absolute": float(np.mean(np.abs(t) >= abs(obs) - tol))}
+        tt = stats.ttest_1samp(d, 0.0)
+        ci = tt.confidence_interval(0.95)
+        entry["t"] = {"t": float(tt.statistic), "p": float(tt.pvalue), "ci_low": float(ci.low), "ci_high": float(ci.high)}
+        for alt in ["two-sided", "greater", "less"]:
+            w = stats.wilcoxon(d, alternative=alt)
+            entry.setdefault("wilcoxon", {})[alt] = float(w.pvalue)
+        paired.append(entry)
     # Clopper-Pearson limits (scipy.stats.binomtest(...).proportion_ci(method='exact')).
     cp = []
     for k, n, level in [(412, 100000, 0.99), (3, 20, 0.95), (0, 50, 0.99), (97, 99, 0.99)]:
@@ -210,6 +242,11 @@ def main():
         "cases": cases,
         "clopper_pearson": cp,
         "estimates": est,
+        "paired": paired,
+        # Signed-rank normal approximation: 60 differences with ties and zeros.
+        "wilcoxon_approx": {alt: float(stats.wilcoxon(np.array([((i * 37) % 23) - 9.0 for i in range(60)]),
+                                                      alternative=alt).pvalue)
+                            for alt in ["two-sided", "greater", "less"]},
     }
     with open(os.path.join(HERE, "expected.json"), "w") as f:
         json.dump(out, f, indent=1)

@@ -1,0 +1,698 @@
+//! Paired (before–after) and one-sample designs: a sign-flip permutation test of the
+//! differences (or of the values minus a reference), a bootstrap interval for the mean or
+//! median difference, d_z with its interval, and the paired (or one-sample) t-test and the
+//! Wilcoxon signed-rank test as classical cross-checks.
+
+use serde::{Deserialize, Serialize};
+use statrs::distribution::{ContinuousCDF, StudentsT};
+
+use super::analysis::{self, histogram, p_value, ProgressFn, RunError};
+use super::boot::{self, Design, SeMethod, Stat};
+use super::estimate::ranks;
+use super::format as fmt;
+use super::groups::plural;
+use super::normal;
+use super::protocol::*;
+use super::rng::{self, RNG_NAME};
+use super::signflip::{FlipSetup, FlipStatistic};
+use super::stats;
+use super::table::{self, HeaderChoice};
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "kind", rename_all = "kebab-case")]
+pub enum PairedLayout {
+    /// Two columns measured on the same units; the difference is first − second.
+    Paired { first: String, second: String },
+    /// One column compared with a reference value; the difference is value − reference.
+    OneSample { value: String, reference: f64 },
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct PairedRequest {
+    pub format_version: u32,
+    pub data: String,
+    #[serde(default)]
+    pub header: HeaderChoice,
+    pub layout: PairedLayout,
+    pub statistic: FlipStatistic,
+    pub alternative: Alternative,
+    #[serde(default)]
+    pub two_sided: TwoSidedRule,
+    pub resamples: u64,
+    /// Enumerate all 2^n sign patterns when there are at most this many.
+    pub exact_limit: u64,
+    pub bootstrap_resamples: u64,
+    pub confidence: f64,
+    pub interval: IntervalMethod,
+    pub seed: u64,
+}
+
+impl PairedRequest {
+    pub fn new(data: String, layout: PairedLayout, seed: u64) -> PairedRequest {
+        PairedRequest {
+            format_version: FORMAT_VERSION,
+            data,
+            header: HeaderChoice::Detect,
+            layout,
+            statistic: FlipStatistic::Mean,
+            alternative: Alternative::TwoSided,
+            two_sided: TwoSidedRule::Absolute,
+            resamples: 100_000,
+            exact_limit: 1 << 20,
+            bootstrap_resamples: 10_000,
+            confidence: 0.95,
+            interval: IntervalMethod::Bca,
+            seed,
+        }
+    }
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct TTest {
+    pub t: Option<f64>,
+    pub df: f64,
+    pub p_value: Option<f64>,
+    pub ci: Interval,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct SignedRank {
+    /// Sum of the ranks of the positive differences (zeros left out).
+    pub w_plus: f64,
+    pub p_value: Option<f64>,
+    /// "exact" (no ties, at most 50 non-zero differences) or "normal approximation".
+    pub method: String,
+    pub zeros: usize,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct PairedReport {
+    pub format_version: u32,
+    pub engine_version: String,
+    pub design: String,
+    /// What the differences are, e.g. "after − before" or "yield − 4".
+    pub difference_label: String,
+    pub n: usize,
+    pub notes: Vec<String>,
+    pub statistic: FlipStatistic,
+    pub alternative: Alternative,
+    pub two_sided: TwoSidedRule,
+    pub observed: f64,
+    pub p_value: f64,
+    pub exact: bool,
+    pub resamples: u64,
+    pub extreme_count: u64,
+    pub mc_se: Option<f64>,
+    pub p_interval: Option<PInterval>,
+    pub seed: u64,
+    pub rng: String,
+    pub effect_label: String,
+    pub ci: Interval,
+    pub bootstrap_resamples: u64,
+    pub bootstrap_se: Option<f64>,
+    /// Paired or one-sample t-test.
+    pub t_test: TTest,
+    pub wilcoxon: SignedRank,
+    /// Mean difference over the SD of the differences, with a bootstrap interval.
+    pub dz: EffectSize,
+    pub null_histogram: Histogram,
+    pub tail: Tail,
+    pub bootstrap_histogram: Histogram,
+    pub finding: String,
+    pub cautions: Vec<String>,
+}
+
+/// Wilcoxon signed-rank test as scipy.stats.wilcoxon 1.17 computes it by default: zeros left
+/// out; exact null distribution when there are no ties or zeros and at most 50 differences;
+/// with ties or zeros and at most 13 differences, exact over all sign patterns; otherwise the
+/// normal approximation with the tie correction and no continuity correction.
+pub fn signed_rank(d: &[f64], alternative: Alternative) -> SignedRank {
+    let nz: Vec<f64> = d.iter().copied().filter(|v| *v != 0.0).collect();
+    let zeros = d.len() - nz.len();
+    let n = nz.len();
+    if n == 0 {
+        return SignedRank {
+            w_plus: 0.0,
+            p_value: None,
+            method: "undefined (all differences are zero)".into(),
+            zeros,
+        };
+    }
+    let abs: Vec<f64> = nz.iter().map(|v| v.abs()).collect();
+    let r = ranks(&abs);
+    let w_plus: f64 = nz
+        .iter()
+        .zip(&r)
+        .filter(|(v, _)| **v > 0.0)
+        .map(|(_, r)| r)
+        .sum();
+    let mut sorted = abs.clone();
+    sorted.sort_by(f64::total_cmp);
+    let ties = sorted.windows(2).any(|w| w[0] == w[1]);
+    if (ties || zeros > 0) && d.len() <= 13 {
+        // Exact over all sign patterns of the non-zero differences (scipy's permutation
+        // branch for small samples with ties or zeros).
+        let patterns = 1u32 << n;
+        let (mut ge, mut le) = (0u32, 0u32);
+        let tol = 1e-9 * w_plus.max(1.0);
+        for m in 0..patterns {
+            let w: f64 = (0..n).filter(|i| m >> i & 1 == 1).map(|i| r[i]).sum();
+            ge += u32::from(w >= w_plus - tol);
+            le += u32::from(w <= w_plus + tol);
+        }
+        let (pg, pl) = (ge as f64 / patterns as f64, le as f64 / patterns as f64);
+        let p = match alternative {
+            Alternative::Greater => pg,
+            Alternative::Less => pl,
+            Alternative::TwoSided => (2.0 * pg.min(pl)).min(1.0),
+        };
+        return SignedRank {
+            w_plus,
+            p_value: Some(p),
+            method: "exact (all sign patterns; ties or zeros present)".into(),
+            zeros,
+        };
+    }
+    if !ties && zeros == 0 && n <= 50 {
+        // Counts of rank sums over all 2^n sign patterns.
+        let max = n * (n + 1) / 2;
+        let mut c = vec![0f64; max + 1];
+        c[0] = 1.0;
+        for k in 1..=n {
+            for w in (k..=max).rev() {
+                c[w] += c[w - k];
+            }
+        }
+        let total: f64 = c.iter().sum();
+        let w = w_plus.round() as usize;
+        let le: f64 = c[..=w].iter().sum::<f64>() / total;
+        let ge: f64 = c[w..].iter().sum::<f64>() / total;
+        let p = match alternative {
+            Alternative::Greater => ge,
+            Alternative::Less => le,
+            Alternative::TwoSided => (2.0 * le.min(ge)).min(1.0),
+        };
+        return SignedRank {
+            w_plus,
+            p_value: Some(p),
+            method: "exact".into(),
+            zeros,
+        };
+    }
+    let nf = n as f64;
+    let mean = nf * (nf + 1.0) / 4.0;
+    let mut tie_term = 0.0;
+    let mut i = 0;
+    while i < n {
+        let mut j = i;
+        while j + 1 < n && sorted[j + 1] == sorted[i] {
+            j += 1;
+        }
+        let t = (j - i + 1) as f64;
+        tie_term += t * t * t - t;
+        i = j + 1;
+    }
+    let var = nf * (nf + 1.0) * (2.0 * nf + 1.0) / 24.0 - tie_term / 48.0;
+    let z = (w_plus - mean) / var.sqrt();
+    let p = match alternative {
+        Alternative::Greater => 1.0 - normal::cdf(z),
+        Alternative::Less => normal::cdf(z),
+        Alternative::TwoSided => (2.0 * normal::cdf(-z.abs())).min(1.0),
+    };
+    SignedRank {
+        w_plus,
+        p_value: Some(p),
+        method: "normal approximation".into(),
+        zeros,
+    }
+}
+
+/// t-test of the mean difference against zero.
+pub fn t_test(d: &[f64], alternative: Alternative, level: f64) -> TTest {
+    let n = d.len() as f64;
+    let m = stats::mean(d);
+    let se = stats::sd(d) / n.sqrt();
+    let df = n - 1.0;
+    let mut ci = Interval {
+        low: None,
+        high: None,
+        level,
+        method: "t".into(),
+        side: Side::TwoSided,
+        note: None,
+    };
+    let Some(dist) = StudentsT::new(0.0, 1.0, df).ok().filter(|_| se > 0.0) else {
+        ci.note = Some("The differences do not vary, so the t-test is undefined.".into());
+        return TTest {
+            t: None,
+            df,
+            p_value: None,
+            ci,
+        };
+    };
+    let t = m / se;
+    let p = match alternative {
+        Alternative::TwoSided => 2.0 * dist.sf(t.abs()),
+        Alternative::Greater => dist.sf(t),
+        Alternative::Less => dist.cdf(t),
+    };
+    let q = dist.inverse_cdf(1.0 - (1.0 - level) / 2.0);
+    ci.low = Some(m - q * se);
+    ci.high = Some(m + q * se);
+    TTest {
+        t: Some(t),
+        df,
+        p_value: Some(p.min(1.0)),
+        ci,
+    }
+}
+
+fn differences(
+    req: &PairedRequest,
+    notes: &mut Vec<String>,
+) -> Result<(Vec<f64>, String, String), RunError> {
+    let t = table::parse(&req.data, req.header)?;
+    match &req.layout {
+        PairedLayout::Paired { first, second } => {
+            if first == second {
+                return Err(RunError::Input(format!(
+                    "The same column (\"{first}\") was chosen twice."
+                )));
+            }
+            let (ca, cb) = (t.column(first)?, t.column(second)?);
+            let (na, nb) = (ca.numbers(t.decimal_comma)?, cb.numbers(t.decimal_comma)?);
+            let mut vb = vec![None; t.rows];
+            for &(i, v) in &nb.values {
+                vb[i] = Some(v);
+            }
+            let mut d = Vec::new();
+            let mut incomplete = 0;
+            let mut va = vec![None; t.rows];
+            for &(i, v) in &na.values {
+                va[i] = Some(v);
+            }
+            for r in 0..t.rows {
+                match (va[r], vb[r]) {
+                    (Some(a), Some(b)) => d.push(a - b),
+                    (None, None) => {}
+                    _ => incomplete += 1,
+                }
+            }
+            if incomplete > 0 {
+                notes.push(format!(
+                    "{incomplete} pair{} with a missing member {} left out.",
+                    plural(incomplete),
+                    if incomplete == 1 { "was" } else { "were" }
+                ));
+            }
+            if na.values.len() != nb.values.len() && incomplete == 0 {
+                // Unreachable in practice (rows align), kept for a clear message.
+                return Err(RunError::Input(format!(
+                    "Column \"{first}\" has {} values and \"{second}\" has {}; paired data need one of each per row.",
+                    na.values.len(),
+                    nb.values.len()
+                )));
+            }
+            Ok((d, format!("{first} − {second}"), "paired".into()))
+        }
+        PairedLayout::OneSample { value, reference } => {
+            if !reference.is_finite() {
+                return Err(RunError::Input(
+                    "The reference value must be a number.".into(),
+                ));
+            }
+            let c = t.column(value)?;
+            let nums = c.numbers(t.decimal_comma)?;
+            if nums.missing > 0 {
+                notes.push(format!(
+                    "{} blank or NA cell{} in column \"{value}\" left out.",
+                    nums.missing,
+                    plural(nums.missing)
+                ));
+            }
+            let d = nums.values.iter().map(|v| v.1 - reference).collect();
+            Ok((d, format!("{value} − {reference}"), "one-sample".into()))
+        }
+    }
+}
+
+pub fn run(req: &PairedRequest, progress: ProgressFn) -> Result<PairedReport, RunError> {
+    if req.format_version != FORMAT_VERSION {
+        return Err(RunError::Input(format!(
+            "Format version {} cannot be read by this version (reads {FORMAT_VERSION}).",
+            req.format_version
+        )));
+    }
+    if !(req.confidence > 0.5 && req.confidence <= 0.9999) {
+        return Err(RunError::Input(format!(
+            "The confidence level must be between 0.5 and 0.9999 (it is {}).",
+            req.confidence
+        )));
+    }
+    if req.resamples < 99
+        || req.resamples > MAX_RESAMPLES
+        || req.bootstrap_resamples < 200
+        || req.bootstrap_resamples > MAX_BOOTSTRAP
+    {
+        return Err(RunError::Input(format!(
+            "Use 99 to {} random sign patterns and 200 to {} bootstrap resamples.",
+            fmt::count(MAX_RESAMPLES),
+            fmt::count(MAX_BOOTSTRAP)
+        )));
+    }
+    let mut notes = Vec::new();
+    let (d, label, design) = differences(req, &mut notes)?;
+    let n = d.len();
+    if n < 2 {
+        return Err(RunError::Input(format!(
+            "Only {n} complete pair{}; at least 2 are needed (and 6 or more for a sign-flip test to be able to reach p < .05).",
+            plural(n)
+        )));
+    }
+    let setup = FlipSetup::new(req.statistic, &d);
+    let patterns: u64 = if n < 63 { 1u64 << n } else { u64::MAX };
+    let (counts, values, exact) = if patterns <= req.exact_limit {
+        let mut cb = |done: u64| {
+            progress(&Progress {
+                stage: "sign patterns".into(),
+                done,
+                total: patterns,
+            })
+        };
+        let (c, v) = setup
+            .enumerate(rng::BLOCK, &mut cb)
+            .ok_or(RunError::Cancelled)?;
+        (c, v, true)
+    } else {
+        let total = req.resamples;
+        let mut c = super::perm::Counts::default();
+        let mut v = Vec::with_capacity(total as usize);
+        let streams = rng::Streams::new(req.seed, rng::Purpose::Permutation, 0);
+        for (b, stream) in (0..rng::block_count(total)).zip(streams) {
+            let (cc, vv) = setup.random_block(stream, rng::block_len(total, b));
+            c.add(&cc);
+            v.extend(vv);
+            if !progress(&Progress {
+                stage: "sign patterns".into(),
+                done: c.total,
+                total,
+            }) {
+                return Err(RunError::Cancelled);
+            }
+        }
+        (c, v, false)
+    };
+    let pr = p_value(&counts, exact, req.alternative, req.two_sided);
+    let observed = setup.observed;
+
+    // Bootstrap the differences as one sample.
+    let f_effect: boot::BoxedStat = match req.statistic {
+        FlipStatistic::Mean => Box::new(|x, _| stats::mean(x)),
+        FlipStatistic::Median => Box::new(|x, _| stats::median_select(x)),
+    };
+    let f_dz = |x: &mut [f64], _: &mut [f64]| stats::mean(x) / stats::sd(x);
+    let se_mean = |x: &mut [f64], _: &mut [f64]| stats::sd(x) / (x.len() as f64).sqrt();
+    let studentize = req.interval == IntervalMethod::Studentized;
+    let se = match (studentize, req.statistic) {
+        (false, _) => SeMethod::None,
+        (true, FlipStatistic::Mean) => SeMethod::Formula(&se_mean),
+        (true, FlipStatistic::Median) => SeMethod::Nested(boot::NESTED),
+    };
+    let dz_est = f_dz(&mut d.clone(), &mut []);
+    let design_b = Design::One {
+        x: &d,
+        strata: None,
+    };
+    let stats_ = [
+        Stat {
+            f: f_effect.as_ref(),
+            estimate: observed,
+            se,
+        },
+        Stat {
+            f: &f_dz,
+            estimate: dz_est,
+            se: SeMethod::None,
+        },
+    ];
+    let (bvals, tvals) = analysis::resample(
+        &design_b,
+        &stats_,
+        req.seed,
+        req.bootstrap_resamples,
+        progress,
+    )?;
+    let finite: Vec<f64> = bvals[0].iter().copied().filter(|v| v.is_finite()).collect();
+    let t_finite: Vec<f64> = tvals[0].iter().copied().filter(|v| v.is_finite()).collect();
+    let se_hat = match se {
+        SeMethod::Formula(g) => g(&mut d.clone(), &mut []),
+        SeMethod::Nested(_) => boot::standard_error(&finite).unwrap_or(f64::NAN),
+        SeMethod::None => f64::NAN,
+    };
+    let summary = boot::Summary {
+        estimate: observed,
+        boot: &finite,
+        t: studentize.then_some((&t_finite[..], se_hat)),
+        bounds: None,
+    };
+    let f_ref = f_effect.as_ref();
+    let mut accel = || boot::acceleration(&design_b, f_ref);
+    let ci = boot::interval_by(
+        req.interval,
+        req.confidence,
+        Side::TwoSided,
+        &summary,
+        &mut accel,
+    );
+    let dz_finite: Vec<f64> = bvals[1].iter().copied().filter(|v| v.is_finite()).collect();
+    let dz_method = if studentize {
+        IntervalMethod::Bca
+    } else {
+        req.interval
+    };
+    let dz = EffectSize {
+        name: "d_z (mean difference / SD of differences)".into(),
+        estimate: dz_est.is_finite().then_some(dz_est),
+        ci: if dz_est.is_finite() {
+            let s = boot::Summary {
+                estimate: dz_est,
+                boot: &dz_finite,
+                t: None,
+                bounds: None,
+            };
+            boot::interval_by(dz_method, req.confidence, Side::TwoSided, &s, &mut || {
+                boot::acceleration(&design_b, &f_dz)
+            })
+        } else {
+            Interval {
+                low: None,
+                high: None,
+                level: req.confidence,
+                method: dz_method.key().into(),
+                side: Side::TwoSided,
+                note: Some("Undefined: the differences do not vary.".into()),
+            }
+        },
+    };
+    let t_test = t_test(&d, req.alternative, req.confidence);
+    let wilcoxon = signed_rank(&d, req.alternative);
+    let tail = match (req.alternative, req.two_sided) {
+        (Alternative::Greater, _) => Tail {
+            low: None,
+            high: Some(observed),
+        },
+        (Alternative::Less, _) => Tail {
+            low: Some(observed),
+            high: None,
+        },
+        (Alternative::TwoSided, TwoSidedRule::Absolute) => Tail {
+            low: Some(-observed.abs()),
+            high: Some(observed.abs()),
+        },
+        (Alternative::TwoSided, TwoSidedRule::DoubledTail) => {
+            if counts.ge <= counts.le {
+                Tail {
+                    low: None,
+                    high: Some(observed),
+                }
+            } else {
+                Tail {
+                    low: Some(observed),
+                    high: None,
+                }
+            }
+        }
+    };
+    let null_histogram = histogram(&values, &[observed], 48);
+    let mut bm = vec![observed];
+    bm.extend(ci.low);
+    bm.extend(ci.high);
+    let bootstrap_histogram = histogram(&finite, &bm, 48);
+    let what = match req.statistic {
+        FlipStatistic::Mean => "mean",
+        FlipStatistic::Median => "median",
+    };
+    let effect_label = format!("{what} of the differences ({label})");
+    let mut report = PairedReport {
+        format_version: FORMAT_VERSION,
+        engine_version: ENGINE_VERSION.into(),
+        design,
+        difference_label: label,
+        n,
+        notes,
+        statistic: req.statistic,
+        alternative: req.alternative,
+        two_sided: req.two_sided,
+        observed,
+        p_value: pr.p,
+        exact,
+        resamples: counts.total,
+        extreme_count: pr.extreme,
+        mc_se: pr.mc_se,
+        p_interval: pr.interval,
+        seed: req.seed,
+        rng: RNG_NAME.into(),
+        effect_label,
+        ci,
+        bootstrap_resamples: req.bootstrap_resamples,
+        bootstrap_se: boot::standard_error(&finite),
+        t_test,
+        wilcoxon,
+        dz,
+        null_histogram,
+        tail,
+        bootstrap_histogram,
+        finding: String::new(),
+        cautions: Vec::new(),
+    };
+    report.finding = finding(&report);
+    report.cautions = cautions(&report);
+    Ok(report)
+}
+
+fn finding(r: &PairedReport) -> String {
+    let d = match (r.ci.low, r.ci.high) {
+        (Some(l), Some(h)) if h > l => fmt::decimals_for(h - l),
+        _ => 2,
+    };
+    let mut s = format!("The {} was {}", r.effect_label, fmt::fixed(r.observed, d));
+    if let (Some(l), Some(h)) = (r.ci.low, r.ci.high) {
+        s.push_str(&format!(" ({})", fmt::ci(r.ci.level, l, h, d)));
+    }
+    let what = if r.statistic == FlipStatistic::Mean {
+        "a mean difference"
+    } else {
+        "a median difference"
+    };
+    let how = match (r.alternative, r.two_sided) {
+        (Alternative::TwoSided, TwoSidedRule::Absolute) => {
+            "at least this far from zero in either direction"
+        }
+        (Alternative::TwoSided, TwoSidedRule::DoubledTail) => {
+            "at least this far from zero in the observed direction"
+        }
+        (Alternative::Greater, _) => "at least this large",
+        (Alternative::Less, _) => "at least this small",
+    };
+    if r.exact {
+        s.push_str(&format!(
+            "; {what} {how} arose in {} of all {} sign patterns (exact {}).",
+            fmt::count(r.extreme_count),
+            fmt::count(r.resamples),
+            fmt::p_value(r.p_value)
+        ));
+    } else {
+        s.push_str(&format!(
+            "; {what} {how} arose in {} of {} random sign patterns ({}).",
+            fmt::count(r.extreme_count),
+            fmt::count(r.resamples),
+            fmt::p_value(r.p_value)
+        ));
+    }
+    s
+}
+
+fn cautions(r: &PairedReport) -> Vec<String> {
+    let mut c = vec![if r.design == "paired" {
+        "What the test assumes: the pairs are independent of each other, and if there were no \
+         effect each difference would be as likely positive as negative (the two measurements \
+         of a unit are exchangeable)."
+            .to_string()
+    } else {
+        "What the test assumes: the values are independent, and if the true centre were the \
+         reference value their distribution would be symmetric about it. Skewed data can make \
+         a sign-flip test mislead; the bootstrap interval does not need symmetry."
+            .to_string()
+    }];
+    if r.n < 10 {
+        c.push(format!(
+            "Small sample ({} differences): the test has little power, and bootstrap intervals \
+             tend to be too narrow for samples this small (Hesterberg 2015).",
+            r.n
+        ));
+    }
+    c.push("A p-value is not the size of an effect; read it with the interval.".into());
+    c.push(
+        "Several tests on the same data: adjust for their number (for example Holm's method)."
+            .into(),
+    );
+    c.push("Clinical, safety or regulatory decisions need a qualified statistician and the guidelines that apply to them.".into());
+    c
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn zero_differences_and_tiny_samples() {
+        let mut r = PairedRequest::new(
+            "a,b\n1,1\n2,2\n".into(),
+            PairedLayout::Paired {
+                first: "a".into(),
+                second: "b".into(),
+            },
+            1,
+        );
+        r.bootstrap_resamples = 200;
+        let rep = run(&r, &mut |_| true).unwrap();
+        assert_eq!(rep.p_value, 1.0);
+        assert!(rep.t_test.t.is_none());
+        assert!(rep.wilcoxon.p_value.is_none());
+        assert!(!rep.finding.contains("NaN"));
+        let r1 = PairedRequest::new(
+            "a,b\n1,2\n".into(),
+            PairedLayout::Paired {
+                first: "a".into(),
+                second: "b".into(),
+            },
+            1,
+        );
+        assert!(run(&r1, &mut |_| true)
+            .unwrap_err()
+            .to_string()
+            .contains("Only 1 complete pair"));
+    }
+
+    #[test]
+    fn missing_members_are_counted() {
+        let data = "a,b\n1,2\n3,\n4,5.5\n2,1\n6,4\n,3\n";
+        let mut r = PairedRequest::new(
+            data.into(),
+            PairedLayout::Paired {
+                first: "a".into(),
+                second: "b".into(),
+            },
+            1,
+        );
+        r.bootstrap_resamples = 200;
+        let rep = run(&r, &mut |_| true).unwrap();
+        assert_eq!(rep.n, 4);
+        assert!(
+            rep.notes[0].contains("2 pairs with a missing member were left out"),
+            "{:?}",
+            rep.notes
+        );
+    }
+}
