@@ -326,7 +326,6 @@ pub fn ranks(x: &[f64]) -> Vec<f64> {
 }
 
 /// The estimate as a two-slice function (second slice empty for one sample).
-
 fn estimator(e: Estimate, q: f64) -> BoxedStat {
     match e {
         Estimate::Mean | Estimate::Proportion => Box::new(|a, _| stats::mean(a)),
