@@ -337,6 +337,20 @@ fn run_job(job: &Job, o: &Outputs, out: &mut dyn std::io::Write) -> Result<(), S
                 o.html.as_ref().map(|_| report::estimate_html(&rep, &date)),
             )
         }
+        Job::Paired(req) => {
+            let rep = crate::engine::paired::run(req, &mut |_| true).map_err(|e| e.to_string())?;
+            let text = if o.json {
+                serde_json::to_string_pretty(&rep).map_err(|e| e.to_string())? + "\n"
+            } else if o.markdown {
+                report::paired_markdown(&rep, &date)
+            } else {
+                report::paired_text(&rep)
+            };
+            (
+                text,
+                o.html.as_ref().map(|_| report::paired_html(&rep, &date)),
+            )
+        }
     };
     if let (Some(path), Some(h)) = (&o.html, html) {
         std::fs::write(path, h).map_err(|e| format!("Could not write \"{path}\": {e}"))?;
@@ -427,7 +441,7 @@ fn paired_command(
     o: &Outputs,
     out: &mut dyn std::io::Write,
 ) -> Result<(), String> {
-    use crate::engine::paired::{self, PairedLayout, PairedRequest};
+    use crate::engine::paired::{PairedLayout, PairedRequest};
     use crate::engine::signflip::FlipStatistic;
     let (mut file, mut columns, mut value, mut reference, mut seed) =
         (None, None, None, None, None);
@@ -518,13 +532,12 @@ fn paired_command(
     };
     req.data = read_data(&file)?;
     req.seed = seed.unwrap_or_else(fresh_seed);
-    let rep = paired::run(&req, &mut |_| true).map_err(|e| e.to_string())?;
-    let text = if json {
-        serde_json::to_string_pretty(&rep).map_err(|e| e.to_string())? + "\n"
-    } else {
-        crate::engine::report::paired_text(&rep)
+    let o = Outputs {
+        json,
+        markdown: o.markdown,
+        html: o.html.clone(),
     };
-    out.write_all(text.as_bytes()).map_err(|e| e.to_string())
+    run_job(&Job::Paired(req), &o, out)
 }
 
 /// `reshuffle link FILE [analyze options] [--base URL]`: the share link of an analysis.

@@ -80,6 +80,7 @@ pub fn decode(text: &str) -> Result<Job, String> {
     let v = match &job {
         Job::Compare(r) => r.format_version,
         Job::Estimate(r) => r.format_version,
+        Job::Paired(r) => r.format_version,
     };
     if v != FORMAT_VERSION {
         return Err(format!(
@@ -95,6 +96,7 @@ pub fn without_data(job: &Job) -> Job {
     match &mut j {
         Job::Compare(r) => r.data.clear(),
         Job::Estimate(r) => r.data.clear(),
+        Job::Paired(r) => r.data.clear(),
     }
     j
 }

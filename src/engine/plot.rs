@@ -3,7 +3,7 @@
 //! piece of text from the data (group and column names) is XML-escaped.
 
 use super::format as fmt;
-use super::protocol::{Histogram, Interval, Report};
+use super::protocol::{Histogram, Interval, Report, Tail};
 
 /// Bars of the part not counted toward p / outside the interval.
 pub const BODY: &str = "#3f5f8f";
@@ -203,51 +203,87 @@ fn frame(h: &Histogram) -> Option<Frame> {
 }
 
 /// Short text alternative of the relabelling plot.
+/// What a null-distribution figure shows.
+pub struct NullFigure<'a> {
+    /// The statistic, e.g. "difference in means".
+    pub label: &'a str,
+    /// What one resample is called, e.g. "relabellings" or "sign patterns".
+    pub unit: &'a str,
+    /// How the null is made, e.g. "when group labels are shuffled".
+    pub how: &'a str,
+    pub observed: f64,
+    pub exact: bool,
+    pub resamples: u64,
+    pub extreme: u64,
+    pub p_value: f64,
+    pub tail: &'a Tail,
+    pub histogram: &'a Histogram,
+}
+
+fn null_figure_of(r: &Report) -> NullFigure<'_> {
+    NullFigure {
+        label: &r.statistic_label,
+        unit: "relabellings",
+        how: "when group labels are shuffled",
+        observed: r.observed,
+        exact: r.exact,
+        resamples: r.resamples,
+        extreme: r.extreme_count,
+        p_value: r.p_value,
+        tail: &r.tail,
+        histogram: &r.null_histogram,
+    }
+}
+
 pub fn null_description(r: &Report) -> String {
-    let kind = if r.exact { "all possible" } else { "random" };
+    describe_null(&null_figure_of(r))
+}
+
+pub fn describe_null(n: &NullFigure) -> String {
+    let kind = if n.exact { "all possible" } else { "random" };
     format!(
-        "Histogram of the {} over {} {kind} relabellings of the groups. The observed value, {}, \
-         is marked with a dashed line; the hatched bars are the relabellings counted toward the \
-         p-value ({} of {}, {}).",
-        r.statistic_label,
-        fmt::count(r.resamples),
-        fmt::sig(r.observed),
-        fmt::count(r.extreme_count),
-        fmt::count(r.resamples),
-        fmt::p_value(r.p_value)
+        "Histogram of the {} over {} {kind} {}. The observed value, {}, is marked with a dashed \
+         line; the hatched bars are the {} counted toward the p-value ({} of {}, {}).",
+        n.label,
+        fmt::count(n.resamples),
+        n.unit,
+        fmt::sig(n.observed),
+        n.unit,
+        fmt::count(n.extreme),
+        fmt::count(n.resamples),
+        fmt::p_value(n.p_value)
     )
 }
 
 /// The relabelling (null) distribution with the observed value and the tail counted toward p.
 pub fn null_svg(r: &Report, id: &str) -> String {
+    null_figure_svg(&null_figure_of(r), id)
+}
+
+pub fn null_figure_svg(n: &NullFigure, id: &str) -> String {
     let mut out = String::new();
-    let title = format!(
-        "What relabelling gives: the {} when group labels are shuffled",
-        r.statistic_label
-    );
-    open(&mut out, id, &title, &null_description(r));
-    if let Some(f) = frame(&r.null_histogram) {
+    let title = format!("The {} {}", n.label, n.how);
+    open(&mut out, id, &title, &describe_null(n));
+    if let Some(f) = frame(n.histogram) {
         let hatch = format!("url(#{id}-hatch)");
-        legend(
-            &mut out,
-            &[("counted toward p", &hatch), ("other relabellings", BODY)],
-        );
-        let (lo, hi) = (r.tail.low, r.tail.high);
+        let other = format!("other {}", n.unit);
+        legend(&mut out, &[("counted toward p", &hatch), (&other, BODY)]);
+        let (lo, hi) = (n.tail.low, n.tail.high);
         let hl = move |m: f64| lo.is_some_and(|l| m <= l) || hi.is_some_and(|h| m >= h);
-        bars(&mut out, &f, &r.null_histogram, (&hatch, BODY), &hl);
+        bars(&mut out, &f, n.histogram, (&hatch, BODY), &hl);
         axes(
             &mut out,
             &f,
-            &format!("{} under relabelling", r.statistic_label),
-            "relabellings",
+            &format!("{} over {}", n.label, n.unit),
+            n.unit,
         );
         marker(
             &mut out,
             &f,
-            r.observed,
-            &format!("observed {}", fmt::sig(r.observed)),
+            n.observed,
+            &format!("observed {}", fmt::sig(n.observed)),
             true,
-            r.observed > 0.5 * (f.lo + f.hi),
+            n.observed > 0.5 * (f.lo + f.hi),
         );
     }
     out.push_str("</svg>");

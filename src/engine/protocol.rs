@@ -397,6 +397,7 @@ pub struct Progress {
 pub enum Job {
     Compare(Request),
     Estimate(super::estimate::EstimateRequest),
+    Paired(super::paired::PairedRequest),
 }
 
 /// Messages from the worker to the page.
@@ -411,6 +412,9 @@ pub enum WorkerMessage {
     },
     Estimated {
         report: Box<super::estimate::EstimateReport>,
+    },
+    PairedDone {
+        report: Box<super::paired::PairedReport>,
     },
     Failed {
         message: String,

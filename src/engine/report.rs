@@ -672,6 +672,112 @@ pub fn paired_text(r: &super::paired::PairedReport) -> String {
     s
 }
 
+/// Null and bootstrap figures of a paired or one-sample report.
+pub fn paired_figures(
+    r: &super::paired::PairedReport,
+) -> (plot::NullFigure<'_>, plot::BootFigure<'_>) {
+    (
+        plot::NullFigure {
+            label: if r.statistic == super::signflip::FlipStatistic::Mean {
+                "mean difference"
+            } else {
+                "median difference"
+            },
+            unit: "sign patterns",
+            how: "when the signs of the differences are flipped",
+            observed: r.observed,
+            exact: r.exact,
+            resamples: r.resamples,
+            extreme: r.extreme_count,
+            p_value: r.p_value,
+            tail: &r.tail,
+            histogram: &r.null_histogram,
+        },
+        plot::BootFigure {
+            label: &r.effect_label,
+            estimate: r.observed,
+            interval: &r.ci,
+            histogram: &r.bootstrap_histogram,
+            resamples: r.bootstrap_resamples,
+        },
+    )
+}
+
+pub fn paired_markdown(r: &super::paired::PairedReport, date: &str) -> String {
+    let mut s = format!("## Findings\n\n{}\n\n", md_escape(&r.finding));
+    for line in paired_text(r)
+        .lines()
+        .skip(2)
+        .filter(|l| !l.is_empty() && !l.starts_with("- "))
+    {
+        s.push_str(&format!("- {}\n", md_escape(line)));
+    }
+    s.push_str(&format!(
+        "\n### Methods\n\n{}\n\n### Cautions\n\n",
+        md_escape(&paired_methods(r, date))
+    ));
+    for c in &r.cautions {
+        s.push_str(&format!("- {}\n", md_escape(c)));
+    }
+    s
+}
+
+pub fn paired_methods(r: &super::paired::PairedReport, date: &str) -> String {
+    format!(
+        "Design: {} ({} differences, {}). Test: sign-flip permutation test of the {} ({}). \
+         Interval: {} bootstrap from {} resamples of the differences. Cross-checks: {} t-test; \
+         Wilcoxon signed-rank test ({}). Random numbers: {}, seed {}. Computed with Reshuffle {} on {date}.",
+        r.design,
+        r.n,
+        r.difference_label,
+        r.effect_label,
+        if r.exact {
+            format!("exact, all {} sign patterns", fmt::count(r.resamples))
+        } else {
+            format!("{} random sign patterns, p = (b + 1)/(m + 1)", fmt::count(r.resamples))
+        },
+        IntervalMethod::from_key(&r.ci.method).map_or(r.ci.method.clone(), |m| m.label().to_string()),
+        fmt::count(r.bootstrap_resamples),
+        if r.design == "paired" { "paired" } else { "one-sample" },
+        r.wilcoxon.method,
+        r.rng,
+        r.seed,
+        r.engine_version
+    )
+}
+
+pub fn paired_html(r: &super::paired::PairedReport, date: &str) -> String {
+    let (nf, bf) = paired_figures(r);
+    let mut b = format!(
+        "<h1>Reshuffle findings</h1><p class=\"headline\">{}</p><ul>",
+        escape(&r.finding)
+    );
+    for line in paired_text(r)
+        .lines()
+        .skip(2)
+        .filter(|l| !l.is_empty() && !l.starts_with("- "))
+    {
+        b.push_str(&format!("<li>{}</li>", escape(line)));
+    }
+    b.push_str("</ul>");
+    b.push_str(&format!(
+        "<figure>{}<figcaption>{}</figcaption></figure><figure>{}<figcaption>{}</figcaption></figure>",
+        plot::null_figure_svg(&nf, "rep-null"),
+        escape(&plot::describe_null(&nf)),
+        plot::bootstrap_figure_svg(&bf, "rep-boot"),
+        escape(&plot::describe_bootstrap(&bf))
+    ));
+    b.push_str(&format!(
+        "<h2>Methods</h2><p>{}</p><div class=\"cautions\"><h2>Cautions</h2><ul>",
+        escape(&paired_methods(r, date))
+    ));
+    for c in &r.cautions {
+        b.push_str(&format!("<li>{}</li>", escape(c)));
+    }
+    b.push_str("</ul></div>");
+    html_page("Reshuffle findings", &b)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -13,9 +13,11 @@ use crate::engine::finding;
 use crate::engine::format as fmt;
 use crate::engine::groups;
 use crate::engine::link;
+use crate::engine::paired::{PairedLayout, PairedReport, PairedRequest};
 use crate::engine::plot;
 use crate::engine::protocol::*;
 use crate::engine::report;
+use crate::engine::signflip::FlipStatistic;
 use crate::engine::table::{self, ColumnKind, HeaderChoice};
 use crate::web::share;
 
@@ -58,6 +60,7 @@ struct Sinks {
     status: RwSignal<Status>,
     report: RwSignal<Option<Report>>,
     estimated: RwSignal<Option<EstimateReport>>,
+    paired_report: RwSignal<Option<PairedReport>>,
 }
 
 struct WorkerHandle {
@@ -109,6 +112,10 @@ fn spawn_worker(sinks: Sinks) -> Result<(), String> {
                 }
                 Ok(WorkerMessage::Estimated { report }) => {
                     sinks.estimated.set(Some(*report));
+                    sinks.status.set(Status::Done);
+                }
+                Ok(WorkerMessage::PairedDone { report }) => {
+                    sinks.paired_report.set(Some(*report));
                     sinks.status.set(Status::Done);
                 }
                 Ok(WorkerMessage::Failed { message }) => sinks.status.set(Status::Failed(message)),
@@ -261,12 +268,25 @@ fn App() -> impl IntoView {
     let status = RwSignal::new(Status::Idle);
     let report = RwSignal::new(None::<Report>);
     let estimated = RwSignal::new(None::<EstimateReport>);
+    let paired_report = RwSignal::new(None::<PairedReport>);
     let last_job = RwSignal::new(None::<Job>);
     let sinks = Sinks {
         status,
         report,
         estimated,
+        paired_report,
     };
+    // Designs of the comparison: two independent groups, paired columns, one sample.
+    let design = RwSignal::new("two-groups".to_string());
+    let reference = RwSignal::new("0".to_string());
+    let flip_stat = RwSignal::new(FlipStatistic::Mean);
+    let shown = Memo::new(move |_| -> Option<Shown> {
+        match (mode.get().as_str(), design.get().as_str()) {
+            ("compare", "two-groups") => report.get().map(Shown::Compare),
+            ("compare", _) => paired_report.get().map(Shown::Paired),
+            _ => estimated.get().map(Shown::Estimate),
+        }
+    });
 
     let parsed = Memo::new(move |_| {
         table::parse(&data.get(), header.get())
@@ -445,7 +465,40 @@ fn App() -> impl IntoView {
     let build_job = move |seed_value: u64| -> Result<Job, String> {
         let base = build_request(seed_value)?;
         if mode.get_untracked() == "compare" {
-            return Ok(Job::Compare(base));
+            let d = design.get_untracked();
+            if d == "two-groups" {
+                return Ok(Job::Compare(base));
+            }
+            let layout = if d == "paired" {
+                if layout_kind.get_untracked() != "wide" {
+                    return Err("Paired data need one column per measurement: in step 1 choose \"Each group in its own column\" and pick the two columns.".into());
+                }
+                PairedLayout::Paired {
+                    first: first.get_untracked(),
+                    second: second.get_untracked(),
+                }
+            } else {
+                let t = reference.get_untracked();
+                let r: f64 = t
+                    .trim()
+                    .replace(',', ".")
+                    .parse()
+                    .map_err(|_| format!("Reference value: \"{t}\" is not a number."))?;
+                PairedLayout::OneSample {
+                    value: est_value.get_untracked(),
+                    reference: r,
+                }
+            };
+            let mut r = PairedRequest::new(base.data, layout, seed_value);
+            r.header = base.header;
+            r.statistic = flip_stat.get_untracked();
+            r.alternative = base.alternative;
+            r.two_sided = base.two_sided;
+            r.resamples = base.resamples;
+            r.bootstrap_resamples = base.bootstrap_resamples;
+            r.confidence = base.confidence;
+            r.interval = base.interval;
+            return Ok(Job::Paired(r));
         }
         let e = est_kind.get_untracked();
         let layout = match e.kind() {
@@ -560,9 +613,11 @@ fn App() -> impl IntoView {
             side.get(),
             est_methods.get(),
         );
+        let _ = (design.get(), reference.get(), flip_stat.get());
         let last_seed = match &last {
             Job::Compare(r) => r.seed,
             Job::Estimate(r) => r.seed,
+            Job::Paired(r) => r.seed,
         };
         let s = parse_count("Seed", &seed.get()).unwrap_or(last_seed);
         match build_job(s) {
@@ -583,6 +638,14 @@ fn App() -> impl IntoView {
                 b.header = r.header;
                 b.confidence = r.confidence;
                 b.bootstrap_resamples = r.resamples;
+                (b, r.seed)
+            }
+            Job::Paired(r) => {
+                let mut b = Request::new(r.data.clone(), r.seed);
+                b.header = r.header;
+                b.confidence = r.confidence;
+                b.bootstrap_resamples = r.bootstrap_resamples;
+                b.resamples = r.resamples;
                 (b, r.seed)
             }
         };
@@ -617,8 +680,39 @@ fn App() -> impl IntoView {
             }
         };
         match &job {
+            Job::Paired(r) => {
+                mode.set("compare".into());
+                flip_stat.set(r.statistic);
+                alternative.set(r.alternative);
+                two_sided.set(r.two_sided);
+                interval_choice.set(r.interval.key().to_string());
+                resamples.set(r.resamples.to_string());
+                bootstrap.set(r.bootstrap_resamples.to_string());
+                match &r.layout {
+                    PairedLayout::Paired {
+                        first: f,
+                        second: s2,
+                    } => {
+                        design.set("paired".into());
+                        layout_kind.set("wide".into());
+                        col_a.set(f.clone());
+                        col_b.set(s2.clone());
+                        first.set(f.clone());
+                        second.set(s2.clone());
+                    }
+                    PairedLayout::OneSample {
+                        value,
+                        reference: rv,
+                    } => {
+                        design.set("one-sample".into());
+                        est_value.set(value.clone());
+                        reference.set(format!("{rv}"));
+                    }
+                }
+            }
             Job::Compare(r) => {
                 mode.set("compare".into());
+                design.set("two-groups".into());
                 set_layout(&r.layout);
                 if let Some(f) = &r.first {
                     first.set(f.clone());
@@ -679,6 +773,7 @@ fn App() -> impl IntoView {
     let has_data = move |job: &Job| match job {
         Job::Compare(r) => !r.data.trim().is_empty(),
         Job::Estimate(r) => !r.data.trim().is_empty(),
+        Job::Paired(r) => !r.data.trim().is_empty(),
     };
     // Open the analysis in the address, if any.
     let opened_from_link = {
@@ -1003,7 +1098,34 @@ fn App() -> impl IntoView {
                         </select>
                     </div>
                 </div>
-                <div class="row" style:display=move || if mode.get() == "compare" || est_kind.get().kind() == Kind::Two { "flex" } else { "none" }>
+                <div class="row" style:display=move || if mode.get() == "compare" { "flex" } else { "none" }>
+                    <label for="design">"Design"</label>
+                    <select id="design" on:change=move |ev| design.set(event_target_value(&ev))>
+                        <option value="two-groups" selected=move || design.get() == "two-groups">"two independent groups"</option>
+                        <option value="paired" selected=move || design.get() == "paired">"paired: each unit measured twice (one column per measurement)"</option>
+                        <option value="one-sample" selected=move || design.get() == "one-sample">"one sample against a reference value"</option>
+                    </select>
+                </div>
+                <div class="row" style:display=move || if mode.get() == "compare" && design.get() == "one-sample" { "flex" } else { "none" }>
+                    <label for="one-value">"Values"</label>
+                    <ColumnSelect id="one-value" options=Signal::derive(column_options) chosen=est_value/>
+                    <label for="reference">"reference value"</label>
+                    <input id="reference" inputmode="decimal" size="8" prop:value=move || reference.get()
+                        on:input=move |ev| reference.set(event_target_value(&ev))/>
+                </div>
+                <p class="hint" style:display=move || if mode.get() == "compare" && design.get() == "paired" { "block" } else { "none" }>
+                    "Choose \"Each group in its own column\" in step 1 and the two measurement columns; the difference is the first minus the second."
+                </p>
+                <div class="row" style:display=move || if mode.get() == "compare" && design.get() != "two-groups" { "flex" } else { "none" }>
+                    <label for="flip-stat">"Summarise the differences by their"</label>
+                    <select id="flip-stat" on:change=move |ev| {
+                        if let Some(x) = FlipStatistic::from_key(&event_target_value(&ev)) { flip_stat.set(x) }
+                    }>
+                        <option value="mean">"mean"</option>
+                        <option value="median">"median"</option>
+                    </select>
+                </div>
+                <div class="row" style:display=move || if (mode.get() == "compare" && design.get() != "one-sample") || (mode.get() == "estimate" && est_kind.get().kind() == Kind::Two) { "flex" } else { "none" }>
                     <label for="first">"Compare"</label>
                     <select id="first" on:change=move |ev| first.set(event_target_value(&ev))>
                         {move || levels.get().into_iter().map(|l| {
@@ -1020,7 +1142,7 @@ fn App() -> impl IntoView {
                     </select>
                 </div>
                 <div class="compare-options" style:display=move || if mode.get() == "compare" { "block" } else { "none" }>
-                <div class="row">
+                <div class="row" style:display=move || if design.get() == "two-groups" { "flex" } else { "none" }>
                     <label for="statistic">"Measure the difference by"</label>
                     <select id="statistic" on:change=move |ev| {
                         if let Some(s) = Statistic::from_key(&event_target_value(&ev)) { statistic.set(s) }
@@ -1122,12 +1244,12 @@ fn App() -> impl IntoView {
                 {move || stale.get().then(|| view! {
                     <p class="stale">"The settings have changed since these findings were computed; run the analysis again to update them."</p>
                 })}
-                {move || if mode.get() == "compare" {
-                    report.get().map(|r| view! { <Findings report=r/> }.into_any())
-                } else {
-                    estimated.get().map(|r| view! { <EstimateFindings report=r/> }.into_any())
-                }}
-                {move || (report.get().is_some() || estimated.get().is_some()).then(|| view! {
+                {move || shown.get().map(|sh| match sh {
+                    Shown::Compare(r) => view! { <Findings report=r/> }.into_any(),
+                    Shown::Estimate(r) => view! { <EstimateFindings report=r/> }.into_any(),
+                    Shown::Paired(r) => view! { <PairedFindings report=r/> }.into_any(),
+                })}
+                {move || shown.get().is_some().then(|| view! {
                     <div class="share" id="share">
                         <h3>"Share and save"</h3>
                         <div class="share-buttons">
@@ -1135,29 +1257,43 @@ fn App() -> impl IntoView {
                             <button type="button" class="secondary" id="copy-settings-link" on:click=move |_| copy_link(true)>"Copy settings-only link"</button>
                             <button type="button" class="secondary" id="save-analysis" on:click=move |_| save_job()>"Save analysis file"</button>
                             <button type="button" class="secondary" id="copy-text" on:click=move |_| {
-                                let t = current_text(mode.get_untracked(), report.get_untracked(), estimated.get_untracked(), false);
+                                let t = current_text(shown.get_untracked(), false);
                                 share::copy(&t);
                                 share_note.set("Findings copied as plain text.".into());
                             }>"Copy as text"</button>
                             <button type="button" class="secondary" id="copy-markdown" on:click=move |_| {
-                                let t = current_text(mode.get_untracked(), report.get_untracked(), estimated.get_untracked(), true);
+                                let t = current_text(shown.get_untracked(), true);
                                 share::copy(&t);
                                 share_note.set("Findings copied as Markdown.".into());
                             }>"Copy as Markdown"</button>
                             <button type="button" class="secondary" id="download-report" on:click=move |_| {
-                                let h = match (mode.get_untracked().as_str(), report.get_untracked(), estimated.get_untracked()) {
-                                    ("compare", Some(r), _) => report::html(&r, &share::today()),
-                                    (_, _, Some(e)) => report::estimate_html(&e, &share::today()),
-                                    _ => return,
+                                let h = match shown.get_untracked() {
+                                    Some(Shown::Compare(r)) => report::html(&r, &share::today()),
+                                    Some(Shown::Estimate(e)) => report::estimate_html(&e, &share::today()),
+                                    Some(Shown::Paired(p)) => report::paired_html(&p, &share::today()),
+                                    None => return,
                                 };
                                 let _ = share::download("reshuffle-report.html", "text/html", &h);
                             }>"Download report (HTML)"</button>
                             <button type="button" class="secondary" id="download-csv" on:click=move |_| {
-                                if mode.get_untracked() == "compare" {
-                                    if let Some(r) = report.get_untracked() {
-                                        let _ = share::download("reshuffle-results.csv", "text/csv", &report::results_csv(&r));
-                                    }
-                                } else if let Some(e) = estimated.get_untracked() {
+                                let sh = shown.get_untracked();
+                                if let Some(Shown::Compare(r)) = &sh {
+                                    let _ = share::download("reshuffle-results.csv", "text/csv", &report::results_csv(r));
+                                } else if let Some(Shown::Paired(p)) = &sh {
+                                    let opt = |v: Option<f64>| v.map_or(String::new(), |x| format!("{x:?}"));
+                                    let rows = vec![
+                                        vec!["observed".into(), format!("{:?}", p.observed)],
+                                        vec!["p_value".into(), format!("{:?}", p.p_value)],
+                                        vec!["ci_low".into(), opt(p.ci.low)],
+                                        vec!["ci_high".into(), opt(p.ci.high)],
+                                        vec!["t".into(), opt(p.t_test.t)],
+                                        vec!["t_p_value".into(), opt(p.t_test.p_value)],
+                                        vec!["wilcoxon_p_value".into(), opt(p.wilcoxon.p_value)],
+                                        vec!["dz".into(), opt(p.dz.estimate)],
+                                        vec!["seed".into(), p.seed.to_string()],
+                                    ];
+                                    let _ = share::download("reshuffle-results.csv", "text/csv", &report::csv_table(&["quantity", "value"], &rows));
+                                } else if let Some(Shown::Estimate(e)) = sh {
                                     let rows: Vec<Vec<String>> = e.intervals.iter().map(|iv| vec![
                                         iv.method.clone(), iv.low.map_or(String::new(), |v| format!("{v:?}")),
                                         iv.high.map_or(String::new(), |v| format!("{v:?}")), iv.note.clone().unwrap_or_default()]).collect();
@@ -1165,13 +1301,13 @@ fn App() -> impl IntoView {
                                 }
                             }>"Results (CSV)"</button>
                             <button type="button" class="secondary" id="download-values" on:click=move |_| {
-                                let csv = if mode.get_untracked() == "compare" {
-                                    report.get_untracked().map(|r| report::values_csv(&[
+                                let csv = match shown.get_untracked() {
+                                    Some(Shown::Compare(r)) => Some(report::values_csv(&[
                                         ("relabelled", r.null_values.as_deref().unwrap_or(&[])),
                                         ("bootstrap", r.bootstrap_values.as_deref().unwrap_or(&[])),
-                                    ]))
-                                } else {
-                                    estimated.get_untracked().map(|e| report::values_csv(&[("bootstrap", e.values.as_deref().unwrap_or(&[]))]))
+                                    ])),
+                                    Some(Shown::Estimate(e)) => Some(report::values_csv(&[("bootstrap", e.values.as_deref().unwrap_or(&[]))])),
+                                    _ => None,
                                 };
                                 if let Some(c) = csv {
                                     let _ = share::download("reshuffle-resampled.csv", "text/csv", &c);
@@ -1179,7 +1315,7 @@ fn App() -> impl IntoView {
                             }>"Resampled statistics (CSV)"</button>
                         </div>
                         <div class="share-buttons">
-                            {move || figures(mode.get(), report.get(), estimated.get()).into_iter().map(|(name, svg)| {
+                            {move || figures(shown.get()).into_iter().map(|(name, svg)| {
                                 let (svg2, name2) = (svg.clone(), name.clone());
                                 view! {
                                     <button type="button" class="secondary" on:click=move |_| {
@@ -1218,14 +1354,22 @@ fn is_offline() -> bool {
         .is_some_and(|v| v.is_truthy())
 }
 
+/// The findings on screen.
+#[derive(Clone, Debug, PartialEq)]
+enum Shown {
+    Compare(Report),
+    Estimate(EstimateReport),
+    Paired(PairedReport),
+}
+
 /// The figures on screen, as (short name, SVG text).
-fn figures(mode: String, r: Option<Report>, e: Option<EstimateReport>) -> Vec<(String, String)> {
-    match (mode.as_str(), r, e) {
-        ("compare", Some(r), _) => vec![
+fn figures(shown: Option<Shown>) -> Vec<(String, String)> {
+    match shown {
+        Some(Shown::Compare(r)) => vec![
             ("relabelling".into(), plot::null_svg(&r, "dl-null")),
             ("bootstrap".into(), plot::bootstrap_svg(&r, "dl-boot")),
         ],
-        (_, _, Some(e)) => {
+        Some(Shown::Estimate(e)) => {
             let fig = plot::BootFigure {
                 label: &e.estimate_label,
                 estimate: e.estimate,
@@ -1238,34 +1382,31 @@ fn figures(mode: String, r: Option<Report>, e: Option<EstimateReport>) -> Vec<(S
                 plot::bootstrap_figure_svg(&fig, "dl-est"),
             )]
         }
-        _ => vec![],
+        Some(Shown::Paired(p)) => {
+            let (nf, bf) = report::paired_figures(&p);
+            vec![
+                ("sign-flips".into(), plot::null_figure_svg(&nf, "dl-flip")),
+                (
+                    "bootstrap".into(),
+                    plot::bootstrap_figure_svg(&bf, "dl-pboot"),
+                ),
+            ]
+        }
+        None => vec![],
     }
 }
 
 /// The findings on screen as plain text or Markdown.
-fn current_text(
-    mode: String,
-    r: Option<Report>,
-    e: Option<EstimateReport>,
-    markdown: bool,
-) -> String {
+fn current_text(shown: Option<Shown>, markdown: bool) -> String {
     let date = share::today();
-    match (mode.as_str(), r, e) {
-        ("compare", Some(r), _) => {
-            if markdown {
-                report::markdown(&r, &date)
-            } else {
-                report::report_text(&r)
-            }
-        }
-        (_, _, Some(e)) => {
-            if markdown {
-                report::estimate_markdown(&e, &date)
-            } else {
-                report::estimate_text(&e)
-            }
-        }
-        _ => String::new(),
+    match shown {
+        Some(Shown::Compare(r)) if markdown => report::markdown(&r, &date),
+        Some(Shown::Compare(r)) => report::report_text(&r),
+        Some(Shown::Estimate(e)) if markdown => report::estimate_markdown(&e, &date),
+        Some(Shown::Estimate(e)) => report::estimate_text(&e),
+        Some(Shown::Paired(p)) if markdown => report::paired_markdown(&p, &date),
+        Some(Shown::Paired(p)) => report::paired_text(&p),
+        None => String::new(),
     }
 }
 
@@ -1527,6 +1668,97 @@ fn EstimateFindings(report: EstimateReport) -> impl IntoView {
             </dl>
             <aside class="cautions" aria-labelledby="est-cautions-title">
                 <h3 id="est-cautions-title">"Before you rely on this"</h3>
+                <ul>{r.cautions.iter().map(|c| view! { <li>{c.clone()}</li> }).collect_view()}</ul>
+            </aside>
+        </div>
+    }
+}
+
+#[component]
+fn PairedFindings(report: PairedReport) -> impl IntoView {
+    let r = report;
+    let (nf, bf) = report::paired_figures(&r);
+    let null_svg = plot::null_figure_svg(&nf, "flip-plot");
+    let boot_svg = plot::bootstrap_figure_svg(&bf, "pboot-plot");
+    let (null_caption, boot_caption) = (plot::describe_null(&nf), plot::describe_bootstrap(&bf));
+    let d = match (r.ci.low, r.ci.high) {
+        (Some(l), Some(h)) if h > l => fmt::decimals_for(h - l),
+        _ => 2,
+    };
+    let p_detail = if r.exact {
+        format!(
+            "exact: all {} sign patterns enumerated",
+            fmt::count(r.resamples)
+        )
+    } else {
+        format!(
+            "Monte Carlo: {} random sign patterns, standard error {:.4}",
+            fmt::count(r.resamples),
+            r.mc_se.unwrap_or(0.0)
+        )
+    };
+    let ci_text = match (r.ci.low, r.ci.high) {
+        (Some(l), Some(h)) => format!(
+            "{} [{}, {}]",
+            fmt::fixed(r.observed, d),
+            fmt::fixed(l, d),
+            fmt::fixed(h, d)
+        ),
+        _ => format!(
+            "{} (no interval: {})",
+            fmt::fixed(r.observed, d),
+            r.ci.note.clone().unwrap_or_default()
+        ),
+    };
+    let t_text = match (r.t_test.t, r.t_test.p_value) {
+        (Some(t), Some(p)) => format!("t = {t:.3}, df = {}, {}", r.t_test.df, fmt::p_value(p)),
+        _ => "undefined (no spread)".into(),
+    };
+    let w_text = match r.wilcoxon.p_value {
+        Some(p) => format!(
+            "W+ = {}, {} ({}; {} zero difference{} left out)",
+            fmt::sig(r.wilcoxon.w_plus),
+            fmt::p_value(p),
+            r.wilcoxon.method,
+            r.wilcoxon.zeros,
+            if r.wilcoxon.zeros == 1 { "" } else { "s" }
+        ),
+        None => r.wilcoxon.method.clone(),
+    };
+    let dz_text = match (r.dz.estimate, r.dz.ci.low, r.dz.ci.high) {
+        (Some(g), Some(l), Some(h)) => format!("{g:.2} [{l:.2}, {h:.2}]"),
+        (Some(g), _, _) => format!("{g:.2}"),
+        _ => "undefined".into(),
+    };
+    let level = fmt::percent(r.ci.level);
+    view! {
+        <div class="findings" id="paired-findings" data-p-value=format!("{:?}", r.p_value)
+            data-ci-low=format!("{:?}", r.ci.low) data-ci-high=format!("{:?}", r.ci.high)>
+            <p class="headline" id="paired-finding">{r.finding.clone()}</p>
+            {(!r.notes.is_empty()).then(|| view! {
+                <ul class="notes">{r.notes.iter().map(|n| view! { <li>{n.clone()}</li> }).collect_view()}</ul>
+            })}
+            <div class="plots">
+                <figure>
+                    <div class="svg" inner_html=null_svg id="flip-figure"></div>
+                    <figcaption>{null_caption}</figcaption>
+                </figure>
+                <figure>
+                    <div class="svg" inner_html=boot_svg id="pboot-figure"></div>
+                    <figcaption>{boot_caption}</figcaption>
+                </figure>
+            </div>
+            <dl class="numbers" id="paired-results">
+                <dt>"Design"</dt><dd>{format!("{}, {} differences ({})", r.design, r.n, r.difference_label)}</dd>
+                <dt>"p-value"</dt><dd>{format!("{} — {}", fmt::p_number(r.p_value), p_detail)}</dd>
+                <dt>{format!("{} with {level} CI", r.effect_label)}</dt><dd>{ci_text}</dd>
+                <dt>{if r.design == "paired" { "Paired t-test (cross-check)" } else { "One-sample t-test (cross-check)" }}</dt><dd>{t_text}</dd>
+                <dt>"Wilcoxon signed-rank (cross-check)"</dt><dd>{w_text}</dd>
+                <dt>{format!("{} with {level} CI", r.dz.name)}</dt><dd>{dz_text}</dd>
+                <dt>"Seed and generator"</dt><dd>{format!("{} · {}", r.seed, r.rng)}</dd>
+            </dl>
+            <aside class="cautions" aria-labelledby="paired-cautions-title">
+                <h3 id="paired-cautions-title">"Before you rely on this"</h3>
                 <ul>{r.cautions.iter().map(|c| view! { <li>{c.clone()}</li> }).collect_view()}</ul>
             </aside>
         </div>

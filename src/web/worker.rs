@@ -47,6 +47,11 @@ fn handle(scope: &DedicatedWorkerGlobalScope, text: &str) {
                 report: Box::new(report),
             }
         }),
+        Job::Paired(req) => {
+            crate::engine::paired::run(req, &mut progress).map(|report| WorkerMessage::PairedDone {
+                report: Box::new(report),
+            })
+        }
     };
     let msg = match result {
         Ok(m) => m,

@@ -357,6 +357,39 @@ test("the single-file build works from disk with no server and no network", asyn
   await page.close();
 });
 
+test("paired and one-sample designs in the page match the native command", async () => {
+  const csv = fs.readFileSync(path.join(root, "tests/reference/data/sleep-paired.csv"), "utf8");
+  const json = JSON.parse(native(["analyze", "tests/reference/data/sleep-paired.csv", "--design", "paired",
+    "--columns", "drug2,drug1", "--seed", "55", "--json"]));
+  const { page, errors } = await openPage();
+  await page.fill("#data", csv);
+  await page.check("input[name=layout][value=wide]");
+  await page.selectOption("#col-a", "drug2");
+  await page.selectOption("#col-b", "drug1");
+  await page.selectOption("#design", "paired");
+  await page.selectOption("#first", "drug2");
+  await page.click("summary");
+  await page.fill("#seed", "55");
+  await page.click("#run");
+  await page.waitForSelector("#paired-finding", { timeout: 60000 });
+  assert.equal(await page.textContent("#paired-finding"), json.finding);
+  assert.equal(await page.getAttribute("#paired-findings", "data-p-value"), String(json.p_value));
+  assert.match(await page.textContent("#paired-results"), /Wilcoxon/);
+  assert.ok(await page.$("#flip-figure svg title"));
+  // One sample against a reference value.
+  const one = JSON.parse(native(["analyze", "tests/reference/data/sleep-paired.csv", "--design", "one-sample",
+    "--value", "drug1", "--reference", "0.5", "--statistic", "median", "--seed", "55", "--json"]));
+  await page.selectOption("#design", "one-sample");
+  await page.selectOption("#one-value", "drug1");
+  await page.fill("#reference", "0.5");
+  await page.selectOption("#flip-stat", "median");
+  await page.click("#run");
+  await page.waitForFunction((f) => document.querySelector("#paired-finding")?.textContent === f, one.finding, { timeout: 60000 });
+  await page.screenshot({ path: path.join(out, "paired.png"), fullPage: true });
+  assert.deepEqual(errors, []);
+  await page.close();
+});
+
 test("the page makes no request beyond its own files", async () => {
   // (file: is the single-file build opened from disk in its own test.)
   const foreign = requests.filter((u) => !u.startsWith(base) && !/^(data|blob|file):/.test(u));
