@@ -1157,11 +1157,27 @@ fn App() -> impl IntoView {
                     <legend>"Which answer are you after?"</legend>
                     {move || {
                         let (f, s) = (first.get(), second.get());
-                        [
-                            (Alternative::TwoSided, format!("Do {f} and {s} differ, in either direction?")),
-                            (Alternative::Greater, format!("Is {f} higher than {s}?")),
-                            (Alternative::Less, format!("Is {f} lower than {s}?")),
-                        ].into_iter().map(|(alt, text)| view! {
+                        let questions = match design.get().as_str() {
+                            "one-sample" => {
+                                let (v, r) = (est_value.get(), reference.get());
+                                [
+                                    (Alternative::TwoSided, format!("Is the centre of {v} different from {r}, in either direction?")),
+                                    (Alternative::Greater, format!("Is the centre of {v} above {r}?")),
+                                    (Alternative::Less, format!("Is the centre of {v} below {r}?")),
+                                ]
+                            }
+                            "paired" => [
+                                (Alternative::TwoSided, format!("Do {f} and {s} differ within units, in either direction?")),
+                                (Alternative::Greater, format!("Is {f} higher than {s} within units?")),
+                                (Alternative::Less, format!("Is {f} lower than {s} within units?")),
+                            ],
+                            _ => [
+                                (Alternative::TwoSided, format!("Do {f} and {s} differ, in either direction?")),
+                                (Alternative::Greater, format!("Is {f} higher than {s}?")),
+                                (Alternative::Less, format!("Is {f} lower than {s}?")),
+                            ],
+                        };
+                        questions.into_iter().map(|(alt, text)| view! {
                             <label class="choice">
                                 <input type="radio" name="alternative" value=alt.key()
                                     prop:checked=move || alternative.get() == alt
@@ -1175,7 +1191,7 @@ fn App() -> impl IntoView {
                 <details class="settings">
                     <summary>"Resampling settings"</summary>
                     <div class="grid" class:estimating=move || mode.get() == "estimate">
-                        <label class="compare-only" for="resamples">"Random relabellings"</label>
+                        <label class="compare-only" for="resamples">"Random relabellings (or sign patterns)"</label>
                         <input class="compare-only" id="resamples" inputmode="numeric" prop:value=move || resamples.get()
                             on:input=move |ev| resamples.set(event_target_value(&ev))/>
                         <label class="compare-only" for="exact-limit">"Enumerate every split when there are at most"</label>
