@@ -356,6 +356,34 @@ pub fn histogram(values: &[f64], marks: &[f64], bins: usize) -> Histogram {
     Histogram { edges, counts }
 }
 
+/// The part of the null distribution counted toward the p-value, for the plot: the side of
+/// the observed value for a doubled tail, both sides beyond |t| for the absolute rule.
+pub fn tail_region(alt: Alternative, rule: TwoSidedRule, counts: &Counts, observed: f64) -> Tail {
+    let upper = Tail {
+        low: None,
+        high: Some(observed),
+    };
+    let lower = Tail {
+        low: Some(observed),
+        high: None,
+    };
+    match (alt, rule) {
+        (Alternative::Greater, _) => upper,
+        (Alternative::Less, _) => lower,
+        (Alternative::TwoSided, TwoSidedRule::Absolute) => Tail {
+            low: Some(-observed.abs()),
+            high: Some(observed.abs()),
+        },
+        (Alternative::TwoSided, TwoSidedRule::DoubledTail) => {
+            if counts.ge <= counts.le {
+                upper
+            } else {
+                lower
+            }
+        }
+    }
+}
+
 /// Runs the analysis a request describes.
 pub fn run(req: &Request, progress: ProgressFn) -> Result<Report, RunError> {
     check_settings(req)?;
@@ -496,33 +524,7 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
     };
     let groups_out = vec![summary(&g.names[0], a), summary(&g.names[1], b)];
 
-    let tail = match (req.alternative, req.two_sided) {
-        (Alternative::Greater, _) => Tail {
-            low: None,
-            high: Some(observed),
-        },
-        (Alternative::Less, _) => Tail {
-            low: Some(observed),
-            high: None,
-        },
-        (Alternative::TwoSided, TwoSidedRule::Absolute) => Tail {
-            low: Some(-observed.abs()),
-            high: Some(observed.abs()),
-        },
-        (Alternative::TwoSided, TwoSidedRule::DoubledTail) => {
-            if null.counts.ge <= null.counts.le {
-                Tail {
-                    low: None,
-                    high: Some(observed),
-                }
-            } else {
-                Tail {
-                    low: Some(observed),
-                    high: None,
-                }
-            }
-        }
-    };
+    let tail = tail_region(req.alternative, req.two_sided, &null.counts, observed);
     let mut marks = vec![observed];
     if let Some(l) = tail.low {
         marks.push(l);

@@ -6,7 +6,7 @@
 use serde::{Deserialize, Serialize};
 use statrs::distribution::{ContinuousCDF, StudentsT};
 
-use super::analysis::{self, histogram, p_value, ProgressFn, RunError};
+use super::analysis::{self, histogram, p_value, tail_region, ProgressFn, RunError};
 use super::boot::{self, Design, SeMethod, Stat};
 use super::estimate::ranks;
 use super::format as fmt;
@@ -497,33 +497,7 @@ pub fn run(req: &PairedRequest, progress: ProgressFn) -> Result<PairedReport, Ru
     };
     let t_test = t_test(&d, req.alternative, req.confidence);
     let wilcoxon = signed_rank(&d, req.alternative);
-    let tail = match (req.alternative, req.two_sided) {
-        (Alternative::Greater, _) => Tail {
-            low: None,
-            high: Some(observed),
-        },
-        (Alternative::Less, _) => Tail {
-            low: Some(observed),
-            high: None,
-        },
-        (Alternative::TwoSided, TwoSidedRule::Absolute) => Tail {
-            low: Some(-observed.abs()),
-            high: Some(observed.abs()),
-        },
-        (Alternative::TwoSided, TwoSidedRule::DoubledTail) => {
-            if counts.ge <= counts.le {
-                Tail {
-                    low: None,
-                    high: Some(observed),
-                }
-            } else {
-                Tail {
-                    low: Some(observed),
-                    high: None,
-                }
-            }
-        }
-    };
+    let tail = tail_region(req.alternative, req.two_sided, &counts, observed);
     let null_histogram = histogram(&values, &[observed], 48);
     let mut bm = vec![observed];
     bm.extend(ci.low);
