@@ -123,98 +123,167 @@ fn parse_num<T: std::str::FromStr>(flag: &str, v: &str) -> Result<T, String> {
         .map_err(|_| format!("{flag} needs a number, not \"{v}\"."))
 }
 
-/// Builds a request from the command line; `data` is the table text.
+/// Command-line options, read once: the data file, switches and `--flag value` pairs.
+/// Each command takes the options it knows; whatever is left is an error.
+pub struct Opts {
+    file: Option<String>,
+    values: Vec<(String, String)>,
+    switches: Vec<String>,
+}
+
+/// Options that take no value.
+const SWITCHES: [&str; 3] = ["--json", "--paired", "--markdown"];
+
+impl Opts {
+    pub fn parse(args: &[String]) -> Result<Opts, String> {
+        let mut o = Opts {
+            file: None,
+            values: Vec::new(),
+            switches: Vec::new(),
+        };
+        let mut it = args.iter();
+        while let Some(a) = it.next() {
+            if SWITCHES.contains(&a.as_str()) {
+                o.switches.push(a.clone());
+            } else if a.starts_with("--") {
+                let v = it.next().ok_or_else(|| format!("{a} needs a value."))?;
+                o.values.push((a.clone(), v.clone()));
+            } else if let Some(f) = &o.file {
+                return Err(format!(
+                    "Only one data file can be given (got \"{f}\" and \"{a}\")."
+                ));
+            } else {
+                o.file = Some(a.clone());
+            }
+        }
+        Ok(o)
+    }
+
+    fn take(&mut self, flag: &str) -> Option<String> {
+        let i = self.values.iter().position(|(f, _)| f == flag)?;
+        Some(self.values.remove(i).1)
+    }
+
+    fn switch(&mut self, flag: &str) -> bool {
+        let had = self.switches.iter().any(|s| s == flag);
+        self.switches.retain(|s| s != flag);
+        had
+    }
+
+    fn num<T: std::str::FromStr>(&mut self, flag: &str) -> Result<Option<T>, String> {
+        self.take(flag).map(|v| parse_num(flag, &v)).transpose()
+    }
+
+    fn list(&mut self, flag: &str) -> Option<Vec<String>> {
+        self.take(flag)
+            .map(|v| v.split(',').map(|s| s.trim().to_string()).collect())
+    }
+
+    fn choice<T>(
+        &mut self,
+        flag: &str,
+        from: impl Fn(&str) -> Option<T>,
+        allowed: &str,
+    ) -> Result<Option<T>, String> {
+        self.take(flag)
+            .map(|v| from(&v).ok_or_else(|| format!("{flag} takes {allowed}, not \"{v}\".")))
+            .transpose()
+    }
+
+    fn header(&mut self) -> Result<HeaderChoice, String> {
+        let h = self.choice(
+            "--header",
+            |v| match v {
+                "detect" => Some(HeaderChoice::Detect),
+                "names" => Some(HeaderChoice::Names),
+                "data" => Some(HeaderChoice::Data),
+                _ => None,
+            },
+            "detect, names or data",
+        )?;
+        Ok(h.unwrap_or_default())
+    }
+
+    fn alternative(&mut self) -> Result<Option<Alternative>, String> {
+        self.choice(
+            "--alternative",
+            Alternative::from_key,
+            "two-sided, greater or less",
+        )
+    }
+
+    fn two_sided(&mut self) -> Result<Option<TwoSidedRule>, String> {
+        self.choice(
+            "--two-sided",
+            TwoSidedRule::from_key,
+            "absolute or doubled-tail",
+        )
+    }
+
+    fn data(&mut self) -> Result<String, String> {
+        let f = self
+            .file
+            .take()
+            .ok_or("Name the data file (or - for standard input).")?;
+        read_data(&f)
+    }
+
+    fn seed(&mut self) -> Result<u64, String> {
+        Ok(self.num("--seed")?.unwrap_or_else(fresh_seed))
+    }
+
+    /// Errors on any option no one took.
+    fn finish(self) -> Result<(), String> {
+        if let Some((f, _)) = self.values.first() {
+            return Err(format!("Unknown option {f} here. Try: reshuffle help"));
+        }
+        if let Some(f) = self.switches.first() {
+            return Err(format!("Unknown option {f} here. Try: reshuffle help"));
+        }
+        Ok(())
+    }
+}
+
+/// Builds a two-group request from the command line; `data_from` reads the table text.
 pub fn request_from_args(
     args: &[String],
     data_from: &mut dyn FnMut(&str) -> Result<String, String>,
 ) -> Result<(Request, bool), String> {
-    let mut file: Option<String> = None;
+    let mut o = Opts::parse(args)?;
     let mut req = Request::new(String::new(), 0);
-    let mut seed: Option<u64> = None;
-    let (mut value, mut group, mut columns) = (None, None, None);
-    let mut json = false;
-    let mut i = 0;
-    while i < args.len() {
-        let a = args[i].as_str();
-        let mut val = || -> Result<String, String> {
-            i += 1;
-            args.get(i)
-                .cloned()
-                .ok_or_else(|| format!("{a} needs a value."))
-        };
-        match a {
-            "--json" => json = true,
-            "--value" => value = Some(val()?),
-            "--group" => group = Some(val()?),
-            "--columns" => {
-                columns = Some(
-                    val()?
-                        .split(',')
-                        .map(|s| s.trim().to_string())
-                        .collect::<Vec<_>>(),
-                )
-            }
-            "--first" => req.first = Some(val()?),
-            "--second" => req.second = Some(val()?),
-            "--header" => {
-                req.header = match val()?.as_str() {
-                    "detect" => HeaderChoice::Detect,
-                    "names" => HeaderChoice::Names,
-                    "data" => HeaderChoice::Data,
-                    o => {
-                        return Err(format!(
-                            "--header takes detect, names or data, not \"{o}\"."
-                        ))
-                    }
-                }
-            }
-            "--statistic" => {
-                let v = val()?;
-                req.statistic = Statistic::from_key(&v).ok_or_else(|| {
-                    format!(
-                        "--statistic takes {}, not \"{v}\".",
-                        Statistic::ALL.map(|s| s.key()).join(", ")
-                    )
-                })?
-            }
-            "--alternative" => {
-                let v = val()?;
-                req.alternative = Alternative::from_key(&v).ok_or_else(|| {
-                    format!("--alternative takes two-sided, greater or less, not \"{v}\".")
-                })?
-            }
-            "--two-sided" => {
-                let v = val()?;
-                req.two_sided = TwoSidedRule::from_key(&v).ok_or_else(|| {
-                    format!("--two-sided takes absolute or doubled-tail, not \"{v}\".")
-                })?
-            }
-            "--interval" => {
-                let v = val()?;
-                let (head, more) = parse_intervals(&v)?;
-                req.interval = head;
-                req.more_intervals = more;
-            }
-            "--resamples" => req.resamples = parse_num(a, &val()?)?,
-            "--bootstrap" => req.bootstrap_resamples = parse_num(a, &val()?)?,
-            "--exact-limit" => req.exact_limit = parse_num(a, &val()?)?,
-            "--confidence" => req.confidence = parse_num(a, &val()?)?,
-            "--seed" => seed = Some(parse_num(a, &val()?)?),
-            s if s.starts_with("--") => {
-                return Err(format!("Unknown option {s}. Try: reshuffle help"))
-            }
-            s => {
-                if file.is_some() {
-                    return Err(format!(
-                        "Only one data file can be given (also got \"{s}\")."
-                    ));
-                }
-                file = Some(s.to_string());
-            }
-        }
-        i += 1;
+    let json = o.switch("--json");
+    let (value, group, columns) = (o.take("--value"), o.take("--group"), o.list("--columns"));
+    req.first = o.take("--first");
+    req.second = o.take("--second");
+    req.header = o.header()?;
+    if let Some(st) = o.choice(
+        "--statistic",
+        Statistic::from_key,
+        &Statistic::ALL.map(|s| s.key()).join(", "),
+    )? {
+        req.statistic = st;
     }
-    let file = file.ok_or("Name the data file (or - for standard input).")?;
+    if let Some(a) = o.alternative()? {
+        req.alternative = a;
+    }
+    if let Some(r) = o.two_sided()? {
+        req.two_sided = r;
+    }
+    if let Some(v) = o.take("--interval") {
+        let (head, more) = parse_intervals(&v)?;
+        req.interval = head;
+        req.more_intervals = more;
+    }
+    req.resamples = o.num("--resamples")?.unwrap_or(req.resamples);
+    req.bootstrap_resamples = o.num("--bootstrap")?.unwrap_or(req.bootstrap_resamples);
+    req.exact_limit = o.num("--exact-limit")?.unwrap_or(req.exact_limit);
+    req.confidence = o.num("--confidence")?.unwrap_or(req.confidence);
+    req.seed = o.seed()?;
+    let file = o
+        .file
+        .take()
+        .ok_or("Name the data file (or - for standard input).")?;
+    o.finish()?;
     req.data = data_from(&file)?;
     req.layout = match (value, group, columns) {
         (None, None, None) => Layout::Detect,
@@ -227,10 +296,6 @@ pub fn request_from_args(
             "Use either --value with --group (long format) or --columns (wide format), not both."
                 .into(),
         ),
-    };
-    req.seed = match seed {
-        Some(s) => s,
-        None => fresh_seed(),
     };
     Ok((req, json))
 }
@@ -443,9 +508,8 @@ fn paired_command(
 ) -> Result<(), String> {
     use crate::engine::paired::{PairedLayout, PairedRequest};
     use crate::engine::signflip::FlipStatistic;
-    let (mut file, mut columns, mut value, mut reference, mut seed) =
-        (None, None, None, None, None);
-    let mut json = o.json;
+    let mut p = Opts::parse(args)?;
+    let json = o.json || p.switch("--json");
     let mut req = PairedRequest::new(
         String::new(),
         PairedLayout::OneSample {
@@ -454,84 +518,45 @@ fn paired_command(
         },
         0,
     );
-    let mut i = 0;
-    while i < args.len() {
-        let a = args[i].as_str();
-        let mut val = || -> Result<String, String> {
-            i += 1;
-            args.get(i)
-                .cloned()
-                .ok_or_else(|| format!("{a} needs a value."))
-        };
-        match a {
-            "--json" => json = true,
-            "--columns" => {
-                columns = Some(
-                    val()?
-                        .split(',')
-                        .map(|s| s.trim().to_string())
-                        .collect::<Vec<_>>(),
-                )
-            }
-            "--value" => value = Some(val()?),
-            "--reference" => reference = Some(parse_num::<f64>(a, &val()?)?),
-            "--statistic" => {
-                let v = val()?;
-                req.statistic = FlipStatistic::from_key(&v).ok_or_else(|| {
-                    format!("--statistic takes mean or median for this design, not \"{v}\".")
-                })?
-            }
-            "--alternative" => {
-                let v = val()?;
-                req.alternative = Alternative::from_key(&v).ok_or_else(|| {
-                    format!("--alternative takes two-sided, greater or less, not \"{v}\".")
-                })?
-            }
-            "--two-sided" => {
-                let v = val()?;
-                req.two_sided = TwoSidedRule::from_key(&v).ok_or_else(|| {
-                    format!("--two-sided takes absolute or doubled-tail, not \"{v}\".")
-                })?
-            }
-            "--interval" => {
-                let v = val()?;
-                req.interval = IntervalMethod::from_key(&v).ok_or_else(|| {
-                    format!(
-                        "--interval takes one of {} here, not \"{v}\".",
-                        IntervalMethod::ALL.map(|m| m.key()).join(", ")
-                    )
-                })?
-            }
-            "--resamples" => req.resamples = parse_num(a, &val()?)?,
-            "--bootstrap" => req.bootstrap_resamples = parse_num(a, &val()?)?,
-            "--exact-limit" => req.exact_limit = parse_num(a, &val()?)?,
-            "--confidence" => req.confidence = parse_num(a, &val()?)?,
-            "--seed" => seed = Some(parse_num(a, &val()?)?),
-            s if s.starts_with("--") => {
-                return Err(format!(
-                    "{s} is not an option of the {design} design. Try: reshuffle help"
-                ))
-            }
-            s => {
-                if file.is_some() {
-                    return Err(format!(
-                        "Only one data file can be given (also got \"{s}\")."
-                    ));
-                }
-                file = Some(s.to_string());
-            }
-        }
-        i += 1;
+    let (columns, value, reference) = (
+        p.list("--columns"),
+        p.take("--value"),
+        p.num::<f64>("--reference")?,
+    );
+    if let Some(st) = p.choice(
+        "--statistic",
+        FlipStatistic::from_key,
+        "mean or median for this design",
+    )? {
+        req.statistic = st;
     }
-    let file = file.ok_or("Name the data file (or - for standard input).")?;
+    if let Some(a) = p.alternative()? {
+        req.alternative = a;
+    }
+    if let Some(r) = p.two_sided()? {
+        req.two_sided = r;
+    }
+    if let Some(m) = p.choice(
+        "--interval",
+        IntervalMethod::from_key,
+        &IntervalMethod::ALL.map(|m| m.key()).join(", "),
+    )? {
+        req.interval = m;
+    }
+    req.header = p.header()?;
+    req.resamples = p.num("--resamples")?.unwrap_or(req.resamples);
+    req.bootstrap_resamples = p.num("--bootstrap")?.unwrap_or(req.bootstrap_resamples);
+    req.exact_limit = p.num("--exact-limit")?.unwrap_or(req.exact_limit);
+    req.confidence = p.num("--confidence")?.unwrap_or(req.confidence);
+    req.seed = p.seed()?;
     req.layout = match (design, columns, value, reference) {
         ("paired", Some(c), None, None) if c.len() == 2 => PairedLayout::Paired { first: c[0].clone(), second: c[1].clone() },
         ("paired", _, _, _) => return Err("The paired design needs --columns FIRST,SECOND (the difference is first minus second).".into()),
         ("one-sample", None, Some(v), Some(r)) => PairedLayout::OneSample { value: v, reference: r },
         _ => return Err("The one-sample design needs --value COL and --reference VALUE.".into()),
     };
-    req.data = read_data(&file)?;
-    req.seed = seed.unwrap_or_else(fresh_seed);
+    req.data = p.data()?;
+    p.finish()?;
     let o = Outputs {
         json,
         markdown: o.markdown,
@@ -572,95 +597,19 @@ fn link_command(args: &[String], out: &mut dyn std::io::Write) -> Result<(), Str
 
 fn estimate(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> {
     use crate::engine::estimate::{self as est, Estimate, EstimateLayout, EstimateRequest};
-    let mut file = None;
-    let (mut value, mut group, mut columns, mut x, mut y, mut strata) =
-        (None, None, None, None, None, None);
-    let (mut first, mut second, mut paired, mut json) = (None, None, false, false);
-    let mut which: Option<Estimate> = None;
-    let mut q = None;
-    let mut methods = vec![IntervalMethod::Bca];
-    let mut side = Side::TwoSided;
-    let (mut confidence, mut resamples, mut seed) = (0.95, 10_000u64, None);
-    let mut header = HeaderChoice::Detect;
-    let mut i = 0;
-    while i < args.len() {
-        let a = args[i].as_str();
-        let mut val = || -> Result<String, String> {
-            i += 1;
-            args.get(i)
-                .cloned()
-                .ok_or_else(|| format!("{a} needs a value."))
-        };
-        match a {
-            "--json" => json = true,
-            "--paired" => paired = true,
-            "--value" => value = Some(val()?),
-            "--group" => group = Some(val()?),
-            "--columns" => {
-                columns = Some(
-                    val()?
-                        .split(',')
-                        .map(|s| s.trim().to_string())
-                        .collect::<Vec<_>>(),
-                )
-            }
-            "--x" => x = Some(val()?),
-            "--y" => y = Some(val()?),
-            "--strata" => strata = Some(val()?),
-            "--first" => first = Some(val()?),
-            "--second" => second = Some(val()?),
-            "--estimate" => {
-                let v = val()?;
-                which = Some(Estimate::from_key(&v).ok_or_else(|| {
-                    format!(
-                        "--estimate takes {}, not \"{v}\".",
-                        Estimate::ALL.map(|e| e.key()).join(", ")
-                    )
-                })?)
-            }
-            "--q" => q = Some(parse_num::<f64>(a, &val()?)?),
-            "--interval" => {
-                let (h, more) = parse_intervals(&val()?)?;
-                methods = std::iter::once(h).chain(more).collect();
-            }
-            "--side" => {
-                let v = val()?;
-                side = Side::from_key(&v).ok_or_else(|| {
-                    format!("--side takes two-sided, lower or upper, not \"{v}\".")
-                })?
-            }
-            "--confidence" => confidence = parse_num(a, &val()?)?,
-            "--resamples" => resamples = parse_num(a, &val()?)?,
-            "--seed" => seed = Some(parse_num(a, &val()?)?),
-            "--header" => {
-                header = match val()?.as_str() {
-                    "detect" => HeaderChoice::Detect,
-                    "names" => HeaderChoice::Names,
-                    "data" => HeaderChoice::Data,
-                    o => {
-                        return Err(format!(
-                            "--header takes detect, names or data, not \"{o}\"."
-                        ))
-                    }
-                }
-            }
-            s if s.starts_with("--") => {
-                return Err(format!("Unknown option {s}. Try: reshuffle help"))
-            }
-            s => {
-                if file.is_some() {
-                    return Err(format!(
-                        "Only one data file can be given (also got \"{s}\")."
-                    ));
-                }
-                file = Some(s.to_string());
-            }
-        }
-        i += 1;
-    }
-    let file = file.ok_or("Name the data file (or - for standard input).")?;
-    let which =
-        which.ok_or("Say what to estimate with --estimate (for example --estimate median).")?;
+    let mut o = Opts::parse(args)?;
+    let json = o.switch("--json");
+    let paired = o.switch("--paired");
+    let (value, group, columns) = (o.take("--value"), o.take("--group"), o.list("--columns"));
+    let (x, y, strata) = (o.take("--x"), o.take("--y"), o.take("--strata"));
+    let (first, second) = (o.take("--first"), o.take("--second"));
+    let which = o
+        .choice(
+            "--estimate",
+            Estimate::from_key,
+            &Estimate::ALL.map(|e| e.key()).join(", "),
+        )?
+        .ok_or("Say what to estimate with --estimate (for example --estimate median).")?;
     let layout = match (value, group, columns, x, y) {
         (Some(v), None, None, None, None) => EstimateLayout::One { value: v, strata },
         (Some(v), Some(g), None, None, None) => EstimateLayout::Groups {
@@ -677,18 +626,21 @@ fn estimate(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String>
             )
         }
     };
-    let mut req = EstimateRequest::new(
-        read_data(&file)?,
-        layout,
-        which,
-        seed.unwrap_or_else(fresh_seed),
-    );
-    req.header = header;
-    req.q = q;
-    req.methods = methods;
-    req.side = side;
-    req.confidence = confidence;
-    req.resamples = resamples;
+    let mut req = EstimateRequest::new(String::new(), layout, which, 0);
+    req.header = o.header()?;
+    req.q = o.num("--q")?;
+    if let Some(v) = o.take("--interval") {
+        let (h, more) = parse_intervals(&v)?;
+        req.methods = std::iter::once(h).chain(more).collect();
+    }
+    if let Some(side) = o.choice("--side", Side::from_key, "two-sided, lower or upper")? {
+        req.side = side;
+    }
+    req.confidence = o.num("--confidence")?.unwrap_or(req.confidence);
+    req.resamples = o.num("--resamples")?.unwrap_or(req.resamples);
+    req.seed = o.seed()?;
+    req.data = o.data()?;
+    o.finish()?;
     let rep = est::run(&req, &mut |_| true).map_err(|e| e.to_string())?;
     let text = if json {
         serde_json::to_string_pretty(&rep).map_err(|e| e.to_string())? + "\n"
