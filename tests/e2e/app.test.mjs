@@ -390,6 +390,27 @@ test("paired and one-sample designs in the page match the native command", async
   await page.close();
 });
 
+test("the page works by keyboard alone and on a narrow screen", async () => {
+  const page = await context.newPage();
+  await page.setViewportSize({ width: 390, height: 844 });
+  await page.goto(base);
+  await page.waitForSelector("#run:not([disabled])");
+  await page.focus("#data");
+  let reached = false;
+  for (let i = 0; i < 80 && !reached; i++) {
+    await page.keyboard.press("Tab");
+    reached = await page.evaluate(() => document.activeElement?.id === "run");
+  }
+  assert.ok(reached, "Tab reaches the Run button");
+  await page.keyboard.press("Enter");
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  // Nothing is wider than the screen except scrollable regions.
+  const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
+  assert.ok(overflow <= 1, `page overflows by ${overflow}px`);
+  await page.screenshot({ path: path.join(out, "narrow.png"), fullPage: true });
+  await page.close();
+});
+
 test("the page makes no request beyond its own files", async () => {
   // (file: is the single-file build opened from disk in its own test.)
   const foreign = requests.filter((u) => !u.startsWith(base) && !/^(data|blob|file):/.test(u));
