@@ -1065,6 +1065,9 @@ fn App() -> impl IntoView {
                             }).collect_view()}
                         </select>
                     </div>
+                    <p class="hint" style:display=move || if est_kind.get().kind() == Kind::One && layout_kind.get() == "long" { "block" } else { "none" }>
+                        "Every value in this column is used, whatever its group. To estimate within one group, paste only that group's rows."
+                    </p>
                     <div class="row" style:display=move || if est_kind.get().kind() == Kind::Association { "flex" } else { "none" }>
                         <label for="est-x">"x"</label>
                         <ColumnSelect id="est-x" options=Signal::derive(column_options) chosen=est_x/>
