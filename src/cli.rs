@@ -416,6 +416,20 @@ fn run_job(job: &Job, o: &Outputs, out: &mut dyn std::io::Write) -> Result<(), S
                 o.html.as_ref().map(|_| report::paired_html(&rep, &date)),
             )
         }
+        Job::Association(req) => {
+            let rep = crate::engine::assoc::run(req, &mut |_| true).map_err(|e| e.to_string())?;
+            let text = if o.json {
+                serde_json::to_string_pretty(&rep).map_err(|e| e.to_string())? + "\n"
+            } else if o.markdown {
+                report::assoc_markdown(&rep, &date)
+            } else {
+                report::assoc_text(&rep)
+            };
+            (
+                text,
+                o.html.as_ref().map(|_| report::assoc_html(&rep, &date)),
+            )
+        }
     };
     if let (Some(path), Some(h)) = (&o.html, html) {
         std::fs::write(path, h).map_err(|e| format!("Could not write \"{path}\": {e}"))?;
@@ -486,9 +500,10 @@ fn analyze(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> 
             .collect();
         match design.as_str() {
             "paired" | "one-sample" => return paired_command(&design, &rest, &o, out),
+            "association" => return assoc_command(&rest, &o, out),
             other => {
                 return Err(format!(
-                    "--design takes two-groups, paired or one-sample (not \"{other}\"); k groups, association, strata and yes/no outcomes are not available yet."
+                    "--design takes two-groups, paired, one-sample or association (not \"{other}\"); k groups, strata and yes/no outcomes are not available yet."
                 ))
             }
         }
@@ -563,6 +578,52 @@ fn paired_command(
         html: o.html.clone(),
     };
     run_job(&Job::Paired(req), &o, out)
+}
+
+/// `reshuffle analyze FILE --design association --x COL --y COL [--statistic pearson|spearman|slope]`.
+fn assoc_command(args: &[String], o: &Outputs, out: &mut dyn std::io::Write) -> Result<(), String> {
+    use crate::engine::assoc::{AssocRequest, AssocStatistic};
+    let mut p = Opts::parse(args)?;
+    let json = o.json || p.switch("--json");
+    let (x, y) = match (p.take("--x"), p.take("--y")) {
+        (Some(x), Some(y)) => (x, y),
+        _ => return Err("The association design needs --x COL and --y COL.".into()),
+    };
+    let mut req = AssocRequest::new(String::new(), x, y, 0);
+    if let Some(st) = p.choice(
+        "--statistic",
+        AssocStatistic::from_key,
+        "pearson, spearman or slope for this design",
+    )? {
+        req.statistic = st;
+    }
+    if let Some(a) = p.alternative()? {
+        req.alternative = a;
+    }
+    if let Some(r) = p.two_sided()? {
+        req.two_sided = r;
+    }
+    if let Some(m) = p.choice(
+        "--interval",
+        IntervalMethod::from_key,
+        &IntervalMethod::ALL.map(|m| m.key()).join(", "),
+    )? {
+        req.interval = m;
+    }
+    req.header = p.header()?;
+    req.resamples = p.num("--resamples")?.unwrap_or(req.resamples);
+    req.bootstrap_resamples = p.num("--bootstrap")?.unwrap_or(req.bootstrap_resamples);
+    req.exact_limit = p.num("--exact-limit")?.unwrap_or(req.exact_limit);
+    req.confidence = p.num("--confidence")?.unwrap_or(req.confidence);
+    req.seed = p.seed()?;
+    req.data = p.data()?;
+    p.finish()?;
+    let o = Outputs {
+        json,
+        markdown: o.markdown,
+        html: o.html.clone(),
+    };
+    run_job(&Job::Association(req), &o, out)
 }
 
 /// `reshuffle link FILE [analyze options] [--base URL]`: the share link of an analysis.

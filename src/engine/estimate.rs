@@ -326,7 +326,7 @@ pub fn ranks(x: &[f64]) -> Vec<f64> {
 }
 
 /// The estimate as a two-slice function (second slice empty for one sample).
-fn estimator(e: Estimate, q: f64) -> BoxedStat {
+pub(crate) fn estimator(e: Estimate, q: f64) -> BoxedStat {
     match e {
         Estimate::Mean | Estimate::Proportion => Box::new(|a, _| stats::mean(a)),
         Estimate::Median => Box::new(|a, _| stats::median_select(a)),
@@ -362,7 +362,7 @@ fn estimator(e: Estimate, q: f64) -> BoxedStat {
 }
 
 /// A standard-error formula for the studentized interval, where one exists.
-fn se_formula(e: Estimate, paired: bool) -> Option<BoxedStat> {
+pub(crate) fn se_formula(e: Estimate, paired: bool) -> Option<BoxedStat> {
     match e {
         Estimate::Mean | Estimate::Proportion => Some(Box::new(|a, _| {
             (stats::variance(a) / a.len() as f64).sqrt()
@@ -625,7 +625,7 @@ fn prepare(
 }
 
 /// Two numeric columns read row by row; rows missing either value are left out.
-fn paired_columns(
+pub(crate) fn paired_columns(
     t: &Table,
     a: &str,
     b: &str,

@@ -81,6 +81,7 @@ pub fn decode(text: &str) -> Result<Job, String> {
         Job::Compare(r) => r.format_version,
         Job::Estimate(r) => r.format_version,
         Job::Paired(r) => r.format_version,
+        Job::Association(r) => r.format_version,
     };
     if v != FORMAT_VERSION {
         return Err(format!(
@@ -97,6 +98,7 @@ pub fn without_data(job: &Job) -> Job {
         Job::Compare(r) => r.data.clear(),
         Job::Estimate(r) => r.data.clear(),
         Job::Paired(r) => r.data.clear(),
+        Job::Association(r) => r.data.clear(),
     }
     j
 }

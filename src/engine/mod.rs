@@ -1,6 +1,7 @@
 //! The resampling engine: plain Rust, no web dependency.
 
 pub mod analysis;
+pub mod assoc;
 pub mod boot;
 pub mod classical;
 pub mod combin;

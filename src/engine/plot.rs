@@ -384,6 +384,95 @@ pub fn bootstrap_figure_svg(b: &BootFigure, id: &str) -> String {
     out
 }
 
+/// A scatter plot with the least-squares line.
+pub fn scatter_svg(
+    points: &[(f64, f64)],
+    slope: f64,
+    intercept: f64,
+    xlabel: &str,
+    ylabel: &str,
+    id: &str,
+) -> String {
+    let mut out = String::new();
+    let desc = format!(
+        "Scatter plot of {} (vertical) against {} (horizontal), {} points, with the least-squares line y = {} + {} x.",
+        ylabel,
+        xlabel,
+        fmt::count(points.len() as u64),
+        fmt::sig(intercept),
+        fmt::sig(slope)
+    );
+    open(&mut out, id, &format!("{ylabel} against {xlabel}"), &desc);
+    let (xs, ys): (Vec<f64>, Vec<f64>) = points.iter().copied().unzip();
+    let range = |v: &[f64]| {
+        let (lo, hi) = v
+            .iter()
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(l, h), x| {
+                (l.min(*x), h.max(*x))
+            });
+        let pad = if hi > lo { (hi - lo) * 0.05 } else { 1.0 };
+        (lo - pad, hi + pad)
+    };
+    let ((x0, x1), (y0, y1)) = (range(&xs), range(&ys));
+    if points.is_empty() || !x0.is_finite() {
+        out.push_str("</svg>");
+        return out;
+    }
+    let px = |x: f64| LEFT + (x - x0) / (x1 - x0) * (W - LEFT - RIGHT);
+    let py = |y: f64| H - BOTTOM - (y - y0) / (y1 - y0) * (H - TOP - BOTTOM);
+    for t in nice_ticks(y0, y1, 4) {
+        let y = py(t);
+        out.push_str(&format!(
+            r#"<line x1="{LEFT}" x2="{:.1}" y1="{y:.1}" y2="{y:.1}" stroke="{GRID}"/><text x="{:.1}" y="{:.1}" font-size="11" fill="{INK}" text-anchor="end">{}</text>"#,
+            W - RIGHT,
+            LEFT - 6.0,
+            y + 4.0,
+            fmt::sig(t)
+        ));
+    }
+    for t in nice_ticks(x0, x1, 6) {
+        let x = px(t);
+        out.push_str(&format!(
+            r#"<line x1="{x:.1}" x2="{x:.1}" y1="{:.1}" y2="{:.1}" stroke="{INK}"/><text x="{x:.1}" y="{:.1}" font-size="11" fill="{INK}" text-anchor="middle">{}</text>"#,
+            H - BOTTOM,
+            H - BOTTOM + 5.0,
+            H - BOTTOM + 18.0,
+            fmt::sig(t)
+        ));
+    }
+    out.push_str(&format!(
+        r#"<line x1="{LEFT}" x2="{:.1}" y1="{:.1}" y2="{:.1}" stroke="{INK}"/>"#,
+        W - RIGHT,
+        H - BOTTOM,
+        H - BOTTOM
+    ));
+    for &(x, y) in points {
+        out.push_str(&format!(
+            r#"<circle cx="{:.1}" cy="{:.1}" r="3.5" fill="{BODY}" stroke="white" stroke-width="0.8"/>"#,
+            px(x),
+            py(y)
+        ));
+    }
+    let (la, lb) = (intercept + slope * x0, intercept + slope * x1);
+    out.push_str(&format!(
+        r#"<line x1="{:.1}" y1="{:.1}" x2="{:.1}" y2="{:.1}" stroke="{TAIL}" stroke-width="2"/>"#,
+        px(x0),
+        py(la).clamp(TOP, H - BOTTOM),
+        px(x1),
+        py(lb).clamp(TOP, H - BOTTOM)
+    ));
+    out.push_str(&format!(
+        r#"<text x="{:.1}" y="{:.1}" font-size="12" fill="{INK}" text-anchor="middle">{}</text><text transform="translate(14 {:.1}) rotate(-90)" font-size="12" fill="{INK}" text-anchor="middle">{}</text>"#,
+        (LEFT + W - RIGHT) / 2.0,
+        H - 14.0,
+        escape(xlabel),
+        (TOP + H - BOTTOM) / 2.0,
+        escape(ylabel)
+    ));
+    out.push_str("</svg>");
+    out
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -396,6 +485,20 @@ mod tests {
         );
         let t = nice_ticks(-0.93, 0.87, 6);
         assert!(t.contains(&0.0) || t.iter().any(|v| v.abs() < 1e-12));
+    }
+
+    #[test]
+    fn scatter_labels_are_escaped_and_points_drawn() {
+        let svg = scatter_svg(
+            &[(1.0, 2.0), (2.0, 3.5), (3.0, 3.9)],
+            0.95,
+            1.2,
+            "<x>",
+            "y&z",
+            "s",
+        );
+        assert!(svg.contains("&lt;x&gt;") && svg.contains("y&amp;z"));
+        assert_eq!(svg.matches("<circle").count(), 3);
     }
 
     #[test]

@@ -398,6 +398,7 @@ pub enum Job {
     Compare(Request),
     Estimate(super::estimate::EstimateRequest),
     Paired(super::paired::PairedRequest),
+    Association(super::assoc::AssocRequest),
 }
 
 /// Messages from the worker to the page.
@@ -415,6 +416,9 @@ pub enum WorkerMessage {
     },
     PairedDone {
         report: Box<super::paired::PairedReport>,
+    },
+    AssociationDone {
+        report: Box<super::assoc::AssocReport>,
     },
     Failed {
         message: String,

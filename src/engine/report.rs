@@ -778,6 +778,143 @@ pub fn paired_html(r: &super::paired::PairedReport, date: &str) -> String {
     html_page("Reshuffle findings", &b)
 }
 
+/// Association findings in words.
+pub fn assoc_text(r: &super::assoc::AssocReport) -> String {
+    let d = match (r.ci.low, r.ci.high) {
+        (Some(l), Some(h)) if h > l => fmt::decimals_for(h - l),
+        _ => 3,
+    };
+    let mut s = format!("{}\n\n", r.finding);
+    for n in &r.notes {
+        s.push_str(&format!("Note: {n}\n"));
+    }
+    s.push_str(&format!(
+        "Design: association, {} (x, y) pairs (x = {}, y = {})\n",
+        r.n, r.x, r.y
+    ));
+    if r.exact {
+        s.push_str(&format!(
+            "p-value: {} (exact, all {} pairings)\n",
+            fmt::p_number(r.p_value),
+            fmt::count(r.resamples)
+        ));
+    } else {
+        s.push_str(&format!(
+            "p-value: {:.5} (Monte Carlo, {} random pairings; MC standard error {:.5})\n",
+            r.p_value,
+            fmt::count(r.resamples),
+            r.mc_se.unwrap_or(0.0)
+        ));
+    }
+    s.push_str(&format!(
+        "{} {}: {}\n",
+        r.statistic_label,
+        fmt::fixed(r.observed, d),
+        interval_line(&r.ci, d)
+    ));
+    match (r.t, r.t_p_value) {
+        (Some(t), Some(p)) => s.push_str(&format!(
+            "t-test (cross-check): t = {t:.3}, df = {}, p = {p:.3e}\n",
+            r.n - 2
+        )),
+        _ => s.push_str("t-test (cross-check): undefined\n"),
+    }
+    s.push_str(&format!(
+        "  classical interval: {}\n",
+        interval_line(&r.classical_ci, d)
+    ));
+    s.push_str(&format!(
+        "Least-squares line: {} = {} + {} × {}\n",
+        r.y,
+        fmt::sig(r.intercept),
+        fmt::sig(r.slope),
+        r.x
+    ));
+    s.push_str(&format!("Seed: {} ({})\n\n", r.seed, r.rng));
+    for c in &r.cautions {
+        s.push_str(&format!("- {c}\n"));
+    }
+    s
+}
+
+/// Null, bootstrap and scatter figures of an association report.
+pub fn assoc_figures(
+    r: &super::assoc::AssocReport,
+) -> (plot::NullFigure<'_>, plot::BootFigure<'_>, String) {
+    (
+        plot::NullFigure {
+            label: &r.statistic_label,
+            unit: "pairings",
+            how: "when y is re-paired with x at random",
+            observed: r.observed,
+            exact: r.exact,
+            resamples: r.resamples,
+            extreme: r.extreme_count,
+            p_value: r.p_value,
+            tail: &r.tail,
+            histogram: &r.null_histogram,
+        },
+        plot::BootFigure {
+            label: &r.statistic_label,
+            estimate: r.observed,
+            interval: &r.ci,
+            histogram: &r.bootstrap_histogram,
+            resamples: r.bootstrap_resamples,
+        },
+        plot::scatter_svg(&r.points, r.slope, r.intercept, &r.x, &r.y, "scatter"),
+    )
+}
+
+pub fn assoc_markdown(r: &super::assoc::AssocReport, _date: &str) -> String {
+    let mut s = format!("## Findings\n\n{}\n\n", md_escape(&r.finding));
+    for line in assoc_text(r).lines().skip(2).filter(|l| !l.is_empty()) {
+        s.push_str(&format!("- {}\n", md_escape(line.trim_start_matches("- "))));
+    }
+    s
+}
+
+pub fn assoc_html(r: &super::assoc::AssocReport, date: &str) -> String {
+    let (nf, bf, scatter) = assoc_figures(r);
+    let mut b = format!(
+        "<h1>Reshuffle findings</h1><p class=\"headline\">{}</p><ul>",
+        escape(&r.finding)
+    );
+    for line in assoc_text(r)
+        .lines()
+        .skip(2)
+        .filter(|l| !l.is_empty() && !l.starts_with("- "))
+    {
+        b.push_str(&format!("<li>{}</li>", escape(line)));
+    }
+    b.push_str("</ul>");
+    b.push_str(&format!("<figure>{scatter}</figure>"));
+    b.push_str(&format!(
+        "<figure>{}<figcaption>{}</figcaption></figure><figure>{}<figcaption>{}</figcaption></figure>",
+        plot::null_figure_svg(&nf, "rep-null"),
+        escape(&plot::describe_null(&nf)),
+        plot::bootstrap_figure_svg(&bf, "rep-boot"),
+        escape(&plot::describe_bootstrap(&bf))
+    ));
+    b.push_str(&format!(
+        "<h2>Methods</h2><p>{}</p><div class=\"cautions\"><h2>Cautions</h2><ul>",
+        escape(&format!(
+            "Permutation test re-pairing y with x ({}); {} bootstrap interval from {} resampled pairs; t-test with n − 2 df and {} as cross-checks. Random numbers: {}, seed {}. Computed with Reshuffle {} on {date}.",
+            if r.exact { format!("exact, all {} pairings", fmt::count(r.resamples)) } else { format!("{} random pairings", fmt::count(r.resamples)) },
+            r.ci.method,
+            fmt::count(r.bootstrap_resamples),
+            r.classical_ci.method,
+            r.rng,
+            r.seed,
+            r.engine_version
+        ))
+    ));
+    for c in &r.cautions {
+        b.push_str(&format!("<li>{}</li>", escape(c)));
+    }
+    b.push_str("</ul></div>");
+    html_page("Reshuffle findings", &b)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

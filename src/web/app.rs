@@ -8,6 +8,7 @@ use leptos::prelude::*;
 use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
 
+use crate::engine::assoc::{AssocReport, AssocRequest, AssocStatistic};
 use crate::engine::estimate::{Estimate, EstimateLayout, EstimateReport, EstimateRequest, Kind};
 use crate::engine::finding;
 use crate::engine::format as fmt;
@@ -61,6 +62,7 @@ struct Sinks {
     report: RwSignal<Option<Report>>,
     estimated: RwSignal<Option<EstimateReport>>,
     paired_report: RwSignal<Option<PairedReport>>,
+    assoc_report: RwSignal<Option<AssocReport>>,
 }
 
 struct WorkerHandle {
@@ -116,6 +118,10 @@ fn spawn_worker(sinks: Sinks) -> Result<(), String> {
                 }
                 Ok(WorkerMessage::PairedDone { report }) => {
                     sinks.paired_report.set(Some(*report));
+                    sinks.status.set(Status::Done);
+                }
+                Ok(WorkerMessage::AssociationDone { report }) => {
+                    sinks.assoc_report.set(Some(*report));
                     sinks.status.set(Status::Done);
                 }
                 Ok(WorkerMessage::Failed { message }) => sinks.status.set(Status::Failed(message)),
@@ -269,20 +275,24 @@ fn App() -> impl IntoView {
     let report = RwSignal::new(None::<Report>);
     let estimated = RwSignal::new(None::<EstimateReport>);
     let paired_report = RwSignal::new(None::<PairedReport>);
+    let assoc_report = RwSignal::new(None::<AssocReport>);
     let last_job = RwSignal::new(None::<Job>);
     let sinks = Sinks {
         status,
         report,
         estimated,
         paired_report,
+        assoc_report,
     };
     // Designs of the comparison: two independent groups, paired columns, one sample.
     let design = RwSignal::new("two-groups".to_string());
     let reference = RwSignal::new("0".to_string());
     let flip_stat = RwSignal::new(FlipStatistic::Mean);
+    let assoc_stat = RwSignal::new(AssocStatistic::Pearson);
     let shown = Memo::new(move |_| -> Option<Shown> {
         match (mode.get().as_str(), design.get().as_str()) {
             ("compare", "two-groups") => report.get().map(Shown::Compare),
+            ("compare", "association") => assoc_report.get().map(Shown::Assoc),
             ("compare", _) => paired_report.get().map(Shown::Paired),
             _ => estimated.get().map(Shown::Estimate),
         }
@@ -469,6 +479,24 @@ fn App() -> impl IntoView {
             if d == "two-groups" {
                 return Ok(Job::Compare(base));
             }
+            if d == "association" {
+                let mut r = AssocRequest::new(
+                    base.data,
+                    est_x.get_untracked(),
+                    est_y.get_untracked(),
+                    seed_value,
+                );
+                r.header = base.header;
+                r.statistic = assoc_stat.get_untracked();
+                r.alternative = base.alternative;
+                r.two_sided = base.two_sided;
+                r.resamples = base.resamples;
+                r.exact_limit = base.exact_limit;
+                r.bootstrap_resamples = base.bootstrap_resamples;
+                r.confidence = base.confidence;
+                r.interval = base.interval;
+                return Ok(Job::Association(r));
+            }
             let layout = if d == "paired" {
                 if layout_kind.get_untracked() != "wide" {
                     return Err("Paired data need one column per measurement: in step 1 choose \"Each group in its own column\" and pick the two columns.".into());
@@ -613,11 +641,17 @@ fn App() -> impl IntoView {
             side.get(),
             est_methods.get(),
         );
-        let _ = (design.get(), reference.get(), flip_stat.get());
+        let _ = (
+            design.get(),
+            reference.get(),
+            flip_stat.get(),
+            assoc_stat.get(),
+        );
         let last_seed = match &last {
             Job::Compare(r) => r.seed,
             Job::Estimate(r) => r.seed,
             Job::Paired(r) => r.seed,
+            Job::Association(r) => r.seed,
         };
         let s = parse_count("Seed", &seed.get()).unwrap_or(last_seed);
         match build_job(s) {
@@ -641,6 +675,14 @@ fn App() -> impl IntoView {
                 (b, r.seed)
             }
             Job::Paired(r) => {
+                let mut b = Request::new(r.data.clone(), r.seed);
+                b.header = r.header;
+                b.confidence = r.confidence;
+                b.bootstrap_resamples = r.bootstrap_resamples;
+                b.resamples = r.resamples;
+                (b, r.seed)
+            }
+            Job::Association(r) => {
                 let mut b = Request::new(r.data.clone(), r.seed);
                 b.header = r.header;
                 b.confidence = r.confidence;
@@ -680,6 +722,19 @@ fn App() -> impl IntoView {
             }
         };
         match &job {
+            Job::Association(r) => {
+                mode.set("compare".into());
+                design.set("association".into());
+                est_x.set(r.x.clone());
+                est_y.set(r.y.clone());
+                assoc_stat.set(r.statistic);
+                alternative.set(r.alternative);
+                two_sided.set(r.two_sided);
+                interval_choice.set(r.interval.key().to_string());
+                resamples.set(r.resamples.to_string());
+                exact_limit.set(r.exact_limit.to_string());
+                bootstrap.set(r.bootstrap_resamples.to_string());
+            }
             Job::Paired(r) => {
                 mode.set("compare".into());
                 flip_stat.set(r.statistic);
@@ -774,6 +829,7 @@ fn App() -> impl IntoView {
         Job::Compare(r) => !r.data.trim().is_empty(),
         Job::Estimate(r) => !r.data.trim().is_empty(),
         Job::Paired(r) => !r.data.trim().is_empty(),
+        Job::Association(r) => !r.data.trim().is_empty(),
     };
     // Open the analysis in the address, if any.
     let opened_from_link = {
@@ -1107,6 +1163,21 @@ fn App() -> impl IntoView {
                         <option value="two-groups" selected=move || design.get() == "two-groups">"two independent groups"</option>
                         <option value="paired" selected=move || design.get() == "paired">"paired: each unit measured twice (one column per measurement)"</option>
                         <option value="one-sample" selected=move || design.get() == "one-sample">"one sample against a reference value"</option>
+                        <option value="association" selected=move || design.get() == "association">"association between two numeric columns"</option>
+                    </select>
+                </div>
+                <div class="row" style:display=move || if mode.get() == "compare" && design.get() == "association" { "flex" } else { "none" }>
+                    <label for="assoc-x">"x"</label>
+                    <ColumnSelect id="assoc-x" options=Signal::derive(column_options) chosen=est_x/>
+                    <label for="assoc-y">"y"</label>
+                    <ColumnSelect id="assoc-y" options=Signal::derive(column_options) chosen=est_y/>
+                    <label for="assoc-stat">"measured by"</label>
+                    <select id="assoc-stat" on:change=move |ev| {
+                        if let Some(x) = AssocStatistic::from_key(&event_target_value(&ev)) { assoc_stat.set(x) }
+                    }>
+                        <option value="pearson">"Pearson correlation r"</option>
+                        <option value="spearman">"Spearman rank correlation rho"</option>
+                        <option value="slope">"least-squares slope of y on x"</option>
                     </select>
                 </div>
                 <div class="row" style:display=move || if mode.get() == "compare" && design.get() == "one-sample" { "flex" } else { "none" }>
@@ -1119,7 +1190,7 @@ fn App() -> impl IntoView {
                 <p class="hint" style:display=move || if mode.get() == "compare" && design.get() == "paired" { "block" } else { "none" }>
                     "Choose \"Each group in its own column\" in step 1 and the two measurement columns; the difference is the first minus the second."
                 </p>
-                <div class="row" style:display=move || if mode.get() == "compare" && design.get() != "two-groups" { "flex" } else { "none" }>
+                <div class="row" style:display=move || if mode.get() == "compare" && (design.get() == "paired" || design.get() == "one-sample") { "flex" } else { "none" }>
                     <label for="flip-stat">"Summarise the differences by their"</label>
                     <select id="flip-stat" on:change=move |ev| {
                         if let Some(x) = FlipStatistic::from_key(&event_target_value(&ev)) { flip_stat.set(x) }
@@ -1128,7 +1199,7 @@ fn App() -> impl IntoView {
                         <option value="median">"median"</option>
                     </select>
                 </div>
-                <div class="row" style:display=move || if (mode.get() == "compare" && design.get() != "one-sample") || (mode.get() == "estimate" && est_kind.get().kind() == Kind::Two) { "flex" } else { "none" }>
+                <div class="row" style:display=move || if (mode.get() == "compare" && (design.get() == "two-groups" || design.get() == "paired")) || (mode.get() == "estimate" && est_kind.get().kind() == Kind::Two) { "flex" } else { "none" }>
                     <label for="first">"Compare"</label>
                     <select id="first" on:change=move |ev| first.set(event_target_value(&ev))>
                         {move || levels.get().into_iter().map(|l| {
@@ -1167,6 +1238,14 @@ fn App() -> impl IntoView {
                                     (Alternative::TwoSided, format!("Is the centre of {v} different from {r}, in either direction?")),
                                     (Alternative::Greater, format!("Is the centre of {v} above {r}?")),
                                     (Alternative::Less, format!("Is the centre of {v} below {r}?")),
+                                ]
+                            }
+                            "association" => {
+                                let (x, y) = (est_x.get(), est_y.get());
+                                [
+                                    (Alternative::TwoSided, format!("Are {x} and {y} associated, in either direction?")),
+                                    (Alternative::Greater, format!("Does {y} tend to rise with {x}?")),
+                                    (Alternative::Less, format!("Does {y} tend to fall as {x} rises?")),
                                 ]
                             }
                             "paired" => [
@@ -1267,6 +1346,7 @@ fn App() -> impl IntoView {
                     Shown::Compare(r) => view! { <Findings report=r/> }.into_any(),
                     Shown::Estimate(r) => view! { <EstimateFindings report=r/> }.into_any(),
                     Shown::Paired(r) => view! { <PairedFindings report=r/> }.into_any(),
+                    Shown::Assoc(r) => view! { <AssocFindings report=r/> }.into_any(),
                 })}
                 {move || shown.get().is_some().then(|| view! {
                     <div class="share" id="share">
@@ -1290,6 +1370,7 @@ fn App() -> impl IntoView {
                                     Some(Shown::Compare(r)) => report::html(&r, &share::today()),
                                     Some(Shown::Estimate(e)) => report::estimate_html(&e, &share::today()),
                                     Some(Shown::Paired(p)) => report::paired_html(&p, &share::today()),
+                                    Some(Shown::Assoc(a)) => report::assoc_html(&a, &share::today()),
                                     None => return,
                                 };
                                 let _ = share::download("reshuffle-report.html", "text/html", &h);
@@ -1379,6 +1460,7 @@ enum Shown {
     Compare(Report),
     Estimate(EstimateReport),
     Paired(PairedReport),
+    Assoc(AssocReport),
 }
 
 /// The figures on screen, as (short name, SVG text).
@@ -1400,6 +1482,17 @@ fn figures(shown: Option<Shown>) -> Vec<(String, String)> {
                 "bootstrap".into(),
                 plot::bootstrap_figure_svg(&fig, "dl-est"),
             )]
+        }
+        Some(Shown::Assoc(a)) => {
+            let (nf, bf, scatter) = report::assoc_figures(&a);
+            vec![
+                ("scatter".into(), scatter),
+                ("pairings".into(), plot::null_figure_svg(&nf, "dl-pair")),
+                (
+                    "bootstrap".into(),
+                    plot::bootstrap_figure_svg(&bf, "dl-aboot"),
+                ),
+            ]
         }
         Some(Shown::Paired(p)) => {
             let (nf, bf) = report::paired_figures(&p);
@@ -1425,6 +1518,8 @@ fn current_text(shown: Option<Shown>, markdown: bool) -> String {
         Some(Shown::Estimate(e)) => report::estimate_text(&e),
         Some(Shown::Paired(p)) if markdown => report::paired_markdown(&p, &date),
         Some(Shown::Paired(p)) => report::paired_text(&p),
+        Some(Shown::Assoc(a)) if markdown => report::assoc_markdown(&a, &date),
+        Some(Shown::Assoc(a)) => report::assoc_text(&a),
         None => String::new(),
     }
 }
@@ -1778,6 +1873,47 @@ fn PairedFindings(report: PairedReport) -> impl IntoView {
             </dl>
             <aside class="cautions" aria-labelledby="paired-cautions-title">
                 <h3 id="paired-cautions-title">"Before you rely on this"</h3>
+                <ul>{r.cautions.iter().map(|c| view! { <li>{c.clone()}</li> }).collect_view()}</ul>
+            </aside>
+        </div>
+    }
+}
+
+#[component]
+fn AssocFindings(report: AssocReport) -> impl IntoView {
+    let r = report;
+    let (nf, bf, scatter) = report::assoc_figures(&r);
+    let null_svg = plot::null_figure_svg(&nf, "pair-plot");
+    let boot_svg = plot::bootstrap_figure_svg(&bf, "aboot-plot");
+    let (null_caption, boot_caption) = (plot::describe_null(&nf), plot::describe_bootstrap(&bf));
+    let text = report::assoc_text(&r);
+    let lines: Vec<String> = text
+        .lines()
+        .skip(2)
+        .filter(|l| !l.is_empty() && !l.starts_with("- "))
+        .map(String::from)
+        .collect();
+    view! {
+        <div class="findings" id="assoc-findings" data-p-value=format!("{:?}", r.p_value)
+            data-ci-low=format!("{:?}", r.ci.low) data-ci-high=format!("{:?}", r.ci.high)>
+            <p class="headline" id="assoc-finding">{r.finding.clone()}</p>
+            <div class="plots">
+                <figure>
+                    <div class="svg" inner_html=scatter id="scatter-figure"></div>
+                    <figcaption>{format!("{} against {}, with the least-squares line.", r.y, r.x)}</figcaption>
+                </figure>
+                <figure>
+                    <div class="svg" inner_html=null_svg id="pair-figure"></div>
+                    <figcaption>{null_caption}</figcaption>
+                </figure>
+                <figure>
+                    <div class="svg" inner_html=boot_svg id="aboot-figure"></div>
+                    <figcaption>{boot_caption}</figcaption>
+                </figure>
+            </div>
+            <ul class="plain" id="assoc-results">{lines.into_iter().map(|l| view! { <li>{l}</li> }).collect_view()}</ul>
+            <aside class="cautions" aria-labelledby="assoc-cautions-title">
+                <h3 id="assoc-cautions-title">"Before you rely on this"</h3>
                 <ul>{r.cautions.iter().map(|c| view! { <li>{c.clone()}</li> }).collect_view()}</ul>
             </aside>
         </div>

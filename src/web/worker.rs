@@ -52,6 +52,11 @@ fn handle(scope: &DedicatedWorkerGlobalScope, text: &str) {
                 report: Box::new(report),
             })
         }
+        Job::Association(req) => crate::engine::assoc::run(req, &mut progress).map(|report| {
+            WorkerMessage::AssociationDone {
+                report: Box::new(report),
+            }
+        }),
     };
     let msg = match result {
         Ok(m) => m,

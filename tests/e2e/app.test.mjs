@@ -390,6 +390,29 @@ test("paired and one-sample designs in the page match the native command", async
   await page.close();
 });
 
+test("association in the page matches the native command and draws a scatter plot", async () => {
+  const csv = fs.readFileSync(path.join(root, "tests/reference/data/cars.csv"), "utf8");
+  const json = JSON.parse(native(["analyze", "tests/reference/data/cars.csv", "--design", "association",
+    "--x", "speed", "--y", "dist", "--statistic", "spearman", "--seed", "66", "--json"]));
+  const { page, errors } = await openPage();
+  await page.fill("#data", csv);
+  await page.selectOption("#design", "association");
+  await page.selectOption("#assoc-x", "speed");
+  await page.selectOption("#assoc-y", "dist");
+  await page.selectOption("#assoc-stat", "spearman");
+  await page.click("summary");
+  await page.fill("#seed", "66");
+  await page.click("#run");
+  await page.waitForSelector("#assoc-finding", { timeout: 60000 });
+  assert.equal(await page.textContent("#assoc-finding"), json.finding);
+  assert.equal(await page.getAttribute("#assoc-findings", "data-ci-low"), `Some(${json.ci.low})`);
+  assert.equal((await page.$$("#scatter-figure circle")).length, 50);
+  assert.match(await page.textContent(".cautions"), /not causation/);
+  await page.screenshot({ path: path.join(out, "association.png"), fullPage: true });
+  assert.deepEqual(errors, []);
+  await page.close();
+});
+
 test("the page works by keyboard alone and on a narrow screen", async () => {
   const page = await context.newPage();
   await page.setViewportSize({ width: 390, height: 844 });

@@ -122,6 +122,41 @@ def bca_fixed(a, b):
     return out
 
 
+def association_reference():
+    """Association: exact permutation p-values over all 8! re-pairings of the first 8 rows of
+    R's mtcars (wt, mpg), by brute force; and scipy's pearsonr (with its Fisher z interval),
+    spearmanr and linregress on R's cars (speed, dist)."""
+    mt = rdata("mtcars")[["mpg", "wt"]].iloc[:8]
+    mt.to_csv(os.path.join(HERE, "data", "mtcars8.csv"), index=False)
+    cars = rdata("cars")[["speed", "dist"]]
+    cars.to_csv(os.path.join(HERE, "data", "cars.csv"), index=False)
+    x, y = mt["wt"].to_numpy(float), mt["mpg"].to_numpy(float)
+    exact = {}
+    for st in ["pearson", "spearman", "slope"]:
+        a, b = (stats.rankdata(x), stats.rankdata(y)) if st == "spearman" else (x, y)
+        ac, bc = a - a.mean(), b - b.mean()
+        obs = (ac @ bc) / (ac @ ac) if st == "slope" else (ac @ bc) / np.sqrt((ac @ ac) * (bc @ bc))
+        perms = np.array(list(itertools.permutations(b)))
+        s_ = (perms - perms.mean(axis=1, keepdims=True)) @ ac
+        t = s_ / (ac @ ac) if st == "slope" else s_ / np.sqrt((ac @ ac) * (bc @ bc))
+        most = np.sqrt((bc @ bc) / (ac @ ac)) if st == "slope" else 1.0
+        tol = REL_TOL * max(most, abs(obs))
+        exact[st] = {"observed": float(obs), "pairings": len(t),
+                     "greater": float(np.mean(t >= obs - tol)), "less": float(np.mean(t <= obs + tol)),
+                     "two_sided_absolute": float(np.mean(np.abs(t) >= abs(obs) - tol))}
+    cx, cy = cars["speed"].to_numpy(float), cars["dist"].to_numpy(float)
+    pr = stats.pearsonr(cx, cy)
+    ci = pr.confidence_interval(0.95)
+    sr = stats.spearmanr(cx, cy)
+    lr = stats.linregress(cx, cy)
+    return {"exact_mtcars8": exact,
+            "cars": {"pearson": {"r": float(pr.statistic), "p": float(pr.pvalue),
+                                 "ci_low": float(ci.low), "ci_high": float(ci.high)},
+                     "spearman": {"rho": float(sr.statistic), "p": float(sr.pvalue)},
+                     "slope": {"slope": float(lr.slope), "intercept": float(lr.intercept),
+                               "p": float(lr.pvalue), "stderr": float(lr.stderr)}}}
+
+
 def mean_diff(x, y, axis=-1):
     return np.mean(x, axis=axis) - np.mean(y, axis=axis)
 
@@ -242,6 +277,7 @@ def main():
         "cases": cases,
         "clopper_pearson": cp,
         "estimates": est,
+        "association": association_reference(),
         "paired": paired,
         # Signed-rank normal approximation: 60 differences with ties and zeros.
         "wilcoxon_approx": {alt: float(stats.wilcoxon(np.array([((i * 37) % 23) - 9.0 for i in range(60)]),
