@@ -21,6 +21,7 @@ Usage:
   reshuffle link FILE [options] [--base URL] print the share link of an analysis
   reshuffle analyze FILE --design paired --columns FIRST,SECOND [--statistic mean|median]
   reshuffle analyze FILE --design one-sample --value COL --reference VALUE
+  reshuffle analyze FILE --design association --x COL --y COL [--statistic pearson|spearman|slope]
                                        sign-flip test, bootstrap interval, d_z, paired or
                                        one-sample t-test and Wilcoxon signed-rank
   reshuffle bench                      compare the speed of the relabelling kernels

