@@ -78,6 +78,35 @@ fn check_settings(req: &Request) -> Result<(), RunError> {
     Ok(())
 }
 
+/// Settings every permutation design checks: format version, confidence level, and the
+/// numbers of random resamples (called `unit`, e.g. "sign patterns") and bootstrap resamples.
+pub fn check_common(
+    version: u32,
+    confidence: f64,
+    resamples: u64,
+    bootstrap: u64,
+    unit: &str,
+) -> Result<(), RunError> {
+    if version != FORMAT_VERSION {
+        return Err(RunError::Input(format!(
+            "Format version {version} cannot be read by this version (reads {FORMAT_VERSION})."
+        )));
+    }
+    if !(confidence > 0.5 && confidence <= 0.9999) {
+        return Err(RunError::Input(format!(
+            "The confidence level must be between 0.5 and 0.9999 (it is {confidence})."
+        )));
+    }
+    if !(99..=MAX_RESAMPLES).contains(&resamples) || !(200..=MAX_BOOTSTRAP).contains(&bootstrap) {
+        return Err(RunError::Input(format!(
+            "Use 99 to {} random {unit} and 200 to {} bootstrap resamples.",
+            fmt::count(MAX_RESAMPLES),
+            fmt::count(MAX_BOOTSTRAP)
+        )));
+    }
+    Ok(())
+}
+
 /// The relabelling part: counts and all statistics, exact or by random blocks.
 pub struct NullDistribution {
     pub counts: Counts,

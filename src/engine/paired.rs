@@ -338,29 +338,13 @@ fn differences(
 }
 
 pub fn run(req: &PairedRequest, progress: ProgressFn) -> Result<PairedReport, RunError> {
-    if req.format_version != FORMAT_VERSION {
-        return Err(RunError::Input(format!(
-            "Format version {} cannot be read by this version (reads {FORMAT_VERSION}).",
-            req.format_version
-        )));
-    }
-    if !(req.confidence > 0.5 && req.confidence <= 0.9999) {
-        return Err(RunError::Input(format!(
-            "The confidence level must be between 0.5 and 0.9999 (it is {}).",
-            req.confidence
-        )));
-    }
-    if req.resamples < 99
-        || req.resamples > MAX_RESAMPLES
-        || req.bootstrap_resamples < 200
-        || req.bootstrap_resamples > MAX_BOOTSTRAP
-    {
-        return Err(RunError::Input(format!(
-            "Use 99 to {} random sign patterns and 200 to {} bootstrap resamples.",
-            fmt::count(MAX_RESAMPLES),
-            fmt::count(MAX_BOOTSTRAP)
-        )));
-    }
+    analysis::check_common(
+        req.format_version,
+        req.confidence,
+        req.resamples,
+        req.bootstrap_resamples,
+        "sign patterns",
+    )?;
     let mut notes = Vec::new();
     let (d, label, design) = differences(req, &mut notes)?;
     let n = d.len();
