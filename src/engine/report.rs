@@ -748,30 +748,57 @@ pub fn paired_methods(r: &super::paired::PairedReport, date: &str) -> String {
 
 pub fn paired_html(r: &super::paired::PairedReport, date: &str) -> String {
     let (nf, bf) = paired_figures(r);
+    let figures = [
+        (
+            plot::null_figure_svg(&nf, "rep-null"),
+            plot::describe_null(&nf),
+        ),
+        (
+            plot::bootstrap_figure_svg(&bf, "rep-boot"),
+            plot::describe_bootstrap(&bf),
+        ),
+    ];
+    design_page(
+        &r.finding,
+        &paired_text(r),
+        &figures,
+        &paired_methods(r, date),
+        &r.cautions,
+    )
+}
+
+/// A report page for a design: the finding, the lines of its text summary, figures with
+/// captions, the methods paragraph and the cautions; everything escaped.
+fn design_page(
+    finding: &str,
+    text: &str,
+    figures: &[(String, String)],
+    methods: &str,
+    cautions: &[String],
+) -> String {
     let mut b = format!(
         "<h1>Reshuffle findings</h1><p class=\"headline\">{}</p><ul>",
-        escape(&r.finding)
+        escape(finding)
     );
-    for line in paired_text(r)
+    for line in text
         .lines()
         .skip(2)
         .filter(|l| !l.is_empty() && !l.starts_with("- "))
     {
-        b.push_str(&format!("<li>{}</li>", escape(line)));
+        b.push_str(&format!("<li>{}</li>", escape(line.trim())));
     }
     b.push_str("</ul>");
-    b.push_str(&format!(
-        "<figure>{}<figcaption>{}</figcaption></figure><figure>{}<figcaption>{}</figcaption></figure>",
-        plot::null_figure_svg(&nf, "rep-null"),
-        escape(&plot::describe_null(&nf)),
-        plot::bootstrap_figure_svg(&bf, "rep-boot"),
-        escape(&plot::describe_bootstrap(&bf))
-    ));
+    for (svg, caption) in figures {
+        b.push_str(&format!(
+            "<figure>{svg}<figcaption>{}</figcaption></figure>",
+            escape(caption)
+        ));
+    }
     b.push_str(&format!(
         "<h2>Methods</h2><p>{}</p><div class=\"cautions\"><h2>Cautions</h2><ul>",
-        escape(&paired_methods(r, date))
+        escape(methods)
     ));
-    for c in &r.cautions {
+    for c in cautions {
         b.push_str(&format!("<li>{}</li>", escape(c)));
     }
     b.push_str("</ul></div>");
@@ -875,44 +902,31 @@ pub fn assoc_markdown(r: &super::assoc::AssocReport, _date: &str) -> String {
 
 pub fn assoc_html(r: &super::assoc::AssocReport, date: &str) -> String {
     let (nf, bf, scatter) = assoc_figures(r);
-    let mut b = format!(
-        "<h1>Reshuffle findings</h1><p class=\"headline\">{}</p><ul>",
-        escape(&r.finding)
+    let figures = [
+        (
+            scatter,
+            format!("{} against {}, with the least-squares line.", r.y, r.x),
+        ),
+        (
+            plot::null_figure_svg(&nf, "rep-null"),
+            plot::describe_null(&nf),
+        ),
+        (
+            plot::bootstrap_figure_svg(&bf, "rep-boot"),
+            plot::describe_bootstrap(&bf),
+        ),
+    ];
+    let methods = format!(
+        "Permutation test re-pairing y with x ({}); {} bootstrap interval from {} resampled pairs; t-test with n − 2 df and {} as cross-checks. Random numbers: {}, seed {}. Computed with Reshuffle {} on {date}.",
+        if r.exact { format!("exact, all {} pairings", fmt::count(r.resamples)) } else { format!("{} random pairings", fmt::count(r.resamples)) },
+        r.ci.method,
+        fmt::count(r.bootstrap_resamples),
+        r.classical_ci.method,
+        r.rng,
+        r.seed,
+        r.engine_version
     );
-    for line in assoc_text(r)
-        .lines()
-        .skip(2)
-        .filter(|l| !l.is_empty() && !l.starts_with("- "))
-    {
-        b.push_str(&format!("<li>{}</li>", escape(line)));
-    }
-    b.push_str("</ul>");
-    b.push_str(&format!("<figure>{scatter}</figure>"));
-    b.push_str(&format!(
-        "<figure>{}<figcaption>{}</figcaption></figure><figure>{}<figcaption>{}</figcaption></figure>",
-        plot::null_figure_svg(&nf, "rep-null"),
-        escape(&plot::describe_null(&nf)),
-        plot::bootstrap_figure_svg(&bf, "rep-boot"),
-        escape(&plot::describe_bootstrap(&bf))
-    ));
-    b.push_str(&format!(
-        "<h2>Methods</h2><p>{}</p><div class=\"cautions\"><h2>Cautions</h2><ul>",
-        escape(&format!(
-            "Permutation test re-pairing y with x ({}); {} bootstrap interval from {} resampled pairs; t-test with n − 2 df and {} as cross-checks. Random numbers: {}, seed {}. Computed with Reshuffle {} on {date}.",
-            if r.exact { format!("exact, all {} pairings", fmt::count(r.resamples)) } else { format!("{} random pairings", fmt::count(r.resamples)) },
-            r.ci.method,
-            fmt::count(r.bootstrap_resamples),
-            r.classical_ci.method,
-            r.rng,
-            r.seed,
-            r.engine_version
-        ))
-    ));
-    for c in &r.cautions {
-        b.push_str(&format!("<li>{}</li>", escape(c)));
-    }
-    b.push_str("</ul></div>");
-    html_page("Reshuffle findings", &b)
+    design_page(&r.finding, &assoc_text(r), &figures, &methods, &r.cautions)
 }
 
 #[cfg(test)]
