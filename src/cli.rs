@@ -245,6 +245,39 @@ impl Opts {
     }
 }
 
+/// The options of the paired, one-sample and association designs besides their columns.
+struct TestOpts {
+    header: HeaderChoice,
+    seed: u64,
+    alternative: Option<Alternative>,
+    two_sided: Option<TwoSidedRule>,
+    interval: Option<IntervalMethod>,
+    resamples: Option<u64>,
+    bootstrap: Option<u64>,
+    exact_limit: Option<u64>,
+    confidence: Option<f64>,
+}
+
+impl TestOpts {
+    fn read(p: &mut Opts) -> Result<TestOpts, String> {
+        Ok(TestOpts {
+            header: p.header()?,
+            seed: p.seed()?,
+            alternative: p.alternative()?,
+            two_sided: p.two_sided()?,
+            interval: p.choice(
+                "--interval",
+                IntervalMethod::from_key,
+                &IntervalMethod::ALL.map(|m| m.key()).join(", "),
+            )?,
+            resamples: p.num("--resamples")?,
+            bootstrap: p.num("--bootstrap")?,
+            exact_limit: p.num("--exact-limit")?,
+            confidence: p.num("--confidence")?,
+        })
+    }
+}
+
 /// Builds a two-group request from the command line; `data_from` reads the table text.
 pub fn request_from_args(
     args: &[String],
@@ -546,25 +579,15 @@ fn paired_command(
     )? {
         req.statistic = st;
     }
-    if let Some(a) = p.alternative()? {
-        req.alternative = a;
-    }
-    if let Some(r) = p.two_sided()? {
-        req.two_sided = r;
-    }
-    if let Some(m) = p.choice(
-        "--interval",
-        IntervalMethod::from_key,
-        &IntervalMethod::ALL.map(|m| m.key()).join(", "),
-    )? {
-        req.interval = m;
-    }
-    req.header = p.header()?;
-    req.resamples = p.num("--resamples")?.unwrap_or(req.resamples);
-    req.bootstrap_resamples = p.num("--bootstrap")?.unwrap_or(req.bootstrap_resamples);
-    req.exact_limit = p.num("--exact-limit")?.unwrap_or(req.exact_limit);
-    req.confidence = p.num("--confidence")?.unwrap_or(req.confidence);
-    req.seed = p.seed()?;
+    let t = TestOpts::read(&mut p)?;
+    (req.header, req.seed) = (t.header, t.seed);
+    req.alternative = t.alternative.unwrap_or(req.alternative);
+    req.two_sided = t.two_sided.unwrap_or(req.two_sided);
+    req.interval = t.interval.unwrap_or(req.interval);
+    req.resamples = t.resamples.unwrap_or(req.resamples);
+    req.bootstrap_resamples = t.bootstrap.unwrap_or(req.bootstrap_resamples);
+    req.exact_limit = t.exact_limit.unwrap_or(req.exact_limit);
+    req.confidence = t.confidence.unwrap_or(req.confidence);
     req.layout = match (design, columns, value, reference) {
         ("paired", Some(c), None, None) if c.len() == 2 => PairedLayout::Paired { first: c[0].clone(), second: c[1].clone() },
         ("paired", _, _, _) => return Err("The paired design needs --columns FIRST,SECOND (the difference is first minus second).".into()),
@@ -598,25 +621,15 @@ fn assoc_command(args: &[String], o: &Outputs, out: &mut dyn std::io::Write) -> 
     )? {
         req.statistic = st;
     }
-    if let Some(a) = p.alternative()? {
-        req.alternative = a;
-    }
-    if let Some(r) = p.two_sided()? {
-        req.two_sided = r;
-    }
-    if let Some(m) = p.choice(
-        "--interval",
-        IntervalMethod::from_key,
-        &IntervalMethod::ALL.map(|m| m.key()).join(", "),
-    )? {
-        req.interval = m;
-    }
-    req.header = p.header()?;
-    req.resamples = p.num("--resamples")?.unwrap_or(req.resamples);
-    req.bootstrap_resamples = p.num("--bootstrap")?.unwrap_or(req.bootstrap_resamples);
-    req.exact_limit = p.num("--exact-limit")?.unwrap_or(req.exact_limit);
-    req.confidence = p.num("--confidence")?.unwrap_or(req.confidence);
-    req.seed = p.seed()?;
+    let t = TestOpts::read(&mut p)?;
+    (req.header, req.seed) = (t.header, t.seed);
+    req.alternative = t.alternative.unwrap_or(req.alternative);
+    req.two_sided = t.two_sided.unwrap_or(req.two_sided);
+    req.interval = t.interval.unwrap_or(req.interval);
+    req.resamples = t.resamples.unwrap_or(req.resamples);
+    req.bootstrap_resamples = t.bootstrap.unwrap_or(req.bootstrap_resamples);
+    req.exact_limit = t.exact_limit.unwrap_or(req.exact_limit);
+    req.confidence = t.confidence.unwrap_or(req.confidence);
     req.data = p.data()?;
     p.finish()?;
     let o = Outputs {

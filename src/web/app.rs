@@ -1652,14 +1652,8 @@ fn Findings(report: Report) -> impl IntoView {
                 <ul class="notes">{notes.into_iter().map(|n| view! { <li>{n}</li> }).collect_view()}</ul>
             })}
             <div class="plots">
-                <figure>
-                    <div class="svg" inner_html=null_svg id="null-figure"></div>
-                    <figcaption>{null_caption}</figcaption>
-                </figure>
-                <figure>
-                    <div class="svg" inner_html=boot_svg id="boot-figure"></div>
-                    <figcaption>{boot_caption}</figcaption>
-                </figure>
+                <Figure id="null-figure" svg=null_svg caption=null_caption/>
+                <Figure id="boot-figure" svg=boot_svg caption=boot_caption/>
             </div>
             <table class="results" id="results">
                 <caption>"Results"</caption>
@@ -1694,10 +1688,7 @@ fn Findings(report: Report) -> impl IntoView {
                     </tbody>
                 </table>
             })}
-            <aside class="cautions" aria-labelledby="cautions-title">
-                <h3 id="cautions-title">"Before you rely on this"</h3>
-                <ul>{r.cautions.iter().map(|c| view! { <li>{c.clone()}</li> }).collect_view()}</ul>
-            </aside>
+            <Cautions id="cautions" items=r.cautions.clone()/>
         </div>
     }
 }
@@ -1758,10 +1749,7 @@ fn EstimateFindings(report: EstimateReport) -> impl IntoView {
                 <ul class="notes">{r.notes.iter().map(|n| view! { <li>{n.clone()}</li> }).collect_view()}</ul>
             })}
             <div class="plots">
-                <figure>
-                    <div class="svg" inner_html=svg id="est-figure"></div>
-                    <figcaption>{caption}</figcaption>
-                </figure>
+                <Figure id="est-figure" svg=svg caption=caption/>
             </div>
             <table class="results" id="interval-table">
                 <caption>{format!("{} intervals for the {}", fmt::percent(headline.level), r.estimate_label)}</caption>
@@ -1780,10 +1768,7 @@ fn EstimateFindings(report: EstimateReport) -> impl IntoView {
                 <dt>"Why this method first"</dt><dd>{r.method_reason.clone()}</dd>
                 <dt>"Seed and generator"</dt><dd>{format!("{} · {}", r.seed, r.rng)}</dd>
             </dl>
-            <aside class="cautions" aria-labelledby="est-cautions-title">
-                <h3 id="est-cautions-title">"Before you rely on this"</h3>
-                <ul>{r.cautions.iter().map(|c| view! { <li>{c.clone()}</li> }).collect_view()}</ul>
-            </aside>
+            <Cautions id="est-cautions" items=r.cautions.clone()/>
         </div>
     }
 }
@@ -1853,14 +1838,8 @@ fn PairedFindings(report: PairedReport) -> impl IntoView {
                 <ul class="notes">{r.notes.iter().map(|n| view! { <li>{n.clone()}</li> }).collect_view()}</ul>
             })}
             <div class="plots">
-                <figure>
-                    <div class="svg" inner_html=null_svg id="flip-figure"></div>
-                    <figcaption>{null_caption}</figcaption>
-                </figure>
-                <figure>
-                    <div class="svg" inner_html=boot_svg id="pboot-figure"></div>
-                    <figcaption>{boot_caption}</figcaption>
-                </figure>
+                <Figure id="flip-figure" svg=null_svg caption=null_caption/>
+                <Figure id="pboot-figure" svg=boot_svg caption=boot_caption/>
             </div>
             <dl class="numbers" id="paired-results">
                 <dt>"Design"</dt><dd>{format!("{}, {} differences ({})", r.design, r.n, r.difference_label)}</dd>
@@ -1871,10 +1850,7 @@ fn PairedFindings(report: PairedReport) -> impl IntoView {
                 <dt>{format!("{} with {level} CI", r.dz.name)}</dt><dd>{dz_text}</dd>
                 <dt>"Seed and generator"</dt><dd>{format!("{} · {}", r.seed, r.rng)}</dd>
             </dl>
-            <aside class="cautions" aria-labelledby="paired-cautions-title">
-                <h3 id="paired-cautions-title">"Before you rely on this"</h3>
-                <ul>{r.cautions.iter().map(|c| view! { <li>{c.clone()}</li> }).collect_view()}</ul>
-            </aside>
+            <Cautions id="paired-cautions" items=r.cautions.clone()/>
         </div>
     }
 }
@@ -1902,21 +1878,35 @@ fn AssocFindings(report: AssocReport) -> impl IntoView {
                     <div class="svg" inner_html=scatter id="scatter-figure"></div>
                     <figcaption>{format!("{} against {}, with the least-squares line.", r.y, r.x)}</figcaption>
                 </figure>
-                <figure>
-                    <div class="svg" inner_html=null_svg id="pair-figure"></div>
-                    <figcaption>{null_caption}</figcaption>
-                </figure>
-                <figure>
-                    <div class="svg" inner_html=boot_svg id="aboot-figure"></div>
-                    <figcaption>{boot_caption}</figcaption>
-                </figure>
+                <Figure id="pair-figure" svg=null_svg caption=null_caption/>
+                <Figure id="aboot-figure" svg=boot_svg caption=boot_caption/>
             </div>
             <ul class="plain" id="assoc-results">{lines.into_iter().map(|l| view! { <li>{l}</li> }).collect_view()}</ul>
-            <aside class="cautions" aria-labelledby="assoc-cautions-title">
-                <h3 id="assoc-cautions-title">"Before you rely on this"</h3>
-                <ul>{r.cautions.iter().map(|c| view! { <li>{c.clone()}</li> }).collect_view()}</ul>
-            </aside>
+            <Cautions id="assoc-cautions" items=r.cautions.clone()/>
         </div>
+    }
+}
+
+/// The cautions box that closes every set of findings.
+#[component]
+fn Cautions(id: &'static str, items: Vec<String>) -> impl IntoView {
+    let (labelled_by, title) = (format!("{id}-title"), format!("{id}-title"));
+    view! {
+        <aside class="cautions" aria-labelledby=labelled_by>
+            <h3 id=title>"Before you rely on this"</h3>
+            <ul>{items.into_iter().map(|c| view! { <li>{c}</li> }).collect_view()}</ul>
+        </aside>
+    }
+}
+
+/// A figure: SVG drawn by the engine (all data text escaped there) and its text alternative.
+#[component]
+fn Figure(id: &'static str, svg: String, caption: String) -> impl IntoView {
+    view! {
+        <figure>
+            <div class="svg" inner_html=svg id=id></div>
+            <figcaption>{caption}</figcaption>
+        </figure>
     }
 }
 
