@@ -413,6 +413,21 @@ pub fn tail_region(alt: Alternative, rule: TwoSidedRule, counts: &Counts, observ
     }
 }
 
+/// Size, centre and spread of one group (at least one value).
+pub fn group_summary(name: &str, x: &[f64]) -> GroupSummary {
+    let s = stats::sorted(x);
+    GroupSummary {
+        name: name.to_string(),
+        n: x.len(),
+        mean: stats::mean(x),
+        median: stats::median_sorted(&s),
+        sd: stats::sd(x),
+        trimmed_mean: stats::trimmed_mean_sorted(&s),
+        min: s[0],
+        max: s[s.len() - 1],
+    }
+}
+
 /// Runs the analysis a request describes.
 pub fn run(req: &Request, progress: ProgressFn) -> Result<Report, RunError> {
     check_settings(req)?;
@@ -538,20 +553,7 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
     };
     let welch = classical::welch(a, b, req.alternative, req.confidence);
 
-    let summary = |name: &str, x: &[f64]| {
-        let s = stats::sorted(x);
-        GroupSummary {
-            name: name.to_string(),
-            n: x.len(),
-            mean: stats::mean(x),
-            median: stats::median_sorted(&s),
-            sd: stats::sd(x),
-            trimmed_mean: stats::trimmed_mean_sorted(&s),
-            min: s[0],
-            max: s[s.len() - 1],
-        }
-    };
-    let groups_out = vec![summary(&g.names[0], a), summary(&g.names[1], b)];
+    let groups_out = vec![group_summary(&g.names[0], a), group_summary(&g.names[1], b)];
 
     let tail = tail_region(req.alternative, req.two_sided, &null.counts, observed);
     let mut marks = vec![observed];
@@ -786,5 +788,24 @@ mod tests {
         assert!(rep.hedges_g.estimate.is_none());
         assert!(rep.welch.t.is_none());
         assert!(!rep.finding.contains("NaN"));
+    }
+
+    #[test]
+    fn infinite_statistics_survive_the_json_the_worker_sends() {
+        // Groups without spread but different means: the Welch t is infinite. JSON has no
+        // infinity; the report must still read back (the page parses the worker's JSON).
+        let mut r = demo_request();
+        r.data = "y,g\n1,a\n1,a\n1,a\n2,b\n2,b\n2,b\n".into();
+        r.statistic = Statistic::WelchT;
+        let rep = run(&r, &mut |_| true).unwrap();
+        assert_eq!(rep.observed, f64::NEG_INFINITY);
+        // The two splits that separate the values completely are the observed one and its
+        // mirror image: p = 2/20, not 0 (an infinite tolerance once counted nothing).
+        assert_eq!(rep.extreme_count, 2);
+        assert_eq!(rep.p_value, 0.1);
+        let text = serde_json::to_string(&rep).unwrap();
+        assert!(text.contains("\"observed\":\"-inf\""), "{text}");
+        let back: Report = serde_json::from_str(&text).unwrap();
+        assert_eq!(back, rep);
     }
 }

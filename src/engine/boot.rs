@@ -29,14 +29,33 @@ pub enum Design<'a> {
     Two { a: &'a [f64], b: &'a [f64] },
     /// Pairs (x_i, y_i) resampled whole: paired measurements or association.
     Pairs { x: &'a [f64], y: &'a [f64] },
+    /// Observations in cells (k groups, or stratum × group cells), each cell resampled
+    /// within itself. `labels[i]` is the cell of observation i, as a number; it is passed
+    /// to the statistic as the second slice, aligned with the values.
+    Cells {
+        x: &'a [f64],
+        labels: &'a [f64],
+        cells: &'a [Vec<usize>],
+    },
 }
 
 impl Design<'_> {
+    /// The original data as the statistic receives it (first and second slice).
+    pub fn original(&self) -> (Vec<f64>, Vec<f64>) {
+        match self {
+            Design::One { x, .. } => (x.to_vec(), Vec::new()),
+            Design::Two { a, b } => (a.to_vec(), b.to_vec()),
+            Design::Pairs { x, y } => (x.to_vec(), y.to_vec()),
+            Design::Cells { x, labels, .. } => (x.to_vec(), labels.to_vec()),
+        }
+    }
+
     fn sizes(&self) -> (usize, usize) {
         match self {
             Design::One { x, .. } => (x.len(), 0),
             Design::Two { a, b } => (a.len(), b.len()),
             Design::Pairs { x, y } => (x.len(), y.len()),
+            Design::Cells { x, .. } => (x.len(), x.len()),
         }
     }
 
@@ -73,6 +92,14 @@ impl Design<'_> {
                     let j = stream.below(x.len() as u64) as usize;
                     ra[i] = x[j];
                     rb[i] = y[j];
+                }
+            }
+            Design::Cells { x, labels, cells } => {
+                rb.copy_from_slice(labels);
+                for cell in cells.iter() {
+                    for &p in cell {
+                        ra[p] = x[cell[stream.below(cell.len() as u64) as usize]];
+                    }
                 }
             }
         }
@@ -143,6 +170,11 @@ pub fn block(design: &Design, stats_: &[Stat], mut stream: Stream, len: u64) -> 
                         },
                         Design::Two { .. } => Design::Two { a: &ra, b: &rb },
                         Design::Pairs { .. } => Design::Pairs { x: &ra, y: &rb },
+                        Design::Cells { labels, cells, .. } => Design::Cells {
+                            x: &ra,
+                            labels,
+                            cells,
+                        },
                     };
                     let mut inner_vals = Vec::with_capacity(m);
                     for _ in 0..m {
@@ -210,6 +242,15 @@ pub fn leave_one_out_generic(design: &Design, f: StatFn) -> Vec<Vec<f64>> {
                 .map(|i| f(&mut drop(x, i), &mut drop(y, i)))
                 .collect()]
         }
+        // One jackknife sample per cell, as for two groups.
+        Design::Cells { x, labels, cells } => cells
+            .iter()
+            .map(|cell| {
+                cell.iter()
+                    .map(|&i| f(&mut drop(x, i), &mut drop(labels, i)))
+                    .collect()
+            })
+            .collect(),
     }
 }
 
@@ -252,6 +293,30 @@ pub fn acceleration(design: &Design, f: StatFn) -> (Option<f64>, bool) {
                 .map(|j| f(&mut keep(x, j), &mut keep(y, j)))
                 .collect()]
         }
+        Design::Cells { x, labels, cells } => cells
+            .iter()
+            .map(|cell| {
+                // Leave out every G-th member of this cell in turn.
+                let mut out_of_cell = vec![usize::MAX; x.len()];
+                for (pos, &i) in cell.iter().enumerate() {
+                    out_of_cell[i] = pos;
+                }
+                (0..g.min(cell.len()))
+                    .map(|j| {
+                        let kept = |v: &[f64]| -> Vec<f64> {
+                            v.iter()
+                                .enumerate()
+                                .filter(|(i, _)| {
+                                    out_of_cell[*i] == usize::MAX || out_of_cell[*i] % g != j
+                                })
+                                .map(|(_, v)| *v)
+                                .collect()
+                        };
+                        f(&mut kept(x), &mut kept(labels))
+                    })
+                    .collect()
+            })
+            .collect(),
     };
     (acceleration_from_loo(&loo), true)
 }
@@ -535,6 +600,61 @@ mod tests {
         assert!((lower.low.unwrap() - stats::quantile_sorted(&boot, 0.1)).abs() < 1e-12);
         let upper = interval_by(IntervalMethod::Percentile, 0.9, Side::Upper, &s, &mut no);
         assert!(upper.low.is_none());
+    }
+
+    #[test]
+    fn cell_resamples_keep_each_cell_and_its_labels() {
+        // Cells {0, 2} and {1, 3, 4}: every resample keeps the labels and draws each cell's
+        // values from that cell only.
+        let x = [1.0, 10.0, 2.0, 20.0, 30.0];
+        let labels = [0.0, 1.0, 0.0, 1.0, 1.0];
+        let cells = vec![vec![0, 2], vec![1, 3, 4]];
+        let d = Design::Cells {
+            x: &x,
+            labels: &labels,
+            cells: &cells,
+        };
+        let check = |a: &mut [f64], l: &mut [f64]| -> f64 {
+            let ok = a
+                .iter()
+                .zip(l.iter())
+                .all(|(v, c)| if *c == 0.0 { *v < 5.0 } else { *v >= 10.0 });
+            f64::from(u8::from(ok && l == [0.0, 1.0, 0.0, 1.0, 1.0]))
+        };
+        let st = Stat {
+            f: &check,
+            estimate: 1.0,
+            se: SeMethod::None,
+        };
+        let out = block(
+            &d,
+            &[st],
+            Stream::new(5, super::super::rng::Purpose::Bootstrap, 0),
+            300,
+        );
+        assert!(out.values[0].iter().all(|&v| v == 1.0));
+        // The jackknife of a mean difference over cells equals the two-group jackknife.
+        let by_cells = |a: &mut [f64], l: &mut [f64]| {
+            let m = |c: f64| {
+                let v: Vec<f64> = a
+                    .iter()
+                    .zip(l.iter())
+                    .filter(|p| *p.1 == c)
+                    .map(|p| *p.0)
+                    .collect();
+                stats::mean(&v)
+            };
+            m(0.0) - m(1.0)
+        };
+        let (ac, _) = acceleration(&d, &by_cells);
+        let (at, _) = acceleration(
+            &Design::Two {
+                a: &[1.0, 2.0],
+                b: &[10.0, 20.0, 30.0],
+            },
+            &mean_diff,
+        );
+        assert!((ac.unwrap() - at.unwrap()).abs() < 1e-12);
     }
 
     #[test]

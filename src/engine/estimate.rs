@@ -831,11 +831,10 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
     }
     let t_finite: Vec<f64> = tvals[0].iter().copied().filter(|v| v.is_finite()).collect();
     let se_hat = match &se_method {
-        SeMethod::Formula(g) => match &design {
-            Design::One { x, .. } => g(&mut x.to_vec(), &mut []),
-            Design::Two { a, b } => g(&mut a.to_vec(), &mut b.to_vec()),
-            Design::Pairs { x, y } => g(&mut x.to_vec(), &mut y.to_vec()),
-        },
+        SeMethod::Formula(g) => {
+            let (mut a, mut b) = design.original();
+            g(&mut a, &mut b)
+        }
         SeMethod::Nested(_) => boot::standard_error(&finite).unwrap_or(f64::NAN),
         SeMethod::None => f64::NAN,
     };

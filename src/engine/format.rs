@@ -98,6 +98,30 @@ pub fn percent(level: f64) -> String {
     }
 }
 
+/// A share (0 to 1) as a percentage for a sentence: "31.2%", "0.4%", "0.02%",
+/// "less than 0.01%", "none".
+pub fn percent_share(x: f64) -> String {
+    if !x.is_finite() {
+        return "an undefined share".into();
+    }
+    let p = x * 100.0;
+    let s = if x <= 0.0 {
+        return "none".into();
+    } else if p < 0.01 {
+        return "less than 0.01%".into();
+    } else if p < 0.1 {
+        format!("{p:.2}")
+    } else {
+        format!("{p:.1}")
+    };
+    let s = if s.contains('.') {
+        s.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        s
+    };
+    format!("{s}%")
+}
+
 /// "95% CI [0.30, 1.50]"
 pub fn ci(level: f64, low: f64, high: f64, decimals: usize) -> String {
     format!(
@@ -130,6 +154,12 @@ mod tests {
         assert_eq!(percent(0.995), "99.5%");
         assert_eq!(ci(0.95, 0.3, 1.5, 2), "95% CI [0.30, 1.50]");
         assert_eq!(fixed(-0.0001, 2), "0.00");
+        assert_eq!(percent_share(0.312), "31.2%");
+        assert_eq!(percent_share(0.004), "0.4%");
+        assert_eq!(percent_share(0.5), "50%");
+        assert_eq!(percent_share(0.0002), "0.02%");
+        assert_eq!(percent_share(0.00001), "less than 0.01%");
+        assert_eq!(percent_share(0.0), "none");
     }
 
     #[test]

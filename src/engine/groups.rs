@@ -69,6 +69,155 @@ pub fn detect_layout(table: &Table) -> Result<Layout, TableError> {
     }
 }
 
+/// Values of a numeric column with the group label of each row; the levels in order of
+/// first appearance.
+pub struct Labelled {
+    pub levels: Vec<String>,
+    /// (row index in the table, level index, value) for every row with both.
+    pub rows: Vec<(usize, usize, f64)>,
+}
+
+impl Labelled {
+    /// The values of each level, in level order.
+    pub fn by_level(&self) -> Vec<Vec<f64>> {
+        let mut out = vec![Vec::new(); self.levels.len()];
+        for &(_, l, v) in &self.rows {
+            out[l].push(v);
+        }
+        out
+    }
+}
+
+/// Reads a value column and a label column (long format), noting blank cells, decimal
+/// commas and values without a label.
+pub fn labelled_values(
+    table: &Table,
+    value: &str,
+    group: &str,
+    notes: &mut Vec<String>,
+) -> Result<Labelled, TableError> {
+    if value == group {
+        return err(format!(
+            "The same column (\"{value}\") was chosen for the values and the groups. \
+             Choose a different column for each."
+        ));
+    }
+    let vcol = table.column(value)?;
+    let gcol = table.column(group)?;
+    let nums = vcol.numbers(table.decimal_comma)?;
+    if nums.missing > 0 {
+        notes.push(format!(
+            "{} blank or NA cell{} in column \"{}\" {} left out.",
+            nums.missing,
+            plural(nums.missing),
+            value,
+            were(nums.missing)
+        ));
+    }
+    if nums.decimal_commas > 0 {
+        notes.push(format!(
+            "{} value{} in column \"{}\" had a decimal comma, read as a decimal point.",
+            nums.decimal_commas,
+            plural(nums.decimal_commas),
+            value
+        ));
+    }
+    let mut levels: Vec<String> = Vec::new();
+    let mut unlabelled: Vec<u64> = Vec::new();
+    let mut rows = Vec::new();
+    for &(i, v) in &nums.values {
+        let label = gcol.cells[i].text.trim();
+        if label.is_empty() {
+            unlabelled.push(gcol.cells[i].line);
+            continue;
+        }
+        let li = match levels.iter().position(|l| l == label) {
+            Some(li) => li,
+            None => {
+                levels.push(label.to_string());
+                levels.len() - 1
+            }
+        };
+        rows.push((i, li, v));
+    }
+    if !unlabelled.is_empty() {
+        notes.push(format!(
+            "{} value{} with no group label in column \"{}\" {} left out ({}).",
+            unlabelled.len(),
+            plural(unlabelled.len()),
+            group,
+            were(unlabelled.len()),
+            lines_list(&unlabelled)
+        ));
+    }
+    if levels.is_empty() {
+        return err(format!(
+            "Column \"{group}\" has no group labels next to the values in \"{value}\"."
+        ));
+    }
+    Ok(Labelled { levels, rows })
+}
+
+/// Reads one column per group (wide format), noting blank cells inside a column and
+/// decimal commas.
+pub fn wide_values(
+    table: &Table,
+    columns: &[String],
+    notes: &mut Vec<String>,
+) -> Result<Vec<Vec<f64>>, TableError> {
+    for (i, c) in columns.iter().enumerate() {
+        if columns[..i].contains(c) {
+            return err(format!(
+                "The same column (\"{c}\") was chosen for {} groups.",
+                if columns.len() == 2 { "both" } else { "two" }
+            ));
+        }
+    }
+    let mut groups = Vec::new();
+    for name in columns {
+        let col = table.column(name)?;
+        let nums = col.numbers(table.decimal_comma)?;
+        // Blank cells below a shorter column's last value are expected in wide format and
+        // not worth a note.
+        let last = nums.values.last().map_or(0, |v| v.0 + 1);
+        let inner = nums.missing - (col.cells.len() - last);
+        if inner > 0 {
+            notes.push(format!(
+                "{} blank or NA cell{} in column \"{}\" {} left out.",
+                inner,
+                plural(inner),
+                col.name,
+                were(inner)
+            ));
+        }
+        if nums.decimal_commas > 0 {
+            notes.push(format!(
+                "{} value{} in column \"{}\" had a decimal comma, read as a decimal point.",
+                nums.decimal_commas,
+                plural(nums.decimal_commas),
+                col.name
+            ));
+        }
+        groups.push(nums.values.into_iter().map(|v| v.1).collect::<Vec<f64>>());
+    }
+    Ok(groups)
+}
+
+/// Every group needs at least 2 values.
+fn check_sizes(names: &[String], groups: &[Vec<f64>]) -> Result<(), TableError> {
+    for (name, g) in names.iter().zip(groups) {
+        if g.len() < 2 {
+            return err(format!(
+                "Group \"{name}\" has {} value{}; each group needs at least 2 (at least 5 or so \
+                 for a permutation test to be able to show anything).",
+                g.len(),
+                plural(g.len())
+            ));
+        }
+    }
+    Ok(())
+}
+
 /// Extracts the two groups the request asks for.
 pub fn two_groups(table: &Table, req: &Request) -> Result<TwoGroups, TableError> {
     let layout = match &req.layout {
@@ -76,71 +225,12 @@ pub fn two_groups(table: &Table, req: &Request) -> Result<TwoGroups, TableError>
         l => l.clone(),
     };
     let mut notes = Vec::new();
-    let dc = table.decimal_comma;
     let (names, a, b, value_label) = match &layout {
         Layout::Detect => unreachable!("resolved above"),
         Layout::Long { value, group } => {
-            if value == group {
-                return err(format!(
-                    "The same column (\"{value}\") was chosen for the values and the groups. \
-                     Choose a different column for each."
-                ));
-            }
-            let vcol = table.column(value)?;
-            let gcol = table.column(group)?;
-            let nums = vcol.numbers(dc)?;
-            if nums.missing > 0 {
-                notes.push(format!(
-                    "{} blank or NA cell{} in column \"{}\" {} left out.",
-                    nums.missing,
-                    plural(nums.missing),
-                    value,
-                    were(nums.missing)
-                ));
-            }
-            if nums.decimal_commas > 0 {
-                notes.push(format!(
-                    "{} value{} in column \"{}\" had a decimal comma, read as a decimal point.",
-                    nums.decimal_commas,
-                    plural(nums.decimal_commas),
-                    value
-                ));
-            }
-            // Group levels in order of first appearance.
-            let mut levels: Vec<String> = Vec::new();
-            let mut unlabelled: Vec<u64> = Vec::new();
-            let mut rows: Vec<(usize, f64)> = Vec::new();
-            for &(i, v) in &nums.values {
-                let label = gcol.cells[i].text.trim();
-                if label.is_empty() {
-                    unlabelled.push(gcol.cells[i].line);
-                    continue;
-                }
-                let li = match levels.iter().position(|l| l == label) {
-                    Some(li) => li,
-                    None => {
-                        levels.push(label.to_string());
-                        levels.len() - 1
-                    }
-                };
-                rows.push((li, v));
-            }
-            if !unlabelled.is_empty() {
-                notes.push(format!(
-                    "{} value{} with no group label in column \"{}\" {} left out ({}).",
-                    unlabelled.len(),
-                    plural(unlabelled.len()),
-                    group,
-                    were(unlabelled.len()),
-                    lines_list(&unlabelled)
-                ));
-            }
+            let lab = labelled_values(table, value, group, &mut notes)?;
+            let levels = &lab.levels;
             let (first, second) = match levels.len() {
-                0 => {
-                    return err(format!(
-                        "Column \"{group}\" has no group labels next to the values in \"{value}\"."
-                    ))
-                }
                 1 => {
                     return err(format!(
                         "Column \"{group}\" names only one group (\"{}\"); a comparison needs two.",
@@ -149,11 +239,11 @@ pub fn two_groups(table: &Table, req: &Request) -> Result<TwoGroups, TableError>
                 }
                 2 => {
                     let first = match &req.first {
-                        Some(f) => find_level(&levels, f, group)?,
+                        Some(f) => find_level(levels, f, group)?,
                         None => 0,
                     };
                     if let Some(s) = &req.second {
-                        let s = find_level(&levels, s, group)?;
+                        let s = find_level(levels, s, group)?;
                         if s == first {
                             return err(format!(
                                 "\"{}\" was chosen as both the first and the second group.",
@@ -165,10 +255,7 @@ pub fn two_groups(table: &Table, req: &Request) -> Result<TwoGroups, TableError>
                 }
                 _ => match (&req.first, &req.second) {
                     (Some(f), Some(s)) => {
-                        let (f, s) = (
-                            find_level(&levels, f, group)?,
-                            find_level(&levels, s, group)?,
-                        );
+                        let (f, s) = (find_level(levels, f, group)?, find_level(levels, s, group)?);
                         if f == s {
                             return err(format!(
                                 "\"{}\" was chosen as both the first and the second group.",
@@ -196,13 +283,14 @@ pub fn two_groups(table: &Table, req: &Request) -> Result<TwoGroups, TableError>
                             "Column \"{group}\" names {} groups ({}); this analysis compares two. \
                              Choose the first and the second group to compare.",
                             levels.len(),
-                            quoted_list(&levels)
+                            quoted_list(levels)
                         ))
                     }
                 },
             };
-            let a: Vec<f64> = rows.iter().filter(|r| r.0 == first).map(|r| r.1).collect();
-            let b: Vec<f64> = rows.iter().filter(|r| r.0 == second).map(|r| r.1).collect();
+            let mut by = lab.by_level();
+            let b = std::mem::take(&mut by[second]);
+            let a = std::mem::take(&mut by[first]);
             (
                 [levels[first].clone(), levels[second].clone()],
                 a,
@@ -218,12 +306,6 @@ pub fn two_groups(table: &Table, req: &Request) -> Result<TwoGroups, TableError>
                     quoted_list(columns)
                 ));
             }
-            if columns[0] == columns[1] {
-                return err(format!(
-                    "The same column (\"{}\") was chosen for both groups.",
-                    columns[0]
-                ));
-            }
             let mut order = [0usize, 1];
             if let Some(f) = &req.first {
                 match columns.iter().position(|c| c == f) {
@@ -237,57 +319,95 @@ pub fn two_groups(table: &Table, req: &Request) -> Result<TwoGroups, TableError>
                     }
                 }
             }
-            let mut groups = Vec::new();
-            for &i in &order {
-                let col = table.column(&columns[i])?;
-                let nums = col.numbers(dc)?;
-                // Blank cells below a shorter column's last value are expected in wide
-                // format and not worth a note.
-                let last = nums.values.last().map_or(0, |v| v.0 + 1);
-                let inner = nums.missing - (col.cells.len() - last);
-                if inner > 0 {
-                    notes.push(format!(
-                        "{} blank or NA cell{} in column \"{}\" {} left out.",
-                        inner,
-                        plural(inner),
-                        col.name,
-                        were(inner)
-                    ));
-                }
-                if nums.decimal_commas > 0 {
-                    notes.push(format!(
-                        "{} value{} in column \"{}\" had a decimal comma, read as a decimal point.",
-                        nums.decimal_commas,
-                        plural(nums.decimal_commas),
-                        col.name
-                    ));
-                }
-                groups.push(nums.values.into_iter().map(|v| v.1).collect::<Vec<f64>>());
-            }
+            let ordered = [columns[order[0]].clone(), columns[order[1]].clone()];
+            let mut groups = wide_values(table, &ordered, &mut notes)?;
             let b = groups.pop().unwrap_or_default();
             let a = groups.pop().unwrap_or_default();
-            (
-                [columns[order[0]].clone(), columns[order[1]].clone()],
-                a,
-                b,
-                "value".to_string(),
-            )
+            (ordered, a, b, "value".to_string())
         }
     };
-    for (name, g) in names.iter().zip([&a, &b]) {
-        if g.len() < 2 {
-            return err(format!(
-                "Group \"{name}\" has {} value{}; each group needs at least 2 (at least 5 or so \
-                 for a permutation test to be able to show anything).",
-                g.len(),
-                plural(g.len())
-            ));
-        }
-    }
+    check_sizes(&names, &[a.clone(), b.clone()])?;
     Ok(TwoGroups {
         names,
         a,
         b,
+        layout,
+        value_label,
+        notes,
+    })
+}
+
+/// Three or more groups of numbers.
+#[derive(Clone, Debug)]
+pub struct KGroups {
+    pub names: Vec<String>,
+    pub values: Vec<Vec<f64>>,
+    pub layout: Layout,
+    pub value_label: String,
+    pub notes: Vec<String>,
+}
+
+/// Extracts every group of a table for a k-group comparison: all labels of the group column
+/// (long format) or every chosen column (wide format). With `Layout::Detect`, a label column
+/// beside a numeric one means long format, otherwise every numeric column is a group.
+pub fn k_groups(table: &Table, layout: &Layout) -> Result<KGroups, TableError> {
+    let layout = match layout {
+        Layout::Detect => match detect_layout(table)? {
+            Layout::Wide { .. } => Layout::Wide {
+                columns: table
+                    .columns
+                    .iter()
+                    .filter(|c| matches!(c.kind, ColumnKind::Number | ColumnKind::NumberWithText))
+                    .map(|c| c.name.clone())
+                    .collect(),
+            },
+            l => l,
+        },
+        l => l.clone(),
+    };
+    let mut notes = Vec::new();
+    let (names, values, value_label) = match &layout {
+        Layout::Detect => unreachable!("resolved above"),
+        Layout::Long { value, group } => {
+            let lab = labelled_values(table, value, group, &mut notes)?;
+            let values = lab.by_level();
+            (lab.levels, values, value.clone())
+        }
+        Layout::Wide { columns } => {
+            let values = wide_values(table, columns, &mut notes)?;
+            (columns.clone(), values, "value".to_string())
+        }
+    };
+    if names.len() < 3 {
+        let (what, how) = match &layout {
+            Layout::Long { group, .. } => (
+                format!(
+                    "Column \"{group}\" names {} group{}",
+                    names.len(),
+                    plural(names.len())
+                ),
+                "",
+            ),
+            _ => (
+                format!(
+                    "{} column{} {} chosen",
+                    names.len(),
+                    plural(names.len()),
+                    were(names.len())
+                ),
+                " Choose three or more columns.",
+            ),
+        };
+        return err(format!(
+            "{what} ({}); a k-group comparison needs 3 or more.{how} For two groups use the \
+             two-groups design.",
+            quoted_list(&names)
+        ));
+    }
+    check_sizes(&names, &values)?;
+    Ok(KGroups {
+        names,
+        values,
         layout,
         value_label,
         notes,
@@ -395,6 +515,47 @@ mod tests {
             .unwrap()
             .0
             .contains("Only one column of numbers (\"y\")"));
+    }
+
+    #[test]
+    fn k_groups_long_and_wide() {
+        let t = parse(
+            "y,g\n1,a\n2,a\n3,b\n4,b\n5,c\n6,c\n,c\n",
+            HeaderChoice::Detect,
+        )
+        .unwrap();
+        let g = k_groups(&t, &Layout::Detect).unwrap();
+        assert_eq!(g.names, vec!["a", "b", "c"]);
+        assert_eq!(g.values[2], vec![5.0, 6.0]);
+        assert!(g.notes[0].contains("1 blank or NA cell"), "{:?}", g.notes);
+        let t = parse("p,q,r\n1,2,3\n4,5,6\n", HeaderChoice::Detect).unwrap();
+        let g = k_groups(&t, &Layout::Detect).unwrap();
+        assert_eq!(g.names, vec!["p", "q", "r"]);
+        let e = k_groups(
+            &t,
+            &Layout::Wide {
+                columns: vec!["p".into(), "q".into()],
+            },
+        )
+        .err()
+        .unwrap();
+        assert!(e.0.contains("2 columns were chosen (\"p\", \"q\")"), "{e}");
+        let e = k_groups(
+            &t,
+            &Layout::Wide {
+                columns: vec!["p".into(), "q".into(), "p".into()],
+            },
+        )
+        .err()
+        .unwrap();
+        assert!(
+            e.0.contains("The same column (\"p\") was chosen for two groups"),
+            "{e}"
+        );
+        let t = parse("y,g\n1,a\n2,a\n3,b\n4,b\n", HeaderChoice::Detect).unwrap();
+        let e = k_groups(&t, &Layout::Detect).err().unwrap();
+        assert!(e.0.contains("names 2 groups"), "{e}");
+        assert!(e.0.contains("two-groups design"), "{e}");
     }
 
     #[test]

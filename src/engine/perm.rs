@@ -64,6 +64,9 @@ impl Counts {
 
     #[inline]
     pub(crate) fn record(&mut self, t: f64, obs: f64, tol: f64) {
+        // An infinite observed statistic would make a relative tolerance infinite, and
+        // inf − inf is NaN, which counts nothing: ties are then exact.
+        let tol = if tol.is_finite() { tol } else { 0.0 };
         // Branch-free: the comparisons are unpredictable.
         self.total += 1;
         self.ge += u64::from(t >= obs - tol);
