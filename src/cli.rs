@@ -6,12 +6,11 @@ use std::io::{Read, Write};
 use crate::engine::analysis::{self, RunError};
 use crate::engine::format as fmt;
 use crate::engine::protocol::*;
-use crate::engine::report::report_text;
 use crate::engine::table::HeaderChoice;
 use crate::engine::{perm, rng};
 
 const USAGE: &str = "\
-reshuffle: permutation tests and bootstrap intervals for two groups
+reshuffle: permutation tests and bootstrap intervals for study data
 
 Usage:
   reshuffle analyze FILE [options]     test and estimate a two-group difference (FILE may be -)
@@ -22,8 +21,13 @@ Usage:
   reshuffle analyze FILE --design paired --columns FIRST,SECOND [--statistic mean|median]
   reshuffle analyze FILE --design one-sample --value COL --reference VALUE
   reshuffle analyze FILE --design association --x COL --y COL [--statistic pearson|spearman|slope]
-                                       sign-flip test, bootstrap interval, d_z, paired or
-                                       one-sample t-test and Wilcoxon signed-rank
+  reshuffle analyze FILE --design k-groups [--value COL --group COL | --columns A,B,C]
+                       [--control LEVEL] [--statistic f|welch-f|median-spread]
+  reshuffle analyze FILE --design stratified --value COL --group COL --strata COL
+                       [--weights size|precision]
+  reshuffle analyze FILE --design yes-no --value COL --group COL
+  reshuffle analyze --design yes-no --counts 42/300,61/310
+                       [--statistic proportion-difference|risk-ratio|odds-ratio]
   reshuffle bench                      compare the speed of the relabelling kernels
   reshuffle help                       show this text
 
@@ -404,69 +408,21 @@ fn today() -> String {
 
 /// Runs a job and prints its findings as asked.
 fn run_job(job: &Job, o: &Outputs, out: &mut dyn std::io::Write) -> Result<(), String> {
-    use crate::engine::report;
     let date = today();
-    let (text, html) = match job {
-        Job::Compare(req) => {
-            let rep = analysis::run(req, &mut |_| true).map_err(|e| match e {
-                RunError::Input(m) => m,
-                RunError::Cancelled => "stopped".into(),
-            })?;
-            let text = if o.json {
-                serde_json::to_string_pretty(&rep).map_err(|e| e.to_string())? + "\n"
-            } else if o.markdown {
-                report::markdown(&rep, &date)
-            } else {
-                report_text(&rep)
-            };
-            (text, o.html.as_ref().map(|_| report::html(&rep, &date)))
-        }
-        Job::Estimate(req) => {
-            let rep =
-                crate::engine::estimate::run(req, &mut |_| true).map_err(|e| e.to_string())?;
-            let text = if o.json {
-                serde_json::to_string_pretty(&rep).map_err(|e| e.to_string())? + "\n"
-            } else if o.markdown {
-                report::estimate_markdown(&rep, &date)
-            } else {
-                report::estimate_text(&rep)
-            };
-            (
-                text,
-                o.html.as_ref().map(|_| report::estimate_html(&rep, &date)),
-            )
-        }
-        Job::Paired(req) => {
-            let rep = crate::engine::paired::run(req, &mut |_| true).map_err(|e| e.to_string())?;
-            let text = if o.json {
-                serde_json::to_string_pretty(&rep).map_err(|e| e.to_string())? + "\n"
-            } else if o.markdown {
-                report::paired_markdown(&rep, &date)
-            } else {
-                report::paired_text(&rep)
-            };
-            (
-                text,
-                o.html.as_ref().map(|_| report::paired_html(&rep, &date)),
-            )
-        }
-        Job::Association(req) => {
-            let rep = crate::engine::assoc::run(req, &mut |_| true).map_err(|e| e.to_string())?;
-            let text = if o.json {
-                serde_json::to_string_pretty(&rep).map_err(|e| e.to_string())? + "\n"
-            } else if o.markdown {
-                report::assoc_markdown(&rep, &date)
-            } else {
-                report::assoc_text(&rep)
-            };
-            (
-                text,
-                o.html.as_ref().map(|_| report::assoc_html(&rep, &date)),
-            )
-        }
+    let rep = job.run(&mut |_| true).map_err(|e| match e {
+        RunError::Input(m) => m,
+        RunError::Cancelled => "stopped".into(),
+    })?;
+    let text = if o.json {
+        rep.json().map_err(|e| e.to_string())? + "\n"
+    } else if o.markdown {
+        rep.markdown(&date)
+    } else {
+        rep.text(&date)
     };
-    if let (Some(path), Some(h)) = (&o.html, html) {
-        std::fs::write(path, h).map_err(|e| format!("Could not write \"{path}\": {e}"))?;
+    if let Some(path) = &o.html {
+        std::fs::write(path, rep.html(&date))
+            .map_err(|e| format!("Could not write \"{path}\": {e}"))?;
     }
     out.write_all(text.as_bytes()).map_err(|e| e.to_string())
 }
@@ -482,18 +438,6 @@ pub fn read_job(text: &str, name: &str) -> Result<Job, String> {
 }
 
 fn analyze(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> {
-    // `--design two-groups` is the default design.
-    if let Some(i) = args.iter().position(|a| a == "--design") {
-        if args.get(i + 1).map(String::as_str) == Some("two-groups") {
-            let rest: Vec<String> = args
-                .iter()
-                .enumerate()
-                .filter(|(k, _)| *k != i && *k != i + 1)
-                .map(|(_, a)| a.clone())
-                .collect();
-            return analyze(&rest, out);
-        }
-    }
     let (args, mut o) = take_outputs(args)?;
     // A saved analysis or a share link replaces the data file and the settings.
     let pos = |flag: &str| args.iter().position(|a| a == flag);
@@ -524,41 +468,62 @@ fn analyze(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> 
         };
         return run_job(&job, &o, out);
     }
-    if let Some(i) = pos("--design") {
-        let design = args.get(i + 1).ok_or("--design needs a value.")?.clone();
-        let rest: Vec<String> = args
-            .iter()
-            .enumerate()
-            .filter(|(k, _)| *k != i && *k != i + 1)
-            .map(|(_, a)| a.clone())
-            .collect();
-        match design.as_str() {
-            "paired" | "one-sample" => return paired_command(&design, &rest, &o, out),
-            "association" => return assoc_command(&rest, &o, out),
-            other => {
-                return Err(format!(
-                    "--design takes two-groups, paired, one-sample or association (not \"{other}\"); k groups, strata and yes/no outcomes are not available yet."
-                ))
-            }
-        }
-    }
-    let (req, json) = request_from_args(&args, &mut |f| read_data(f))?;
-    o.json = json;
-    run_job(&Job::Compare(req), &o, out)
+    let (job, json) = job_from_args(&args)?;
+    o.json = o.json || json;
+    run_job(&job, &o, out)
 }
 
-/// `reshuffle analyze --design paired --columns FIRST,SECOND` or
-/// `--design one-sample --value COL --reference VALUE`.
-fn paired_command(
-    design: &str,
-    args: &[String],
-    o: &Outputs,
-    out: &mut dyn std::io::Write,
-) -> Result<(), String> {
+/// Builds the job an `analyze` (or `link`) command line describes, with whether `--json`
+/// was given.
+pub fn job_from_args(args: &[String]) -> Result<(Job, bool), String> {
+    let Some(i) = args.iter().position(|a| a == "--design") else {
+        let (req, json) = request_from_args(args, &mut |f| read_data(f))?;
+        return Ok((Job::Compare(req), json));
+    };
+    let design = args.get(i + 1).ok_or("--design needs a value.")?.clone();
+    let rest: Vec<String> = args
+        .iter()
+        .enumerate()
+        .filter(|(k, _)| *k != i && *k != i + 1)
+        .map(|(_, a)| a.clone())
+        .collect();
+    match design.as_str() {
+        "two-groups" => {
+            let (req, json) = request_from_args(&rest, &mut |f| read_data(f))?;
+            Ok((Job::Compare(req), json))
+        }
+        "paired" | "one-sample" => paired_job(&design, &rest),
+        "association" => assoc_job(&rest),
+        "k-groups" => kgroups_job(&rest),
+        "stratified" => strata_job(&rest),
+        "yes-no" => yesno_job(&rest),
+        other => Err(format!(
+            "--design takes two-groups, paired, one-sample, k-groups, association, stratified \
+             or yes-no (not \"{other}\")."
+        )),
+    }
+}
+
+impl TestOpts {
+    /// The options as the shared settings block of the later designs.
+    fn apply(&self, s: &mut crate::engine::design::TestSettings) {
+        s.seed = self.seed;
+        s.alternative = self.alternative.unwrap_or(s.alternative);
+        s.two_sided = self.two_sided.unwrap_or(s.two_sided);
+        s.interval = self.interval.unwrap_or(s.interval);
+        s.resamples = self.resamples.unwrap_or(s.resamples);
+        s.bootstrap_resamples = self.bootstrap.unwrap_or(s.bootstrap_resamples);
+        s.exact_limit = self.exact_limit.unwrap_or(s.exact_limit);
+        s.confidence = self.confidence.unwrap_or(s.confidence);
+    }
+}
+
+/// `--design paired --columns FIRST,SECOND` or `--design one-sample --value COL --reference VALUE`.
+fn paired_job(design: &str, args: &[String]) -> Result<(Job, bool), String> {
     use crate::engine::paired::{PairedLayout, PairedRequest};
     use crate::engine::signflip::FlipStatistic;
     let mut p = Opts::parse(args)?;
-    let json = o.json || p.switch("--json");
+    let json = p.switch("--json");
     let mut req = PairedRequest::new(
         String::new(),
         PairedLayout::OneSample {
@@ -596,19 +561,14 @@ fn paired_command(
     };
     req.data = p.data()?;
     p.finish()?;
-    let o = Outputs {
-        json,
-        markdown: o.markdown,
-        html: o.html.clone(),
-    };
-    run_job(&Job::Paired(req), &o, out)
+    Ok((Job::Paired(req), json))
 }
 
-/// `reshuffle analyze FILE --design association --x COL --y COL [--statistic pearson|spearman|slope]`.
-fn assoc_command(args: &[String], o: &Outputs, out: &mut dyn std::io::Write) -> Result<(), String> {
+/// `--design association --x COL --y COL [--statistic pearson|spearman|slope]`.
+fn assoc_job(args: &[String]) -> Result<(Job, bool), String> {
     use crate::engine::assoc::{AssocRequest, AssocStatistic};
     let mut p = Opts::parse(args)?;
-    let json = o.json || p.switch("--json");
+    let json = p.switch("--json");
     let (x, y) = match (p.take("--x"), p.take("--y")) {
         (Some(x), Some(y)) => (x, y),
         _ => return Err("The association design needs --x COL and --y COL.".into()),
@@ -632,12 +592,124 @@ fn assoc_command(args: &[String], o: &Outputs, out: &mut dyn std::io::Write) -> 
     req.confidence = t.confidence.unwrap_or(req.confidence);
     req.data = p.data()?;
     p.finish()?;
-    let o = Outputs {
-        json,
-        markdown: o.markdown,
-        html: o.html.clone(),
+    Ok((Job::Association(req), json))
+}
+
+/// `--design k-groups [--value COL --group COL | --columns A,B,C] [--control LEVEL]
+/// [--statistic f|welch-f|median-spread]`.
+fn kgroups_job(args: &[String]) -> Result<(Job, bool), String> {
+    use crate::engine::kgroups::{KGroupsRequest, KStatistic};
+    let mut p = Opts::parse(args)?;
+    let json = p.switch("--json");
+    let layout = match (p.take("--value"), p.take("--group"), p.list("--columns")) {
+        (None, None, None) => Layout::Detect,
+        (Some(value), Some(group), None) => Layout::Long { value, group },
+        (None, None, Some(columns)) => Layout::Wide { columns },
+        _ => {
+            return Err(
+                "k groups are read from --value COL with --group COL (long format) or from \
+                 --columns A,B,C (one column per group)."
+                    .into(),
+            )
+        }
     };
-    run_job(&Job::Association(req), &o, out)
+    let mut req = KGroupsRequest::new(String::new(), layout, 0);
+    req.control = p.take("--control");
+    if let Some(st) = p.choice(
+        "--statistic",
+        KStatistic::from_key,
+        "f, welch-f or median-spread for this design",
+    )? {
+        req.statistic = st;
+    }
+    let t = TestOpts::read(&mut p)?;
+    req.header = t.header;
+    t.apply(&mut req.settings);
+    req.data = p.data()?;
+    p.finish()?;
+    Ok((Job::KGroups(req), json))
+}
+
+/// `--design stratified --value COL --group COL --strata COL [--weights size|precision]`.
+fn strata_job(args: &[String]) -> Result<(Job, bool), String> {
+    use crate::engine::strata::{StrataRequest, StrataWeights};
+    let mut p = Opts::parse(args)?;
+    let json = p.switch("--json");
+    let (value, group, strata) = match (p.take("--value"), p.take("--group"), p.take("--strata")) {
+        (Some(v), Some(g), Some(s)) => (v, g, s),
+        _ => {
+            return Err(
+                "The stratified design needs --value COL, --group COL and --strata COL (the \
+                 column naming each row's site, batch or day)."
+                    .into(),
+            )
+        }
+    };
+    let mut req = StrataRequest::new(String::new(), value, group, strata, 0);
+    req.first = p.take("--first");
+    req.second = p.take("--second");
+    if let Some(w) = p.choice("--weights", StrataWeights::from_key, "size or precision")? {
+        req.weights = w;
+    }
+    if let Some(st) = p.take("--statistic") {
+        if st != "mean-difference" {
+            return Err(format!(
+                "The stratified design measures the difference in means within strata \
+                 (--statistic mean-difference), not \"{st}\"."
+            ));
+        }
+    }
+    let t = TestOpts::read(&mut p)?;
+    req.header = t.header;
+    t.apply(&mut req.settings);
+    req.data = p.data()?;
+    p.finish()?;
+    Ok((Job::Stratified(req), json))
+}
+
+/// `--design yes-no --value COL --group COL` or `--counts 42/300,61/310` (no file needed).
+fn yesno_job(args: &[String]) -> Result<(Job, bool), String> {
+    use crate::engine::binary::{parse_counts, YesNoInput, YesNoRequest, YesNoStatistic};
+    let mut p = Opts::parse(args)?;
+    let json = p.switch("--json");
+    let counts = p.take("--counts");
+    let (value, group) = (p.take("--value"), p.take("--group"));
+    let (first, second) = (p.take("--first"), p.take("--second"));
+    let input = match (counts, value, group) {
+        (Some(c), None, None) => YesNoInput::Counts {
+            groups: parse_counts(&c)?,
+        },
+        (None, Some(value), Some(group)) => YesNoInput::Table {
+            value,
+            group,
+            first,
+            second,
+        },
+        _ => {
+            return Err(
+                "The yes-no design needs --value COL --group COL (a column of yes/no outcomes \
+                 and a column of group labels) or --counts 42/300,61/310."
+                    .into(),
+            )
+        }
+    };
+    let from_counts = matches!(input, YesNoInput::Counts { .. });
+    let mut req = YesNoRequest::new(String::new(), input, 0);
+    if let Some(st) = p.choice(
+        "--statistic",
+        YesNoStatistic::from_key,
+        "proportion-difference, risk-ratio or odds-ratio for this design",
+    )? {
+        req.statistic = st;
+    }
+    let t = TestOpts::read(&mut p)?;
+    req.header = t.header;
+    t.apply(&mut req.settings);
+    if !from_counts || p.file.is_some() {
+        req.data = p.data()?;
+    }
+    p.finish()?;
+    Ok((Job::YesNo(req), json))
 }
 
 /// `reshuffle link FILE [analyze options] [--base URL]`: the share link of an analysis.
@@ -657,8 +729,8 @@ fn link_command(args: &[String], out: &mut dyn std::io::Write) -> Result<(), Str
         }
         i += 1;
     }
-    let (req, _) = request_from_args(&rest, &mut |f| read_data(f))?;
-    let l = crate::engine::link::link(&base, &Job::Compare(req));
+    let (job, _) = job_from_args(&rest)?;
+    let l = crate::engine::link::link(&base, &job);
     if l.len() > crate::engine::link::LONG_LINK {
         let _ = writeln!(
             std::io::stderr(),

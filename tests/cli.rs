@@ -267,7 +267,10 @@ fn paired_and_one_sample_designs() {
         "yes-no",
     ]);
     assert_ne!(code, 0);
-    assert!(err.contains("not available yet"), "{err}");
+    assert!(
+        err.contains("needs --value COL --group COL") && err.contains("--counts"),
+        "{err}"
+    );
     // --design two-groups is the default and keeps --html.
     let (code, out, _) = reshuffle(&[
         "analyze",

@@ -356,6 +356,7 @@ pub fn histogram(values: &[f64], marks: &[f64], bins: usize) -> Histogram {
         return Histogram {
             edges: vec![],
             counts: vec![],
+            weights: None,
         };
     }
     if hi - lo <= 0.0 {
@@ -382,7 +383,11 @@ pub fn histogram(values: &[f64], marks: &[f64], bins: usize) -> Histogram {
         let i = (((v - lo) / width).max(0.0) as usize).min(bins - 1);
         counts[i] += 1;
     }
-    Histogram { edges, counts }
+    Histogram {
+        edges,
+        counts,
+        weights: None,
+    }
 }
 
 /// The part of the null distribution counted toward the p-value, for the plot: the side of

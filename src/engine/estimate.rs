@@ -418,15 +418,13 @@ fn zero_one(t: &Table, col: &str, notes: &mut Vec<String>) -> Result<Vec<f64>, T
     let mut out = Vec::new();
     let mut missing = 0;
     for cell in &c.cells {
-        let s = cell.text.trim().to_ascii_lowercase();
-        let v = match s.as_str() {
-            "" | "na" | "n/a" => {
+        let v = match table::read_yes_no(&cell.text) {
+            Some(None) => {
                 missing += 1;
                 continue;
             }
-            "1" | "yes" | "y" | "true" | "pass" | "success" => 1.0,
-            "0" | "no" | "n" | "false" | "fail" | "failure" => 0.0,
-            _ => {
+            Some(Some(yes)) => f64::from(u8::from(yes)),
+            None => {
                 return Err(TableError(format!(
                     "Line {} of column \"{col}\" holds \"{}\"; a proportion needs 0/1, yes/no, \
                      true/false or pass/fail values.",

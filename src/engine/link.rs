@@ -77,12 +77,7 @@ pub fn decode(text: &str) -> Result<Job, String> {
     })?;
     let job: Job = serde_json::from_slice(&json)
         .map_err(|e| format!("The link's contents could not be read as an analysis ({e}). It may come from another version of Reshuffle."))?;
-    let v = match &job {
-        Job::Compare(r) => r.format_version,
-        Job::Estimate(r) => r.format_version,
-        Job::Paired(r) => r.format_version,
-        Job::Association(r) => r.format_version,
-    };
+    let v = job.format_version();
     if v != FORMAT_VERSION {
         return Err(format!(
             "This link holds an analysis in format version {v}; this page reads version {FORMAT_VERSION}."
@@ -94,11 +89,13 @@ pub fn decode(text: &str) -> Result<Job, String> {
 /// The same job without its data, for a settings-only link.
 pub fn without_data(job: &Job) -> Job {
     let mut j = job.clone();
-    match &mut j {
-        Job::Compare(r) => r.data.clear(),
-        Job::Estimate(r) => r.data.clear(),
-        Job::Paired(r) => r.data.clear(),
-        Job::Association(r) => r.data.clear(),
+    j.data_mut().clear();
+    if let Job::YesNo(r) = &mut j {
+        if let super::binary::YesNoInput::Counts { groups } = &mut r.input {
+            for g in groups {
+                (g.yes, g.n) = (0, 0);
+            }
+        }
     }
     j
 }

@@ -2,10 +2,12 @@
 
 pub mod analysis;
 pub mod assoc;
+pub mod binary;
 pub mod boot;
 pub mod classical;
 pub mod combin;
 pub mod design;
+pub mod document;
 pub mod estimate;
 pub mod finding;
 pub mod format;
@@ -23,6 +25,7 @@ pub mod rng;
 pub mod signflip;
 pub mod stats;
 pub mod strata;
+pub mod suggest;
 pub mod table;
 
 pub use analysis::{run, RunError};

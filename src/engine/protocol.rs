@@ -378,6 +378,20 @@ pub struct Histogram {
     /// Bin edges, one more than the counts.
     pub edges: Vec<f64>,
     pub counts: Vec<u64>,
+    /// Probabilities instead of counts, for an exact distribution given as probabilities
+    /// (the tables of a yes/no comparison); None when the bars are counts.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub weights: Option<Vec<f64>>,
+}
+
+impl Histogram {
+    /// The height of each bar: its probability, or its count.
+    pub fn heights(&self) -> Vec<f64> {
+        match &self.weights {
+            Some(w) => w.clone(),
+            None => self.counts.iter().map(|&c| c as f64).collect(),
+        }
+    }
 }
 
 /// The part of the null distribution counted toward the p-value: values <= `low` and/or
@@ -459,6 +473,97 @@ pub enum Job {
     Estimate(super::estimate::EstimateRequest),
     Paired(super::paired::PairedRequest),
     Association(super::assoc::AssocRequest),
+    KGroups(super::kgroups::KGroupsRequest),
+    Stratified(super::strata::StrataRequest),
+    YesNo(super::binary::YesNoRequest),
+}
+
+/// The report of any job.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "job", content = "report", rename_all = "kebab-case")]
+pub enum AnyReport {
+    Compare(Report),
+    Estimate(super::estimate::EstimateReport),
+    Paired(super::paired::PairedReport),
+    Association(super::assoc::AssocReport),
+    KGroups(super::kgroups::KGroupsReport),
+    Stratified(super::strata::StrataReport),
+    YesNo(super::binary::YesNoReport),
+}
+
+impl Job {
+    /// Runs the job with the engine.
+    pub fn run(
+        &self,
+        progress: super::analysis::ProgressFn,
+    ) -> Result<AnyReport, super::analysis::RunError> {
+        Ok(match self {
+            Job::Compare(r) => AnyReport::Compare(super::analysis::run(r, progress)?),
+            Job::Estimate(r) => AnyReport::Estimate(super::estimate::run(r, progress)?),
+            Job::Paired(r) => AnyReport::Paired(super::paired::run(r, progress)?),
+            Job::Association(r) => AnyReport::Association(super::assoc::run(r, progress)?),
+            Job::KGroups(r) => AnyReport::KGroups(super::kgroups::run(r, progress)?),
+            Job::Stratified(r) => AnyReport::Stratified(super::strata::run(r, progress)?),
+            Job::YesNo(r) => AnyReport::YesNo(super::binary::run(r, progress)?),
+        })
+    }
+
+    pub fn format_version(&self) -> u32 {
+        match self {
+            Job::Compare(r) => r.format_version,
+            Job::Estimate(r) => r.format_version,
+            Job::Paired(r) => r.format_version,
+            Job::Association(r) => r.format_version,
+            Job::KGroups(r) => r.format_version,
+            Job::Stratified(r) => r.format_version,
+            Job::YesNo(r) => r.format_version,
+        }
+    }
+
+    pub fn seed(&self) -> u64 {
+        match self {
+            Job::Compare(r) => r.seed,
+            Job::Estimate(r) => r.seed,
+            Job::Paired(r) => r.seed,
+            Job::Association(r) => r.seed,
+            Job::KGroups(r) => r.settings.seed,
+            Job::Stratified(r) => r.settings.seed,
+            Job::YesNo(r) => r.settings.seed,
+        }
+    }
+
+    /// The pasted table the job reads.
+    pub fn data(&self) -> &str {
+        match self {
+            Job::Compare(r) => &r.data,
+            Job::Estimate(r) => &r.data,
+            Job::Paired(r) => &r.data,
+            Job::Association(r) => &r.data,
+            Job::KGroups(r) => &r.data,
+            Job::Stratified(r) => &r.data,
+            Job::YesNo(r) => &r.data,
+        }
+    }
+
+    pub fn data_mut(&mut self) -> &mut String {
+        match self {
+            Job::Compare(r) => &mut r.data,
+            Job::Estimate(r) => &mut r.data,
+            Job::Paired(r) => &mut r.data,
+            Job::Association(r) => &mut r.data,
+            Job::KGroups(r) => &mut r.data,
+            Job::Stratified(r) => &mut r.data,
+            Job::YesNo(r) => &mut r.data,
+        }
+    }
+
+    /// Whether the job carries what it analyses (a settings-only link does not).
+    pub fn has_data(&self) -> bool {
+        match self {
+            Job::YesNo(r) if matches!(r.input, super::binary::YesNoInput::Counts { .. }) => true,
+            j => !j.data().trim().is_empty(),
+        }
+    }
 }
 
 /// Messages from the worker to the page.
@@ -469,16 +574,7 @@ pub enum WorkerMessage {
     Ready,
     Progress(Progress),
     Done {
-        report: Box<Report>,
-    },
-    Estimated {
-        report: Box<super::estimate::EstimateReport>,
-    },
-    PairedDone {
-        report: Box<super::paired::PairedReport>,
-    },
-    AssociationDone {
-        report: Box<super::assoc::AssocReport>,
+        report: Box<AnyReport>,
     },
     Failed {
         message: String,

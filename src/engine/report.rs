@@ -330,7 +330,7 @@ h1{color:#1d5c63;font-size:1.5rem}table{border-collapse:collapse;margin:1rem 0}t
 figure{margin:1rem 0;break-inside:avoid}figcaption{color:#4a5058;font-size:.9rem}.cautions{border:1px solid #c9b458;background:#fff8e1;padding:.5rem 1rem}\
 .headline{font-weight:600;font-size:1.1rem}@media print{body{margin:0}}";
 
-fn html_page(title: &str, body: &str) -> String {
+pub(crate) fn html_page(title: &str, body: &str) -> String {
     format!(
         "<!doctype html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; img-src data:\"><title>{}</title><style>{REPORT_STYLE}</style></head><body>{body}</body></html>\n",
         escape(title)

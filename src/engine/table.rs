@@ -90,6 +90,39 @@ pub fn read_value(text: &str, decimal_comma: bool) -> Value {
     Value::Text
 }
 
+/// Words read as a yes (1) and a no (0) outcome, compared case-insensitively.
+pub const YES_WORDS: [&str; 6] = ["1", "yes", "y", "true", "pass", "success"];
+pub const NO_WORDS: [&str; 6] = ["0", "no", "n", "false", "fail", "failure"];
+
+/// Reads one cell as a yes/no outcome: Some(Some(true)) for a yes, Some(Some(false)) for a
+/// no, Some(None) for a blank or NA cell, None for anything else.
+pub fn read_yes_no(text: &str) -> Option<Option<bool>> {
+    let t = text.trim();
+    if t.is_empty() || MISSING_MARKERS.iter().any(|m| t.eq_ignore_ascii_case(m)) {
+        return Some(None);
+    }
+    if YES_WORDS.iter().any(|w| t.eq_ignore_ascii_case(w)) || t == "1.0" {
+        Some(Some(true))
+    } else if NO_WORDS.iter().any(|w| t.eq_ignore_ascii_case(w)) || t == "0.0" {
+        Some(Some(false))
+    } else {
+        None
+    }
+}
+
+/// Whether every filled cell of a column reads as yes/no (and at least one is filled).
+pub fn is_yes_no(col: &Column) -> bool {
+    let mut any = false;
+    for c in &col.cells {
+        match read_yes_no(&c.text) {
+            None => return false,
+            Some(Some(_)) => any = true,
+            Some(None) => {}
+        }
+    }
+    any
+}
+
 /// Why a table could not be read.
 #[derive(Clone, Debug, PartialEq)]
 pub struct TableError(pub String);

@@ -9,21 +9,27 @@ use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
 
 use crate::engine::assoc::{AssocReport, AssocRequest, AssocStatistic};
+use crate::engine::binary::{parse_counts, YesNoInput, YesNoRequest, YesNoStatistic};
+use crate::engine::design::TestSettings;
+use crate::engine::document::Doc;
 use crate::engine::estimate::{Estimate, EstimateLayout, EstimateReport, EstimateRequest, Kind};
 use crate::engine::finding;
 use crate::engine::format as fmt;
 use crate::engine::groups;
+use crate::engine::kgroups::{KGroupsRequest, KStatistic};
 use crate::engine::link;
 use crate::engine::paired::{PairedLayout, PairedReport, PairedRequest};
 use crate::engine::plot;
 use crate::engine::protocol::*;
 use crate::engine::report;
 use crate::engine::signflip::FlipStatistic;
+use crate::engine::strata::{StrataRequest, StrataWeights};
+use crate::engine::suggest;
 use crate::engine::table::{self, ColumnKind, HeaderChoice};
 use crate::web::share;
 
 /// Invented example tables, built into the page so it works without fetching anything.
-const EXAMPLES: [(&str, &str, &str); 2] = [
+const EXAMPLES: [(&str, &str, &str); 5] = [
     (
         "tomato",
         "Tomato yield, drip vs sprinkler irrigation (invented)",
@@ -33,6 +39,21 @@ const EXAMPLES: [(&str, &str, &str); 2] = [
         "desks",
         "Minutes per ticket at two service desks (invented)",
         include_str!("../../demo-data/service-desk-minutes.tsv"),
+    ),
+    (
+        "adhesives",
+        "Shear strength of joints with four adhesives (invented)",
+        include_str!("../../demo-data/adhesive-shear-strength.csv"),
+    ),
+    (
+        "coatings",
+        "Coating wear on four production lines (invented)",
+        include_str!("../../demo-data/coating-wear-by-line.csv"),
+    ),
+    (
+        "seeds",
+        "Seed germination after two kinds of storage (invented)",
+        include_str!("../../demo-data/seed-germination.csv"),
     ),
 ];
 
@@ -59,10 +80,7 @@ enum Status {
 #[derive(Clone, Copy)]
 struct Sinks {
     status: RwSignal<Status>,
-    report: RwSignal<Option<Report>>,
-    estimated: RwSignal<Option<EstimateReport>>,
-    paired_report: RwSignal<Option<PairedReport>>,
-    assoc_report: RwSignal<Option<AssocReport>>,
+    result: RwSignal<Option<AnyReport>>,
 }
 
 struct WorkerHandle {
@@ -109,19 +127,7 @@ fn spawn_worker(sinks: Sinks) -> Result<(), String> {
                     total: p.total,
                 }),
                 Ok(WorkerMessage::Done { report }) => {
-                    sinks.report.set(Some(*report));
-                    sinks.status.set(Status::Done);
-                }
-                Ok(WorkerMessage::Estimated { report }) => {
-                    sinks.estimated.set(Some(*report));
-                    sinks.status.set(Status::Done);
-                }
-                Ok(WorkerMessage::PairedDone { report }) => {
-                    sinks.paired_report.set(Some(*report));
-                    sinks.status.set(Status::Done);
-                }
-                Ok(WorkerMessage::AssociationDone { report }) => {
-                    sinks.assoc_report.set(Some(*report));
+                    sinks.result.set(Some(*report));
                     sinks.status.set(Status::Done);
                 }
                 Ok(WorkerMessage::Failed { message }) => sinks.status.set(Status::Failed(message)),
@@ -235,6 +241,44 @@ fn parse_count(label: &str, text: &str) -> Result<u64, String> {
         .map_err(|_| format!("{label}: \"{text}\" is not a whole number."))
 }
 
+/// A two-group request carrying a design's shared settings, for restoring the page.
+fn settings_request(data: &str, header: HeaderChoice, st: &TestSettings) -> Request {
+    let mut b = Request::new(data.to_string(), st.seed);
+    b.header = header;
+    b.confidence = st.confidence;
+    b.bootstrap_resamples = st.bootstrap_resamples;
+    b.resamples = st.resamples;
+    b.exact_limit = st.exact_limit;
+    b
+}
+
+/// The shape of a table (column names and kinds), to notice when a different table arrives.
+fn shape_of(data: &str, header: HeaderChoice) -> String {
+    match table::parse(data, header) {
+        Ok(t) => t
+            .columns
+            .iter()
+            .map(|c| format!("{}:{}", c.name, kind_label(&c.kind)))
+            .collect::<Vec<_>>()
+            .join("|"),
+        Err(_) => String::new(),
+    }
+}
+
+/// The design names as the page shows them.
+fn design_label(key: &str) -> &'static str {
+    match key {
+        "two-groups" => "two independent groups",
+        "paired" => "paired measurements",
+        "one-sample" => "one sample against a reference value",
+        "k-groups" => "three or more groups",
+        "association" => "association between two numeric columns",
+        "stratified" => "two groups within strata",
+        "yes-no" => "yes/no outcomes in two groups",
+        _ => "another design",
+    }
+}
+
 #[component]
 fn App() -> impl IntoView {
     // Step 1: the data.
@@ -272,30 +316,36 @@ fn App() -> impl IntoView {
     let est_methods = RwSignal::new("all".to_string());
     // Step 3: the findings.
     let status = RwSignal::new(Status::Idle);
-    let report = RwSignal::new(None::<Report>);
-    let estimated = RwSignal::new(None::<EstimateReport>);
-    let paired_report = RwSignal::new(None::<PairedReport>);
-    let assoc_report = RwSignal::new(None::<AssocReport>);
+    let result = RwSignal::new(None::<AnyReport>);
     let last_job = RwSignal::new(None::<Job>);
-    let sinks = Sinks {
-        status,
-        report,
-        estimated,
-        paired_report,
-        assoc_report,
-    };
+    let sinks = Sinks { status, result };
     // Designs of the comparison: two independent groups, paired columns, one sample.
     let design = RwSignal::new("two-groups".to_string());
     let reference = RwSignal::new("0".to_string());
     let flip_stat = RwSignal::new(FlipStatistic::Mean);
     let assoc_stat = RwSignal::new(AssocStatistic::Pearson);
-    let shown = Memo::new(move |_| -> Option<Shown> {
-        match (mode.get().as_str(), design.get().as_str()) {
-            ("compare", "two-groups") => report.get().map(Shown::Compare),
-            ("compare", "association") => assoc_report.get().map(Shown::Assoc),
-            ("compare", _) => paired_report.get().map(Shown::Paired),
-            _ => estimated.get().map(Shown::Estimate),
-        }
+    // k groups, stratified and yes/no designs.
+    let k_columns = RwSignal::new(Vec::<String>::new());
+    let control = RwSignal::new(String::new());
+    let k_stat = RwSignal::new(KStatistic::F);
+    let strata_col = RwSignal::new(String::new());
+    let weights = RwSignal::new(StrataWeights::Size);
+    let yn_source = RwSignal::new("table".to_string());
+    let counts_text = RwSignal::new("control: 42/300, new: 61/310".to_string());
+    let yn_stat = RwSignal::new(YesNoStatistic::ProportionDifference);
+    // The shape (column names and kinds) of the table last seen, to notice a new table.
+    let shape_seen = RwSignal::new(String::new());
+    let suggestion_note = RwSignal::new(String::new());
+    let suggestion_alternatives = RwSignal::new(Vec::<String>::new());
+    // The result on screen: the last one, if it belongs to the question now chosen.
+    let shown = Memo::new(move |_| -> Option<AnyReport> {
+        let r = result.get()?;
+        let wanted = if mode.get() == "estimate" {
+            "estimate".to_string()
+        } else {
+            design.get()
+        };
+        (r.design() == wanted).then_some(r)
     });
 
     let parsed = Memo::new(move |_| {
@@ -338,6 +388,40 @@ fn App() -> impl IntoView {
             _ => false,
         }
     };
+    // Sets the design and its columns as a suggestion from the table's shape says.
+    let apply_suggestion = move |sg: &suggest::Suggestion| {
+        design.set(sg.design.clone());
+        if let (Some(v), Some(g)) = (&sg.value, &sg.group) {
+            layout_kind.set("long".into());
+            value_col.set(v.clone());
+            group_col.set(g.clone());
+        }
+        if let Some(st) = &sg.strata {
+            strata_col.set(st.clone());
+        }
+        if sg.design == "yes-no" {
+            yn_source.set("table".into());
+        }
+        if sg.design == "one-sample" {
+            if let Some(v) = &sg.value {
+                est_value.set(v.clone());
+            }
+        }
+        if sg.columns.len() >= 2 && sg.group.is_none() {
+            layout_kind.set("wide".into());
+            col_a.set(sg.columns[0].clone());
+            col_b.set(sg.columns[1].clone());
+            est_x.set(sg.columns[0].clone());
+            est_y.set(sg.columns[1].clone());
+            k_columns.set(sg.columns.clone());
+        }
+        suggestion_note.set(format!(
+            "Design set to {} from the table's shape: {}",
+            design_label(&sg.design),
+            sg.reason
+        ));
+        suggestion_alternatives.set(sg.alternatives.clone());
+    };
     // Choose sensible columns whenever the table changes and the choice no longer fits.
     Effect::new(move |_| {
         let Ok(view) = parsed.get() else { return };
@@ -358,6 +442,25 @@ fn App() -> impl IntoView {
         }
         if !est_strata.get_untracked().is_empty() && !names.contains(&est_strata.get_untracked()) {
             est_strata.set(String::new());
+        }
+        // A different table: suggest a design from its shape (a restored analysis has set
+        // `shape_seen` already and keeps its own design).
+        let shape = shape_of(&data.get_untracked(), header.get_untracked());
+        if shape != shape_seen.get_untracked() {
+            shape_seen.set(shape);
+            if let Ok(t) = table::parse(&data.get_untracked(), header.get_untracked()) {
+                if let Some(sg) = suggest::suggest(&t) {
+                    apply_suggestion(&sg);
+                    return;
+                }
+            }
+        }
+        let kc = k_columns.get_untracked();
+        if kc.len() < 3 || kc.iter().any(|c| !names.contains(c)) {
+            k_columns.set(numeric.clone());
+        }
+        if !strata_col.get_untracked().is_empty() && !names.contains(&strata_col.get_untracked()) {
+            strata_col.set(String::new());
         }
         let fits = match layout_kind.get_untracked().as_str() {
             "long" => {
@@ -380,7 +483,15 @@ fn App() -> impl IntoView {
 
     // The groups on offer: labels of the group column, or the two chosen columns.
     let levels = Memo::new(move |_| -> Vec<String> {
+        if mode.get() == "compare" && design.get() == "yes-no" && yn_source.get() == "counts" {
+            return parse_counts(&counts_text.get())
+                .map(|g| g.into_iter().map(|c| c.name).collect())
+                .unwrap_or_default();
+        }
         if layout_kind.get() == "wide" {
+            if mode.get() == "compare" && design.get() == "k-groups" {
+                return k_columns.get();
+            }
             return vec![col_a.get(), col_b.get()];
         }
         let Ok(t) = table::parse(&data.get(), header.get()) else {
@@ -418,6 +529,12 @@ fn App() -> impl IntoView {
         }
     });
 
+    // One-sided k-group comparisons need a control group.
+    Effect::new(move |_| {
+        if design.get() == "k-groups" && control.get().is_empty() {
+            alternative.set(Alternative::TwoSided);
+        }
+    });
     let interval_choice = RwSignal::new("bca".to_string());
     let methods_from = |choice: &str| -> Vec<IntervalMethod> {
         if choice == "all" {
@@ -496,6 +613,70 @@ fn App() -> impl IntoView {
                 r.confidence = base.confidence;
                 r.interval = base.interval;
                 return Ok(Job::Association(r));
+            }
+            let settings = TestSettings::from_request(&base);
+            if d == "k-groups" {
+                let layout = if layout_kind.get_untracked() == "long" {
+                    base.layout.clone()
+                } else {
+                    Layout::Wide {
+                        columns: k_columns.get_untracked(),
+                    }
+                };
+                let mut r = KGroupsRequest::new(base.data, layout, seed_value);
+                r.header = base.header;
+                r.statistic = k_stat.get_untracked();
+                r.control = Some(control.get_untracked()).filter(|c| !c.is_empty());
+                r.settings = settings;
+                return Ok(Job::KGroups(r));
+            }
+            if d == "stratified" {
+                if layout_kind.get_untracked() != "long" {
+                    return Err("A stratified comparison needs one column of values, one naming each row's group and one naming its stratum: in step 1 choose \"One column of values and one column naming each row's group\".".into());
+                }
+                if strata_col.get_untracked().is_empty() {
+                    return Err("Choose the column that names each row's stratum (site, batch or day), under Design.".into());
+                }
+                let mut r = StrataRequest::new(
+                    base.data,
+                    value_col.get_untracked(),
+                    group_col.get_untracked(),
+                    strata_col.get_untracked(),
+                    seed_value,
+                );
+                r.header = base.header;
+                r.first = base.first;
+                r.second = base.second;
+                r.weights = weights.get_untracked();
+                r.settings = settings;
+                return Ok(Job::Stratified(r));
+            }
+            if d == "yes-no" {
+                let input = if yn_source.get_untracked() == "counts" {
+                    YesNoInput::Counts {
+                        groups: parse_counts(&counts_text.get_untracked())?,
+                    }
+                } else {
+                    if layout_kind.get_untracked() != "long" {
+                        return Err("Yes/no outcomes in a table need one column of outcomes and one naming each row's group: in step 1 choose \"One column of values and one column naming each row's group\", or type the counts instead.".into());
+                    }
+                    YesNoInput::Table {
+                        value: value_col.get_untracked(),
+                        group: group_col.get_untracked(),
+                        first: base.first.clone(),
+                        second: base.second.clone(),
+                    }
+                };
+                let data = if matches!(input, YesNoInput::Counts { .. }) {
+                    String::new()
+                } else {
+                    base.data
+                };
+                let mut r = YesNoRequest::new(data, input, seed_value);
+                r.header = base.header;
+                r.statistic = yn_stat.get_untracked();
+                r.settings = settings;
+                return Ok(Job::YesNo(r));
             }
             let layout = if d == "paired" {
                 if layout_kind.get_untracked() != "wide" {
@@ -647,13 +828,17 @@ fn App() -> impl IntoView {
             flip_stat.get(),
             assoc_stat.get(),
         );
-        let last_seed = match &last {
-            Job::Compare(r) => r.seed,
-            Job::Estimate(r) => r.seed,
-            Job::Paired(r) => r.seed,
-            Job::Association(r) => r.seed,
-        };
-        let s = parse_count("Seed", &seed.get()).unwrap_or(last_seed);
+        let _ = (
+            k_columns.get(),
+            control.get(),
+            k_stat.get(),
+            strata_col.get(),
+            weights.get(),
+            yn_source.get(),
+            counts_text.get(),
+            yn_stat.get(),
+        );
+        let s = parse_count("Seed", &seed.get()).unwrap_or(last.seed());
         match build_job(s) {
             Ok(now) => now != last,
             Err(_) => true,
@@ -690,7 +875,21 @@ fn App() -> impl IntoView {
                 b.resamples = r.resamples;
                 (b, r.seed)
             }
+            Job::KGroups(r) => (
+                settings_request(&r.data, r.header, &r.settings),
+                r.settings.seed,
+            ),
+            Job::Stratified(r) => (
+                settings_request(&r.data, r.header, &r.settings),
+                r.settings.seed,
+            ),
+            Job::YesNo(r) => (
+                settings_request(&r.data, r.header, &r.settings),
+                r.settings.seed,
+            ),
         };
+        // The restored table's shape is not a new table: keep the design the job names.
+        shape_seen.set(shape_of(&base.data, base.header));
         data.set(base.data.clone());
         example.set(String::new());
         header.set(base.header);
@@ -720,6 +919,14 @@ fn App() -> impl IntoView {
                     .key()
                     .to_string()
             }
+        };
+        let apply_settings = |st: &TestSettings| {
+            alternative.set(st.alternative);
+            two_sided.set(st.two_sided);
+            interval_choice.set(st.interval.key().to_string());
+            resamples.set(st.resamples.to_string());
+            exact_limit.set(st.exact_limit.to_string());
+            bootstrap.set(st.bootstrap_resamples.to_string());
         };
         match &job {
             Job::Association(r) => {
@@ -786,6 +993,71 @@ fn App() -> impl IntoView {
                 exact_limit.set(r.exact_limit.to_string());
                 bootstrap.set(r.bootstrap_resamples.to_string());
             }
+            Job::KGroups(r) => {
+                mode.set("compare".into());
+                design.set("k-groups".into());
+                apply_settings(&r.settings);
+                k_stat.set(r.statistic);
+                control.set(r.control.clone().unwrap_or_default());
+                match &r.layout {
+                    Layout::Wide { columns } => {
+                        layout_kind.set("wide".into());
+                        k_columns.set(columns.clone());
+                    }
+                    l => set_layout(l),
+                }
+            }
+            Job::Stratified(r) => {
+                mode.set("compare".into());
+                design.set("stratified".into());
+                apply_settings(&r.settings);
+                layout_kind.set("long".into());
+                value_col.set(r.value.clone());
+                group_col.set(r.group.clone());
+                strata_col.set(r.strata.clone());
+                weights.set(r.weights);
+                if let Some(f) = &r.first {
+                    first.set(f.clone());
+                }
+                if let Some(s2) = &r.second {
+                    second.set(s2.clone());
+                }
+            }
+            Job::YesNo(r) => {
+                mode.set("compare".into());
+                design.set("yes-no".into());
+                apply_settings(&r.settings);
+                yn_stat.set(r.statistic);
+                match &r.input {
+                    YesNoInput::Table {
+                        value,
+                        group,
+                        first: f,
+                        second: s2,
+                    } => {
+                        yn_source.set("table".into());
+                        layout_kind.set("long".into());
+                        value_col.set(value.clone());
+                        group_col.set(group.clone());
+                        if let Some(f) = f {
+                            first.set(f.clone());
+                        }
+                        if let Some(s2) = s2 {
+                            second.set(s2.clone());
+                        }
+                    }
+                    YesNoInput::Counts { groups } => {
+                        yn_source.set("counts".into());
+                        counts_text.set(
+                            groups
+                                .iter()
+                                .map(|g| format!("{}: {}/{}", g.name, g.yes, g.n))
+                                .collect::<Vec<_>>()
+                                .join(", "),
+                        );
+                    }
+                }
+            }
             Job::Estimate(r) => {
                 mode.set("estimate".into());
                 est_kind.set(r.estimate);
@@ -825,12 +1097,7 @@ fn App() -> impl IntoView {
         confidence.set(format!("{}", (base.confidence * 1e6).round() / 1e4));
         seed.set(seed_value.to_string());
     };
-    let has_data = move |job: &Job| match job {
-        Job::Compare(r) => !r.data.trim().is_empty(),
-        Job::Estimate(r) => !r.data.trim().is_empty(),
-        Job::Paired(r) => !r.data.trim().is_empty(),
-        Job::Association(r) => !r.data.trim().is_empty(),
-    };
+    let has_data = move |job: &Job| job.has_data();
     // Open the analysis in the address, if any.
     let opened_from_link = {
         let frag = share::fragment();
@@ -946,7 +1213,7 @@ fn App() -> impl IntoView {
     view! {
         <header class="masthead">
             <h1>"Reshuffle"</h1>
-            <p class="tagline">"Compare two groups by relabelling and resampling — computed in this browser tab."</p>
+            <p class="tagline">"Compare groups, pairs and yes/no outcomes by relabelling and resampling — computed in this browser tab."</p>
         </header>
         <main>
             <section class="step" aria-labelledby="step-data">
@@ -1078,7 +1345,7 @@ fn App() -> impl IntoView {
                     <label class="choice">
                         <input type="radio" name="mode" value="compare" prop:checked=move || mode.get() == "compare"
                             on:change=move |_| mode.set("compare".into())/>
-                        "Whether two groups differ, and by how much (permutation test and interval)"
+                        "Whether groups differ or two variables are associated, and by how much (permutation test and interval)"
                     </label>
                     <label class="choice">
                         <input type="radio" name="mode" id="mode-estimate" value="estimate" prop:checked=move || mode.get() == "estimate"
@@ -1164,7 +1431,127 @@ fn App() -> impl IntoView {
                         <option value="paired" selected=move || design.get() == "paired">"paired: each unit measured twice (one column per measurement)"</option>
                         <option value="one-sample" selected=move || design.get() == "one-sample">"one sample against a reference value"</option>
                         <option value="association" selected=move || design.get() == "association">"association between two numeric columns"</option>
+                        <option value="k-groups" selected=move || design.get() == "k-groups">"three or more independent groups"</option>
+                        <option value="stratified" selected=move || design.get() == "stratified">"two groups compared within strata (site, batch, day)"</option>
+                        <option value="yes-no" selected=move || design.get() == "yes-no">"yes/no outcomes in two groups"</option>
                     </select>
+                </div>
+                <div class="suggestion" id="suggestion" aria-live="polite" style:display=move || if mode.get() == "compare" && !suggestion_note.get().is_empty() { "block" } else { "none" }>
+                    <p class="hint">{move || suggestion_note.get()}</p>
+                    {move || {
+                        let alts = suggestion_alternatives.get();
+                        (!alts.is_empty()).then(|| view! {
+                            <div class="share-buttons" role="group" aria-label="Other designs that fit this table">
+                                <span class="hint">"Or is it: "</span>
+                                {alts.into_iter().map(|a| {
+                                    let a2 = a.clone();
+                                    view! {
+                                        <button type="button" class="secondary" data-design=a.clone()
+                                            on:click=move |_| design.set(a2.clone())>{design_label(&a)}</button>
+                                    }
+                                }).collect_view()}
+                            </div>
+                        })
+                    }}
+                </div>
+                <div class="design-options" id="k-options" style:display=move || if mode.get() == "compare" && design.get() == "k-groups" { "block" } else { "none" }>
+                    <fieldset style:display=move || if layout_kind.get() == "wide" { "block" } else { "none" }>
+                        <legend>"Groups (one column each)"</legend>
+                        {move || column_options().into_iter().filter(|(_, k)| matches!(k, ColumnKind::Number | ColumnKind::NumberWithText)).map(|(name, _)| {
+                            let (n2, n3) = (name.clone(), name.clone());
+                            view! {
+                                <label class="choice inline">
+                                    <input type="checkbox" value=name.clone()
+                                        prop:checked=move || k_columns.get().contains(&n2)
+                                        on:change=move |ev| {
+                                            let on = event_target_checked(&ev);
+                                            k_columns.update(|v| {
+                                                v.retain(|c| *c != n3);
+                                                if on { v.push(n3.clone()) }
+                                            });
+                                        }/>
+                                    {name}
+                                </label>
+                            }
+                        }).collect_view()}
+                    </fieldset>
+                    <div class="row">
+                        <label for="k-stat">"Measure the differences by"</label>
+                        <select id="k-stat" on:change=move |ev| {
+                            if let Some(x) = KStatistic::from_key(&event_target_value(&ev)) { k_stat.set(x) }
+                        }>
+                            <option value="f" selected=move || k_stat.get() == KStatistic::F>"F statistic (spread of the group means)"</option>
+                            <option value="welch-f" selected=move || k_stat.get() == KStatistic::WelchF>"Welch F (allows unequal spreads)"</option>
+                            <option value="median-spread" selected=move || k_stat.get() == KStatistic::MedianSpread>"spread of the group medians"</option>
+                        </select>
+                        <label for="control">"Follow-up comparisons"</label>
+                        <select id="control" on:change=move |ev| control.set(event_target_value(&ev))>
+                            <option value="" selected=move || control.get().is_empty()>"every pair of groups"</option>
+                            {move || levels.get().into_iter().map(|l| {
+                                let (l2, l3) = (l.clone(), l.clone());
+                                view! { <option value=l3 selected=move || control.get() == l2>{format!("each group against {l}")}</option> }
+                            }).collect_view()}
+                        </select>
+                    </div>
+                </div>
+                <div class="design-options" id="strata-options" style:display=move || if mode.get() == "compare" && design.get() == "stratified" { "block" } else { "none" }>
+                    <div class="row">
+                        <label for="strata-col">"Strata (site, batch, day) in column"</label>
+                        <select id="strata-col" on:change=move |ev| strata_col.set(event_target_value(&ev))>
+                            <option value="" selected=move || strata_col.get().is_empty()>"(choose a column)"</option>
+                            {move || column_options().into_iter().map(|(name, kind)| {
+                                let (n2, n3) = (name.clone(), name.clone());
+                                let label = format!("{name} ({})", kind_label(&kind));
+                                view! { <option value=n3 selected=move || strata_col.get() == n2>{label}</option> }
+                            }).collect_view()}
+                        </select>
+                        <label for="weights">"Average the stratum differences"</label>
+                        <select id="weights" on:change=move |ev| {
+                            if let Some(w) = StrataWeights::from_key(&event_target_value(&ev)) { weights.set(w) }
+                        }>
+                            <option value="size" selected=move || weights.get() == StrataWeights::Size>"weighted by stratum size"</option>
+                            <option value="precision" selected=move || weights.get() == StrataWeights::Precision>"weighted for precision: n1·n2/(n1 + n2)"</option>
+                        </select>
+                    </div>
+                    <p class="hint">"Labels are shuffled only within each stratum. When the strata differ in level and the groups are spread unevenly over them, ignoring the strata mixes the strata's difference into the groups' difference and can even reverse its sign; comparing within strata removes it. The findings show the difference with the strata ignored, for contrast."</p>
+                </div>
+                <div class="design-options" id="yes-no-options" style:display=move || if mode.get() == "compare" && design.get() == "yes-no" { "block" } else { "none" }>
+                    <fieldset>
+                        <legend>"Where are the outcomes?"</legend>
+                        <label class="choice">
+                            <input type="radio" name="yn-source" value="table" prop:checked=move || yn_source.get() == "table"
+                                on:change=move |_| yn_source.set("table".into())/>
+                            "In the table: the values column holds 1/0, yes/no, true/false or pass/fail, the groups column names each row's group"
+                        </label>
+                        <label class="choice">
+                            <input type="radio" name="yn-source" value="counts" id="yn-counts-choice" prop:checked=move || yn_source.get() == "counts"
+                                on:change=move |_| yn_source.set("counts".into())/>
+                            "As counts: yes answers out of each group's size"
+                        </label>
+                    </fieldset>
+                    <div class="row" style:display=move || if yn_source.get() == "counts" { "flex" } else { "none" }>
+                        <label for="counts">"Counts"</label>
+                        <input id="counts" size="36" prop:value=move || counts_text.get()
+                            on:input=move |ev| counts_text.set(event_target_value(&ev))/>
+                        <span class="hint">"e.g. control: 42/300, new: 61/310"</span>
+                    </div>
+                    <p class="error" role="alert" id="counts-error">{move || {
+                        if design.get() == "yes-no" && yn_source.get() == "counts" {
+                            parse_counts(&counts_text.get()).err().unwrap_or_default()
+                        } else {
+                            String::new()
+                        }
+                    }}</p>
+                    <div class="row">
+                        <label for="yn-stat">"Measure the difference by"</label>
+                        <select id="yn-stat" on:change=move |ev| {
+                            if let Some(x) = YesNoStatistic::from_key(&event_target_value(&ev)) { yn_stat.set(x) }
+                        }>
+                            <option value="proportion-difference" selected=move || yn_stat.get() == YesNoStatistic::ProportionDifference>"difference in proportions"</option>
+                            <option value="risk-ratio" selected=move || yn_stat.get() == YesNoStatistic::RiskRatio>"risk ratio"</option>
+                            <option value="odds-ratio" selected=move || yn_stat.get() == YesNoStatistic::OddsRatio>"odds ratio"</option>
+                        </select>
+                    </div>
                 </div>
                 <div class="row" style:display=move || if mode.get() == "compare" && design.get() == "association" { "flex" } else { "none" }>
                     <label for="assoc-x">"x"</label>
@@ -1199,7 +1586,7 @@ fn App() -> impl IntoView {
                         <option value="median">"median"</option>
                     </select>
                 </div>
-                <div class="row" style:display=move || if (mode.get() == "compare" && (design.get() == "two-groups" || design.get() == "paired")) || (mode.get() == "estimate" && est_kind.get().kind() == Kind::Two) { "flex" } else { "none" }>
+                <div class="row" style:display=move || if (mode.get() == "compare" && (matches!(design.get().as_str(), "two-groups" | "paired" | "stratified") || (design.get() == "yes-no" && yn_source.get() == "table"))) || (mode.get() == "estimate" && est_kind.get().kind() == Kind::Two) { "flex" } else { "none" }>
                     <label for="first">"Compare"</label>
                     <select id="first" on:change=move |ev| first.set(event_target_value(&ev))>
                         {move || levels.get().into_iter().map(|l| {
@@ -1231,10 +1618,39 @@ fn App() -> impl IntoView {
                     <legend>"Which answer are you after?"</legend>
                     {move || {
                         let (f, s) = (first.get(), second.get());
-                        let questions = match design.get().as_str() {
+                        let questions: Vec<(Alternative, String)> = match design.get().as_str() {
+                            "k-groups" => match Some(control.get()).filter(|c| !c.is_empty()) {
+                                None => vec![(Alternative::TwoSided, "Do the groups differ, and which pairs differ, in either direction?".to_string())],
+                                Some(c) => vec![
+                                    (Alternative::TwoSided, format!("Do the groups differ, and which differ from {c}, in either direction?")),
+                                    (Alternative::Greater, format!("Which groups are higher than {c}?")),
+                                    (Alternative::Less, format!("Which groups are lower than {c}?")),
+                                ],
+                            },
+                            "stratified" => {
+                                let st = strata_col.get();
+                                vec![
+                                    (Alternative::TwoSided, format!("Do {f} and {s} differ within strata of {st}, in either direction?")),
+                                    (Alternative::Greater, format!("Is {f} higher than {s} within strata of {st}?")),
+                                    (Alternative::Less, format!("Is {f} lower than {s} within strata of {st}?")),
+                                ]
+                            }
+                            "yes-no" => {
+                                let lv = levels.get();
+                                let (f, s) = if yn_source.get() == "counts" && lv.len() == 2 {
+                                    (lv[0].clone(), lv[1].clone())
+                                } else {
+                                    (f.clone(), s.clone())
+                                };
+                                vec![
+                                    (Alternative::TwoSided, format!("Is a yes more or less common in {f} than in {s}?")),
+                                    (Alternative::Greater, format!("Is a yes more common in {f} than in {s}?")),
+                                    (Alternative::Less, format!("Is a yes less common in {f} than in {s}?")),
+                                ]
+                            }
                             "one-sample" => {
                                 let (v, r) = (est_value.get(), reference.get());
-                                [
+                                vec![
                                     (Alternative::TwoSided, format!("Is the centre of {v} different from {r}, in either direction?")),
                                     (Alternative::Greater, format!("Is the centre of {v} above {r}?")),
                                     (Alternative::Less, format!("Is the centre of {v} below {r}?")),
@@ -1242,18 +1658,18 @@ fn App() -> impl IntoView {
                             }
                             "association" => {
                                 let (x, y) = (est_x.get(), est_y.get());
-                                [
+                                vec![
                                     (Alternative::TwoSided, format!("Are {x} and {y} associated, in either direction?")),
                                     (Alternative::Greater, format!("Does {y} tend to rise with {x}?")),
                                     (Alternative::Less, format!("Does {y} tend to fall as {x} rises?")),
                                 ]
                             }
-                            "paired" => [
+                            "paired" => vec![
                                 (Alternative::TwoSided, format!("Do {f} and {s} differ within units, in either direction?")),
                                 (Alternative::Greater, format!("Is {f} higher than {s} within units?")),
                                 (Alternative::Less, format!("Is {f} lower than {s} within units?")),
                             ],
-                            _ => [
+                            _ => vec![
                                 (Alternative::TwoSided, format!("Do {f} and {s} differ, in either direction?")),
                                 (Alternative::Greater, format!("Is {f} higher than {s}?")),
                                 (Alternative::Less, format!("Is {f} lower than {s}?")),
@@ -1326,7 +1742,16 @@ fn App() -> impl IntoView {
                         Status::Starting => view! { <p class="hint">"Starting…"</p> }.into_any(),
                         Status::Running { stage, done, total } => {
                             let pct = if total > 0 { done as f64 / total as f64 * 100.0 } else { 0.0 };
-                            let what = if stage == "bootstrap" { "Bootstrap resamples" } else { "Relabellings" };
+                            let what = match stage.as_str() {
+                                "bootstrap" => "Bootstrap resamples".to_string(),
+                                "relabelling" => "Relabellings".to_string(),
+                                "sign patterns" => "Sign patterns".to_string(),
+                                "pairings" => "Pairings".to_string(),
+                                other => {
+                                    let mut c = other.chars();
+                                    c.next().map(|f| f.to_uppercase().chain(c).collect()).unwrap_or_default()
+                                }
+                            };
                             view! {
                                 <div class="progress">
                                     <label for="progress">{format!("{what}: {} of {}", fmt::count(done), fmt::count(total))}</label>
@@ -1343,10 +1768,11 @@ fn App() -> impl IntoView {
                     <p class="stale">"The settings have changed since these findings were computed; run the analysis again to update them."</p>
                 })}
                 {move || shown.get().map(|sh| match sh {
-                    Shown::Compare(r) => view! { <Findings report=r/> }.into_any(),
-                    Shown::Estimate(r) => view! { <EstimateFindings report=r/> }.into_any(),
-                    Shown::Paired(r) => view! { <PairedFindings report=r/> }.into_any(),
-                    Shown::Assoc(r) => view! { <AssocFindings report=r/> }.into_any(),
+                    AnyReport::Compare(r) => view! { <Findings report=r/> }.into_any(),
+                    AnyReport::Estimate(r) => view! { <EstimateFindings report=r/> }.into_any(),
+                    AnyReport::Paired(r) => view! { <PairedFindings report=r/> }.into_any(),
+                    AnyReport::Association(r) => view! { <AssocFindings report=r/> }.into_any(),
+                    other => view! { <DocFindings report=other/> }.into_any(),
                 })}
                 {move || shown.get().is_some().then(|| view! {
                     <div class="share" id="share">
@@ -1366,47 +1792,22 @@ fn App() -> impl IntoView {
                                 share_note.set("Findings copied as Markdown.".into());
                             }>"Copy as Markdown"</button>
                             <button type="button" class="secondary" id="download-report" on:click=move |_| {
-                                let h = match shown.get_untracked() {
-                                    Some(Shown::Compare(r)) => report::html(&r, &share::today()),
-                                    Some(Shown::Estimate(e)) => report::estimate_html(&e, &share::today()),
-                                    Some(Shown::Paired(p)) => report::paired_html(&p, &share::today()),
-                                    Some(Shown::Assoc(a)) => report::assoc_html(&a, &share::today()),
-                                    None => return,
-                                };
-                                let _ = share::download("reshuffle-report.html", "text/html", &h);
+                                if let Some(r) = shown.get_untracked() {
+                                    let _ = share::download("reshuffle-report.html", "text/html", &r.html(&share::today()));
+                                }
                             }>"Download report (HTML)"</button>
                             <button type="button" class="secondary" id="download-csv" on:click=move |_| {
-                                let sh = shown.get_untracked();
-                                if let Some(Shown::Compare(r)) = &sh {
-                                    let _ = share::download("reshuffle-results.csv", "text/csv", &report::results_csv(r));
-                                } else if let Some(Shown::Paired(p)) = &sh {
-                                    let opt = |v: Option<f64>| v.map_or(String::new(), |x| format!("{x:?}"));
-                                    let rows = vec![
-                                        vec!["observed".into(), format!("{:?}", p.observed)],
-                                        vec!["p_value".into(), format!("{:?}", p.p_value)],
-                                        vec!["ci_low".into(), opt(p.ci.low)],
-                                        vec!["ci_high".into(), opt(p.ci.high)],
-                                        vec!["t".into(), opt(p.t_test.t)],
-                                        vec!["t_p_value".into(), opt(p.t_test.p_value)],
-                                        vec!["wilcoxon_p_value".into(), opt(p.wilcoxon.p_value)],
-                                        vec!["dz".into(), opt(p.dz.estimate)],
-                                        vec!["seed".into(), p.seed.to_string()],
-                                    ];
-                                    let _ = share::download("reshuffle-results.csv", "text/csv", &report::csv_table(&["quantity", "value"], &rows));
-                                } else if let Some(Shown::Estimate(e)) = sh {
-                                    let rows: Vec<Vec<String>> = e.intervals.iter().map(|iv| vec![
-                                        iv.method.clone(), iv.low.map_or(String::new(), |v| format!("{v:?}")),
-                                        iv.high.map_or(String::new(), |v| format!("{v:?}")), iv.note.clone().unwrap_or_default()]).collect();
-                                    let _ = share::download("reshuffle-intervals.csv", "text/csv", &report::csv_table(&["method", "low", "high", "note"], &rows));
+                                if let Some(r) = shown.get_untracked() {
+                                    let _ = share::download("reshuffle-results.csv", "text/csv", &r.results_csv());
                                 }
                             }>"Results (CSV)"</button>
                             <button type="button" class="secondary" id="download-values" on:click=move |_| {
                                 let csv = match shown.get_untracked() {
-                                    Some(Shown::Compare(r)) => Some(report::values_csv(&[
+                                    Some(AnyReport::Compare(r)) => Some(report::values_csv(&[
                                         ("relabelled", r.null_values.as_deref().unwrap_or(&[])),
                                         ("bootstrap", r.bootstrap_values.as_deref().unwrap_or(&[])),
                                     ])),
-                                    Some(Shown::Estimate(e)) => Some(report::values_csv(&[("bootstrap", e.values.as_deref().unwrap_or(&[]))])),
+                                    Some(AnyReport::Estimate(e)) => Some(report::values_csv(&[("bootstrap", e.values.as_deref().unwrap_or(&[]))])),
                                     _ => None,
                                 };
                                 if let Some(c) = csv {
@@ -1415,15 +1816,17 @@ fn App() -> impl IntoView {
                             }>"Resampled statistics (CSV)"</button>
                         </div>
                         <div class="share-buttons">
-                            {move || figures(shown.get()).into_iter().map(|(name, svg)| {
+                            {move || shown.get().map(|r| r.figures()).unwrap_or_default().into_iter().map(|fig| {
+                                let (name, svg) = (fig.name.to_string(), fig.svg);
                                 let (svg2, name2) = (svg.clone(), name.clone());
                                 view! {
                                     <button type="button" class="secondary" on:click=move |_| {
                                         let _ = share::download(&format!("reshuffle-{name}.svg"), "image/svg+xml", &svg);
                                     }>{format!("Figure: {name} (SVG)")}</button>
                                     <button type="button" class="secondary" on:click=move |_| {
-                                        let sized = svg2.replacen("width=\"100%\"", "width=\"640\" height=\"300\"", 1);
-                                        let _ = share::download_png(&format!("reshuffle-{name2}.png"), &sized, 640, 300);
+                                        let (w, h) = plot::svg_size(&svg2);
+                                        let sized = svg2.replacen("width=\"100%\"", &format!("width=\"{w}\" height=\"{h}\""), 1);
+                                        let _ = share::download_png(&format!("reshuffle-{name2}.png"), &sized, w, h);
                                     }>{format!("Figure: {name2} (PNG)")}</button>
                                 }
                             }).collect_view()}
@@ -1454,72 +1857,12 @@ fn is_offline() -> bool {
         .is_some_and(|v| v.is_truthy())
 }
 
-/// The findings on screen.
-#[derive(Clone, Debug, PartialEq)]
-enum Shown {
-    Compare(Report),
-    Estimate(EstimateReport),
-    Paired(PairedReport),
-    Assoc(AssocReport),
-}
-
-/// The figures on screen, as (short name, SVG text).
-fn figures(shown: Option<Shown>) -> Vec<(String, String)> {
-    match shown {
-        Some(Shown::Compare(r)) => vec![
-            ("relabelling".into(), plot::null_svg(&r, "dl-null")),
-            ("bootstrap".into(), plot::bootstrap_svg(&r, "dl-boot")),
-        ],
-        Some(Shown::Estimate(e)) => {
-            let fig = plot::BootFigure {
-                label: &e.estimate_label,
-                estimate: e.estimate,
-                interval: &e.intervals[0],
-                histogram: &e.histogram,
-                resamples: e.resamples,
-            };
-            vec![(
-                "bootstrap".into(),
-                plot::bootstrap_figure_svg(&fig, "dl-est"),
-            )]
-        }
-        Some(Shown::Assoc(a)) => {
-            let (nf, bf, scatter) = report::assoc_figures(&a);
-            vec![
-                ("scatter".into(), scatter),
-                ("pairings".into(), plot::null_figure_svg(&nf, "dl-pair")),
-                (
-                    "bootstrap".into(),
-                    plot::bootstrap_figure_svg(&bf, "dl-aboot"),
-                ),
-            ]
-        }
-        Some(Shown::Paired(p)) => {
-            let (nf, bf) = report::paired_figures(&p);
-            vec![
-                ("sign-flips".into(), plot::null_figure_svg(&nf, "dl-flip")),
-                (
-                    "bootstrap".into(),
-                    plot::bootstrap_figure_svg(&bf, "dl-pboot"),
-                ),
-            ]
-        }
-        None => vec![],
-    }
-}
-
 /// The findings on screen as plain text or Markdown.
-fn current_text(shown: Option<Shown>, markdown: bool) -> String {
+fn current_text(shown: Option<AnyReport>, markdown: bool) -> String {
     let date = share::today();
     match shown {
-        Some(Shown::Compare(r)) if markdown => report::markdown(&r, &date),
-        Some(Shown::Compare(r)) => report::report_text(&r),
-        Some(Shown::Estimate(e)) if markdown => report::estimate_markdown(&e, &date),
-        Some(Shown::Estimate(e)) => report::estimate_text(&e),
-        Some(Shown::Paired(p)) if markdown => report::paired_markdown(&p, &date),
-        Some(Shown::Paired(p)) => report::paired_text(&p),
-        Some(Shown::Assoc(a)) if markdown => report::assoc_markdown(&a, &date),
-        Some(Shown::Assoc(a)) => report::assoc_text(&a),
+        Some(r) if markdown => r.markdown(&date),
+        Some(r) => r.text(&date),
         None => String::new(),
     }
 }
@@ -1885,6 +2228,68 @@ fn AssocFindings(report: AssocReport) -> impl IntoView {
             <Cautions id="assoc-cautions" items=r.cautions.clone()/>
         </div>
     }
+}
+
+/// Findings of a design written as a document (k groups, strata, yes/no): the finding,
+/// notes, figures, result lines, tables and cautions, exactly as the reports write them.
+#[component]
+fn DocFindings(report: AnyReport) -> impl IntoView {
+    let Some(doc): Option<Doc> = report.doc(&share::today()) else {
+        return view! { <p class="error">"These findings cannot be shown."</p> }.into_any();
+    };
+    let figures = report.figures();
+    let (p, low, high) = match &report {
+        AnyReport::KGroups(r) => (r.test.p_value, r.ci.low, r.ci.high),
+        AnyReport::Stratified(r) => (r.test.p_value, r.ci.low, r.ci.high),
+        AnyReport::YesNo(r) => (r.test.p_value, r.ci.low, r.ci.high),
+        _ => (f64::NAN, None, None),
+    };
+    let id = match report.design() {
+        "k-groups" => "k-findings",
+        "stratified" => "strata-findings",
+        _ => "yes-no-findings",
+    };
+    view! {
+        <div class="findings" id=id data-p-value=format!("{p:?}")
+            data-ci-low=format!("{low:?}") data-ci-high=format!("{high:?}")>
+            <p class="headline" id="doc-finding">{doc.finding.clone()}</p>
+            {(!doc.notes.is_empty()).then(|| view! {
+                <ul class="notes">{doc.notes.iter().map(|n| view! { <li>{n.clone()}</li> }).collect_view()}</ul>
+            })}
+            <div class="plots">
+                {figures.into_iter().enumerate().map(|(i, f)| {
+                    let fid = ["doc-figure-1", "doc-figure-2", "doc-figure-3", "doc-figure-4"][i.min(3)];
+                    view! { <Figure id=fid svg=f.svg caption=f.caption/> }
+                }).collect_view()}
+            </div>
+            <dl class="numbers" id="doc-results">
+                {doc.lines.iter().map(|(k, v)| view! { <dt>{k.clone()}</dt><dd>{v.clone()}</dd> }).collect_view()}
+            </dl>
+            {doc.tables.iter().map(|t| view! {
+                <div class="table-scroll" tabindex="0" role="region" aria-label=t.caption.clone()>
+                <table class="results" id=t.id>
+                    <caption>{t.caption.clone()}</caption>
+                    <thead><tr>{t.header.iter().map(|h| view! { <th scope="col">{h.clone()}</th> }).collect_view()}</tr></thead>
+                    <tbody>
+                        {t.rows.iter().map(|r| view! {
+                            <tr>{r.iter().enumerate().map(|(i, c)| if i == 0 {
+                                view! { <th scope="row">{c.clone()}</th> }.into_any()
+                            } else {
+                                view! { <td>{c.clone()}</td> }.into_any()
+                            }).collect_view()}</tr>
+                        }).collect_view()}
+                    </tbody>
+                </table>
+                </div>
+            }).collect_view()}
+            <details class="methods">
+                <summary>"Methods (for a report)"</summary>
+                <p>{doc.methods.clone()}</p>
+            </details>
+            <Cautions id="doc-cautions" items=doc.cautions.clone()/>
+        </div>
+    }
+    .into_any()
 }
 
 /// The cautions box that closes every set of findings.

@@ -5,7 +5,7 @@ use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
 use web_sys::{DedicatedWorkerGlobalScope, MessageEvent};
 
-use crate::engine::analysis::{run, RunError};
+use crate::engine::analysis::RunError;
 use crate::engine::protocol::{Job, Progress, WorkerMessage};
 
 fn post(scope: &DedicatedWorkerGlobalScope, msg: &WorkerMessage) {
@@ -38,26 +38,9 @@ fn handle(scope: &DedicatedWorkerGlobalScope, text: &str) {
         }
         true
     };
-    let result = match &job {
-        Job::Compare(req) => run(req, &mut progress).map(|report| WorkerMessage::Done {
-            report: Box::new(report),
-        }),
-        Job::Estimate(req) => crate::engine::estimate::run(req, &mut progress).map(|report| {
-            WorkerMessage::Estimated {
-                report: Box::new(report),
-            }
-        }),
-        Job::Paired(req) => {
-            crate::engine::paired::run(req, &mut progress).map(|report| WorkerMessage::PairedDone {
-                report: Box::new(report),
-            })
-        }
-        Job::Association(req) => crate::engine::assoc::run(req, &mut progress).map(|report| {
-            WorkerMessage::AssociationDone {
-                report: Box::new(report),
-            }
-        }),
-    };
+    let result = job.run(&mut progress).map(|report| WorkerMessage::Done {
+        report: Box::new(report),
+    });
     let msg = match result {
         Ok(m) => m,
         Err(RunError::Input(message)) => WorkerMessage::Failed { message },
