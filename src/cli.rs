@@ -19,6 +19,7 @@ Usage:
   reshuffle analyze --request FILE.json      re-run a saved analysis file
   reshuffle link FILE [options] [--base URL] print the share link of an analysis
   reshuffle analyze FILE --design paired --columns FIRST,SECOND [--statistic mean|median]
+  reshuffle analyze FILE --design paired --value COL --group COL --unit COL [--first A --second B]
   reshuffle analyze FILE --design one-sample --value COL --reference VALUE
   reshuffle analyze FILE --design association --x COL --y COL [--statistic pearson|spearman|slope]
   reshuffle analyze FILE --design k-groups [--value COL --group COL | --columns A,B,C]
@@ -537,6 +538,8 @@ fn paired_job(design: &str, args: &[String]) -> Result<(Job, bool), String> {
         p.take("--value"),
         p.num::<f64>("--reference")?,
     );
+    let (group, unit) = (p.take("--group"), p.take("--unit"));
+    let (first, second) = (p.take("--first"), p.take("--second"));
     if let Some(st) = p.choice(
         "--statistic",
         FlipStatistic::from_key,
@@ -555,7 +558,14 @@ fn paired_job(design: &str, args: &[String]) -> Result<(Job, bool), String> {
     req.confidence = t.confidence.unwrap_or(req.confidence);
     req.layout = match (design, columns, value, reference) {
         ("paired", Some(c), None, None) if c.len() == 2 => PairedLayout::Paired { first: c[0].clone(), second: c[1].clone() },
-        ("paired", _, _, _) => return Err("The paired design needs --columns FIRST,SECOND (the difference is first minus second).".into()),
+        ("paired", None, Some(v), None) if group.is_some() && unit.is_some() => PairedLayout::Long {
+            value: v,
+            group: group.unwrap_or_default(),
+            unit: unit.unwrap_or_default(),
+            first: first.unwrap_or_default(),
+            second: second.unwrap_or_default(),
+        },
+        ("paired", _, _, _) => return Err("The paired design needs --columns FIRST,SECOND (the difference is first minus second), or --value COL --group COL --unit COL in long format.".into()),
         ("one-sample", None, Some(v), Some(r)) => PairedLayout::OneSample { value: v, reference: r },
         _ => return Err("The one-sample design needs --value COL and --reference VALUE.".into()),
     };

@@ -260,6 +260,7 @@ fn paired_and_one_sample_designs() {
     ]);
     assert_ne!(code, 0);
     assert!(err.contains("needs --columns FIRST,SECOND"), "{err}");
+    assert!(err.contains("--unit COL in long format"), "{err}");
     let (code, _, err) = reshuffle(&[
         "analyze",
         "demo-data/tomato-irrigation.csv",
@@ -323,4 +324,235 @@ fn association_design() {
     ]);
     assert_ne!(code, 0);
     assert!(err.contains("needs --x COL and --y COL"), "{err}");
+}
+
+fn json_of(args: &[&str]) -> serde_json::Value {
+    let (code, out, err) = reshuffle(args);
+    assert_eq!(code, 0, "{err}");
+    serde_json::from_str(&out).unwrap_or_else(|e| panic!("{e}: {out}"))
+}
+
+#[test]
+fn k_groups_design_reports_omnibus_cross_checks_and_adjusted_comparisons() {
+    let v = json_of(&[
+        "analyze",
+        "demo-data/adhesive-shear-strength.csv",
+        "--design",
+        "k-groups",
+        "--seed",
+        "7",
+        "--resamples",
+        "5000",
+        "--bootstrap",
+        "1000",
+        "--json",
+    ]);
+    for key in [
+        "observed",
+        "p_value",
+        "exact",
+        "mc_se",
+        "ci",
+        "effect",
+        "omega_squared",
+        "anova",
+        "welch_anova",
+        "kruskal_wallis",
+        "pairwise",
+        "finding",
+        "cautions",
+    ] {
+        assert!(v.get(key).is_some(), "missing {key}");
+    }
+    let pairs = v["pairwise"].as_array().unwrap();
+    assert_eq!(pairs.len(), 6);
+    for p in pairs {
+        let (raw, holm, bh) = (
+            p["p_value"].as_f64().unwrap(),
+            p["holm"].as_f64().unwrap(),
+            p["bh"].as_f64().unwrap(),
+        );
+        assert!(holm >= raw && bh >= raw && bh <= holm + 1e-15, "{p}");
+    }
+    // Against a control, in one direction.
+    let v = json_of(&[
+        "analyze",
+        "demo-data/adhesive-shear-strength.csv",
+        "--design",
+        "k-groups",
+        "--control",
+        "polyurethane",
+        "--alternative",
+        "greater",
+        "--statistic",
+        "welch-f",
+        "--seed",
+        "7",
+        "--resamples",
+        "2000",
+        "--bootstrap",
+        "500",
+        "--json",
+    ]);
+    assert_eq!(v["pairwise"].as_array().unwrap().len(), 3);
+    assert_eq!(v["control"], "polyurethane");
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "demo-data/adhesive-shear-strength.csv",
+        "--design",
+        "k-groups",
+        "--control",
+        "silicone",
+    ]);
+    assert_eq!(code, 2);
+    assert!(
+        err.contains("\"silicone\" is not one of the groups"),
+        "{err}"
+    );
+}
+
+#[test]
+fn stratified_design_and_its_messages() {
+    let v = json_of(&[
+        "analyze",
+        "demo-data/coating-wear-by-line.csv",
+        "--design",
+        "stratified",
+        "--value",
+        "wear_um",
+        "--group",
+        "coating",
+        "--strata",
+        "line",
+        "--weights",
+        "precision",
+        "--seed",
+        "3",
+        "--resamples",
+        "5000",
+        "--bootstrap",
+        "1000",
+        "--json",
+    ]);
+    assert_eq!(v["weights"], "precision");
+    assert_eq!(v["strata"].as_array().unwrap().len(), 4);
+    assert!(v["linear_model"]["p_value"].as_f64().is_some());
+    // The invented data reverse sign when the lines are ignored.
+    assert!(v["effect"].as_f64().unwrap() < 0.0);
+    assert!(v["unstratified"]["mean_difference"].as_f64().unwrap() > 0.0);
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "demo-data/coating-wear-by-line.csv",
+        "--design",
+        "stratified",
+        "--value",
+        "wear_um",
+        "--group",
+        "coating",
+    ]);
+    assert_eq!(code, 2);
+    assert!(err.contains("--strata COL"), "{err}");
+}
+
+#[test]
+fn yes_no_design_from_a_table_and_from_counts() {
+    let v = json_of(&[
+        "analyze",
+        "demo-data/seed-germination.csv",
+        "--design",
+        "yes-no",
+        "--value",
+        "germinated",
+        "--group",
+        "storage",
+        "--seed",
+        "2",
+        "--bootstrap",
+        "1000",
+        "--json",
+    ]);
+    assert_eq!(v["yes"], serde_json::json!([37, 22]));
+    assert_eq!(v["n"], serde_json::json!([48, 48]));
+    assert!(v["exact"].as_bool().unwrap());
+    for key in [
+        "fisher_exact",
+        "chi_square",
+        "chi_square_yates",
+        "difference",
+        "risk_ratio",
+        "odds_ratio",
+    ] {
+        assert!(v.get(key).is_some(), "missing {key}");
+    }
+    // Counts need no file; a zero count gives an infinite odds ratio, written as "inf".
+    let v = json_of(&[
+        "analyze",
+        "--design",
+        "yes-no",
+        "--counts",
+        "treated: 6/15, untreated: 0/15",
+        "--statistic",
+        "odds-ratio",
+        "--seed",
+        "2",
+        "--bootstrap",
+        "500",
+        "--json",
+    ]);
+    assert_eq!(v["observed"], "inf");
+    assert_eq!(v["names"], serde_json::json!(["treated", "untreated"]));
+    let (code, _, err) = reshuffle(&["analyze", "--design", "yes-no", "--counts", "42/300"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("1 group was given"), "{err}");
+}
+
+/// A link made by the command reproduces the same numbers for every new design.
+#[test]
+fn links_reproduce_the_new_designs() {
+    for args in [
+        vec![
+            "demo-data/adhesive-shear-strength.csv",
+            "--design",
+            "k-groups",
+            "--resamples",
+            "2000",
+        ],
+        vec![
+            "demo-data/coating-wear-by-line.csv",
+            "--design",
+            "stratified",
+            "--value",
+            "wear_um",
+            "--group",
+            "coating",
+            "--strata",
+            "line",
+            "--resamples",
+            "2000",
+        ],
+        vec!["--design", "yes-no", "--counts", "a: 3/20, b: 9/21"],
+        vec![
+            "tests/reference/data/sleep-long.csv",
+            "--design",
+            "paired",
+            "--value",
+            "extra",
+            "--group",
+            "group",
+            "--unit",
+            "ID",
+        ],
+    ] {
+        let mut full: Vec<&str> = vec!["analyze"];
+        full.extend(&args);
+        full.extend(["--seed", "11", "--bootstrap", "500", "--json"]);
+        let direct = json_of(&full);
+        let mut l: Vec<&str> = vec!["link"];
+        l.extend(&args);
+        l.extend(["--seed", "11", "--bootstrap", "500"]);
+        let (code, link, err) = reshuffle(&l);
+        assert_eq!(code, 0, "{err}");
+        let again = json_of(&["analyze", "--link", link.trim(), "--json"]);
+        assert_eq!(direct, again, "{args:?}");
+    }
 }

