@@ -176,6 +176,20 @@ pub fn suggest(t: &Table) -> Option<Suggestion> {
             s.group = Some(group.name.clone());
             return Some(s);
         }
+        if lv.len() == 1 {
+            // Probably part of the data: keep the comparison, whose message says so.
+            let mut s = base(
+                "two-groups",
+                format!(
+                    "Column \"{}\" names only one group ({listed}); a comparison needs two.",
+                    group.name
+                ),
+            );
+            s.alternatives = vec!["one-sample".into()];
+            s.value = Some(value.name.clone());
+            s.group = Some(group.name.clone());
+            return Some(s);
+        }
         if lv.len() == 2 {
             if let Some(strata) = labels[1..].iter().find(|s| crosses(t, group, s)) {
                 let mut s = base(
@@ -304,6 +318,9 @@ mod tests {
         let three = s("p,q,r\n1,2,3\n4,5,6\n");
         assert_eq!(three.design, "k-groups");
         assert_eq!(three.columns, vec!["p", "q", "r"]);
+        let partial = s("y,g\n1,a\n2,a\n3,a\n");
+        assert_eq!(partial.design, "two-groups");
+        assert_eq!(partial.alternatives, vec!["one-sample"]);
         let one = s("weight\n1\n2\n3\n");
         assert_eq!(one.design, "one-sample");
         assert!(suggest(&parse("a,b\nx,y\nz,w\n", HeaderChoice::Detect).unwrap()).is_none());

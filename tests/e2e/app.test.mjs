@@ -439,3 +439,123 @@ test("the page makes no request beyond its own files", async () => {
   const foreign = requests.filter((u) => !u.startsWith(base) && !/^(data|blob|file):/.test(u));
   assert.deepEqual(foreign, []);
 });
+
+// Rust's {:?} of an f64 (the page's data attributes) and JSON's number text agree except for
+// whole numbers ("1.0" against 1).
+const rustF = (v) => (Number.isInteger(v) ? `${v}.0` : String(v));
+const rustOpt = (v) => (v === null ? "None" : `Some(${rustF(v)})`);
+
+async function runWithSeed(page, seed) {
+  if (!(await page.isVisible("#seed"))) await page.click("summary");
+  await page.fill("#seed", String(seed));
+  await page.click("#run");
+}
+
+test("k groups: suggested from the table, same numbers as the native command, adjusted comparisons", async () => {
+  const json = JSON.parse(native(["analyze", "demo-data/adhesive-shear-strength.csv", "--design", "k-groups", "--seed", "21", "--json"]));
+  const { page, errors } = await openPage();
+  await page.selectOption("#example", "adhesives");
+  await page.waitForFunction(() => document.querySelector("#design").value === "k-groups");
+  assert.match(await page.textContent("#suggestion"), /names 4 groups/);
+  await runWithSeed(page, 21);
+  await page.waitForSelector("#k-findings", { timeout: 90000 });
+  assert.equal(await page.textContent("#doc-finding"), json.finding);
+  assert.equal(await page.getAttribute("#k-findings", "data-p-value"), rustF(json.p_value));
+  assert.equal(await page.getAttribute("#k-findings", "data-ci-low"), rustOpt(json.ci.low));
+  const rows = await page.$$eval("#pairwise-table tbody tr", (trs) => trs.map((t) => t.textContent));
+  assert.equal(rows.length, 6);
+  assert.match(await page.textContent("#pairwise-table thead"), /Holm p.*BH p/);
+  assert.match(await page.textContent(".cautions"), /family-wise error.*false discovery rate/s);
+  for (const id of ["#doc-figure-1", "#doc-figure-2", "#doc-figure-3"]) {
+    assert.ok(await page.$(`${id} svg title`), `${id} has a title`);
+  }
+  await page.screenshot({ path: path.join(out, "k-groups.png"), fullPage: true });
+  assert.deepEqual(errors, []);
+  await page.close();
+});
+
+test("stratified: the reversal the strata hide, and the native command's numbers", async () => {
+  const json = JSON.parse(native(["analyze", "demo-data/coating-wear-by-line.csv", "--design", "stratified",
+    "--value", "wear_um", "--group", "coating", "--strata", "line", "--seed", "22", "--json"]));
+  const { page, errors } = await openPage();
+  await page.selectOption("#example", "coatings");
+  await page.waitForFunction(() => document.querySelector("#design").value === "stratified");
+  assert.equal(await page.inputValue("#strata-col"), "line");
+  await runWithSeed(page, 22);
+  await page.waitForSelector("#strata-findings", { timeout: 90000 });
+  assert.equal(await page.textContent("#doc-finding"), json.finding);
+  assert.match(json.finding, /With the strata ignored, the difference would be 3\.\d/);
+  assert.equal(await page.getAttribute("#strata-findings", "data-p-value"), rustF(json.p_value));
+  assert.equal((await page.$$("#strata-table tbody tr")).length, 4);
+  assert.match(await page.textContent(".cautions"), /Simpson's paradox/);
+  await page.screenshot({ path: path.join(out, "stratified.png"), fullPage: true });
+  assert.deepEqual(errors, []);
+  await page.close();
+});
+
+test("yes/no outcomes from a column and from typed counts; bad counts get a message", async () => {
+  const json = JSON.parse(native(["analyze", "demo-data/seed-germination.csv", "--design", "yes-no",
+    "--value", "germinated", "--group", "storage", "--seed", "23", "--json"]));
+  const { page, errors } = await openPage();
+  await page.selectOption("#example", "seeds");
+  await page.waitForFunction(() => document.querySelector("#design").value === "yes-no");
+  await runWithSeed(page, 23);
+  await page.waitForSelector("#yes-no-findings", { timeout: 90000 });
+  assert.equal(await page.textContent("#doc-finding"), json.finding);
+  assert.equal(await page.getAttribute("#yes-no-findings", "data-ci-high"), rustOpt(json.ci.high));
+  assert.match(await page.textContent("#doc-results"), /Fisher's exact test/);
+  assert.ok((await page.$$("#doc-figure-1 rect")).length > 10, "the exact distribution is drawn");
+  // Counts typed in, with a risk ratio.
+  const counts = JSON.parse(native(["analyze", "--design", "yes-no", "--counts", "old: 42/300, new: 61/310",
+    "--statistic", "risk-ratio", "--seed", "23", "--json"]));
+  await page.check("#yn-counts-choice");
+  await page.fill("#counts", "old: 42/300, new: 61/310");
+  await page.selectOption("#yn-stat", "risk-ratio");
+  await page.click("#run");
+  await page.waitForFunction((f) => document.querySelector("#doc-finding")?.textContent === f, counts.finding, { timeout: 60000 });
+  // Counts that cannot be right: a specific message, and what was typed stays.
+  await page.fill("#counts", "old: 42/30, new: 61/310");
+  assert.match(await page.textContent("#counts-error"), /cannot outnumber the total/);
+  await page.click("#run");
+  assert.equal(await page.inputValue("#counts"), "old: 42/30, new: 61/310");
+  await page.screenshot({ path: path.join(out, "yes-no.png"), fullPage: true });
+  assert.deepEqual(errors, []);
+  await page.close();
+});
+
+test("paired data in long format are recognised by their unit column", async () => {
+  const csv = "height,time,plant\n" + [
+    [11.2, 12.9], [10.4, 11.1], [12.8, 13.0], [9.9, 11.8], [11.5, 12.2], [10.8, 12.6], [12.1, 12.4], [10.2, 11.9],
+  ].map(([a, b], i) => `${a},before,p${i + 1}\n${b},after,p${i + 1}`).join("\n") + "\n";
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), "reshuffle-e2e-"));
+  const file = path.join(dir, "long.csv");
+  fs.writeFileSync(file, csv);
+  const json = JSON.parse(native(["analyze", file, "--design", "paired", "--value", "height", "--group", "time",
+    "--unit", "plant", "--first", "after", "--second", "before", "--seed", "24", "--json"]));
+  const { page, errors } = await openPage();
+  await page.fill("#data", csv);
+  await page.waitForFunction(() => document.querySelector("#design").value === "paired");
+  assert.equal(await page.inputValue("#unit-col"), "plant");
+  await page.selectOption("#first", "after");
+  await page.selectOption("#second", "before");
+  await runWithSeed(page, 24);
+  await page.waitForSelector("#paired-finding", { timeout: 60000 });
+  assert.equal(await page.textContent("#paired-finding"), json.finding);
+  assert.deepEqual(errors, []);
+  await page.close();
+});
+
+test("a link to a k-group analysis reproduces it in a fresh page", async () => {
+  const opts = ["demo-data/adhesive-shear-strength.csv", "--design", "k-groups", "--control", "acrylic",
+    "--statistic", "median-spread", "--seed", "25", "--resamples", "20000", "--bootstrap", "2000"];
+  const link = native(["link", ...opts, "--base", base]).trim();
+  const json = JSON.parse(native(["analyze", ...opts, "--json"]));
+  const page = await context.newPage();
+  await page.goto(link);
+  await page.waitForSelector("#k-findings", { timeout: 90000 });
+  assert.equal(await page.textContent("#doc-finding"), json.finding);
+  assert.equal(await page.inputValue("#design"), "k-groups");
+  assert.equal(await page.inputValue("#control"), "acrylic");
+  assert.equal(await page.inputValue("#k-stat"), "median-spread");
+  await page.close();
+});
