@@ -14,7 +14,7 @@ use super::groups::plural;
 use super::normal;
 use super::perm::{Counts, TIE_TOLERANCE};
 use super::protocol::*;
-use super::rng::{self, Stream, RNG_NAME};
+use super::rng::{Stream, RNG_NAME};
 use super::stats;
 use super::table::{self, HeaderChoice};
 
@@ -286,35 +286,18 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, RunE
     };
     let tol = TIE_TOLERANCE * most.max(observed.abs());
     let pairings = factorial(n);
-    let (counts, values, exact) = if pairings <= req.exact_limit {
-        let mut cb = |done: u64| {
-            progress(&Progress {
-                stage: "pairings".into(),
-                done,
-                total: pairings,
-            })
-        };
-        let (c, v) = heap_enumerate(&kernel, observed, tol, &mut cb).ok_or(RunError::Cancelled)?;
-        (c, v, true)
-    } else {
-        let total = req.resamples;
-        let mut c = Counts::default();
-        let mut v = Vec::with_capacity(total as usize);
-        let streams = rng::Streams::new(req.seed, rng::Purpose::Permutation, 0);
-        for (blk, stream) in (0..rng::block_count(total)).zip(streams) {
-            let (cc, vv) = random_block(&kernel, observed, tol, stream, rng::block_len(total, blk));
-            c.add(&cc);
-            v.extend(vv);
-            if !progress(&Progress {
-                stage: "pairings".into(),
-                done: c.total,
-                total,
-            }) {
-                return Err(RunError::Cancelled);
-            }
-        }
-        (c, v, false)
-    };
+    let (counts, values, exact) = super::design::Relabelling {
+        count: pairings,
+        exact_limit: req.exact_limit,
+        resamples: req.resamples,
+        seed: req.seed,
+        stage: "pairings",
+    }
+    .run(
+        progress,
+        &mut |cb| heap_enumerate(&kernel, observed, tol, cb),
+        &mut |s, len| random_block(&kernel, observed, tol, s, len),
+    )?;
     let pr = p_value(&counts, exact, req.alternative, req.two_sided);
 
     // Bootstrap of pairs.

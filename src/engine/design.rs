@@ -103,6 +103,28 @@ pub struct TestOutcome {
 }
 
 impl TestOutcome {
+    /// The figure of this null distribution: `label` names the statistic, `unit` a
+    /// relabelling, `how` says how the null is made.
+    pub fn null_figure<'a>(
+        &'a self,
+        label: &'a str,
+        unit: &'a str,
+        how: &'a str,
+    ) -> super::plot::NullFigure<'a> {
+        super::plot::NullFigure {
+            label,
+            unit,
+            how,
+            observed: self.observed,
+            exact: self.exact,
+            resamples: self.resamples,
+            extreme: self.extreme_count,
+            p_value: self.p_value,
+            tail: &self.tail,
+            histogram: &self.null_histogram,
+        }
+    }
+
     /// The outcome from the counts and the statistics of every relabelling.
     pub fn new(
         counts: &Counts,
@@ -183,6 +205,47 @@ pub fn random_null(
         }
     }
     Ok((counts, values))
+}
+
+/// How a design's null distribution is made: every relabelling when there are `count` of
+/// them and that is at most `exact_limit`, otherwise `resamples` random ones from `seed`.
+pub struct Relabelling<'a> {
+    pub count: u64,
+    pub exact_limit: u64,
+    pub resamples: u64,
+    pub seed: u64,
+    /// What the progress display calls the work, e.g. "relabelling" or "sign patterns".
+    pub stage: &'a str,
+}
+
+/// Enumerates every relabelling, calling its argument with the number done now and then
+/// (false stops it: then None).
+pub type Enumerate<'a> =
+    &'a mut dyn FnMut(&mut dyn FnMut(u64) -> bool) -> Option<(Counts, Vec<f64>)>;
+
+impl Relabelling<'_> {
+    /// The counts and statistics of the relabellings, and whether they are all of them.
+    pub fn run(
+        &self,
+        progress: ProgressFn,
+        enumerate: Enumerate,
+        random: &mut dyn FnMut(Stream, u64) -> (Counts, Vec<f64>),
+    ) -> Result<(Counts, Vec<f64>, bool), RunError> {
+        if self.count <= self.exact_limit {
+            let mut cb = |done: u64| {
+                progress(&Progress {
+                    stage: self.stage.into(),
+                    done,
+                    total: self.count,
+                })
+            };
+            let (c, v) = enumerate(&mut cb).ok_or(RunError::Cancelled)?;
+            Ok((c, v, true))
+        } else {
+            let (c, v) = random_null(self.seed, self.resamples, self.stage, progress, random)?;
+            Ok((c, v, false))
+        }
+    }
 }
 
 /// The summary of a bootstrap run for one estimate.

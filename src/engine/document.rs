@@ -441,18 +441,11 @@ pub fn kgroups_doc(r: &KGroupsReport, date: &str) -> Doc {
 }
 
 pub fn kgroups_figures(r: &KGroupsReport) -> Vec<Figure> {
-    let nf = plot::NullFigure {
-        label: &r.statistic_label,
-        unit: "relabellings",
-        how: "when the group labels are shuffled across all groups",
-        observed: r.test.observed,
-        exact: r.test.exact,
-        resamples: r.test.resamples,
-        extreme: r.test.extreme_count,
-        p_value: r.test.p_value,
-        tail: &r.test.tail,
-        histogram: &r.test.null_histogram,
-    };
+    let nf = r.test.null_figure(
+        &r.statistic_label,
+        "relabellings",
+        "when the group labels are shuffled across all groups",
+    );
     let bf = plot::BootFigure {
         label: "eta squared",
         estimate: r.effect,
@@ -613,18 +606,11 @@ pub fn strata_doc(r: &StrataReport, date: &str) -> Doc {
 }
 
 pub fn strata_figures(r: &StrataReport) -> Vec<Figure> {
-    let nf = plot::NullFigure {
-        label: "weighted difference",
-        unit: "relabellings",
-        how: "when labels are shuffled within each stratum",
-        observed: r.test.observed,
-        exact: r.test.exact,
-        resamples: r.test.resamples,
-        extreme: r.test.extreme_count,
-        p_value: r.test.p_value,
-        tail: &r.test.tail,
-        histogram: &r.test.null_histogram,
-    };
+    let nf = r.test.null_figure(
+        "weighted difference",
+        "relabellings",
+        "when labels are shuffled within each stratum",
+    );
     let bf = plot::BootFigure {
         label: "weighted difference",
         estimate: r.effect,
@@ -788,18 +774,10 @@ pub fn yesno_doc(r: &YesNoReport, date: &str) -> Doc {
 pub fn yesno_figures(r: &YesNoReport) -> Vec<Figure> {
     let label = format!("number of yes in {}", r.names[0]);
     let obs_count = r.yes[0] as f64;
-    let nf = plot::NullFigure {
-        label: &label,
-        unit: "tables",
-        how: "with the margins fixed (exact)",
-        observed: obs_count,
-        exact: true,
-        resamples: r.test.resamples,
-        extreme: r.test.extreme_count,
-        p_value: r.test.p_value,
-        tail: &r.test.tail,
-        histogram: &r.test.null_histogram,
-    };
+    let mut nf = r
+        .test
+        .null_figure(&label, "tables", "with the margins fixed (exact)");
+    nf.observed = obs_count;
     let bf = plot::BootFigure {
         label: &r.effect_label,
         estimate: r.effect,

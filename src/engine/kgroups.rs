@@ -475,28 +475,18 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
     // The omnibus test.
     let setup = KSetup::new(req.statistic, &g.values);
     let count = labellings(&setup.sizes);
-    let (counts, values, exact) = if count <= st.exact_limit {
-        let mut cb = |done: u64| {
-            progress(&Progress {
-                stage: "relabelling".into(),
-                done,
-                total: count,
-            })
-        };
-        let (c, v) = setup
-            .enumerate(rng::BLOCK, &mut cb)
-            .ok_or(RunError::Cancelled)?;
-        (c, v, true)
-    } else {
-        let (c, v) = design::random_null(
-            st.seed,
-            st.resamples,
-            "relabelling",
-            progress,
-            &mut |s, len| setup.random_block(s, len),
-        )?;
-        (c, v, false)
-    };
+    let (counts, values, exact) = design::Relabelling {
+        count,
+        exact_limit: st.exact_limit,
+        resamples: st.resamples,
+        seed: st.seed,
+        stage: "relabelling",
+    }
+    .run(
+        progress,
+        &mut |cb| setup.enumerate(rng::BLOCK, cb),
+        &mut |s, len| setup.random_block(s, len),
+    )?;
     let test = TestOutcome::new(
         &counts,
         &values,

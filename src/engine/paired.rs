@@ -475,37 +475,18 @@ pub fn run(req: &PairedRequest, progress: ProgressFn) -> Result<PairedReport, Ru
     }
     let setup = FlipSetup::new(req.statistic, &d);
     let patterns: u64 = if n < 63 { 1u64 << n } else { u64::MAX };
-    let (counts, values, exact) = if patterns <= req.exact_limit {
-        let mut cb = |done: u64| {
-            progress(&Progress {
-                stage: "sign patterns".into(),
-                done,
-                total: patterns,
-            })
-        };
-        let (c, v) = setup
-            .enumerate(rng::BLOCK, &mut cb)
-            .ok_or(RunError::Cancelled)?;
-        (c, v, true)
-    } else {
-        let total = req.resamples;
-        let mut c = super::perm::Counts::default();
-        let mut v = Vec::with_capacity(total as usize);
-        let streams = rng::Streams::new(req.seed, rng::Purpose::Permutation, 0);
-        for (b, stream) in (0..rng::block_count(total)).zip(streams) {
-            let (cc, vv) = setup.random_block(stream, rng::block_len(total, b));
-            c.add(&cc);
-            v.extend(vv);
-            if !progress(&Progress {
-                stage: "sign patterns".into(),
-                done: c.total,
-                total,
-            }) {
-                return Err(RunError::Cancelled);
-            }
-        }
-        (c, v, false)
-    };
+    let (counts, values, exact) = super::design::Relabelling {
+        count: patterns,
+        exact_limit: req.exact_limit,
+        resamples: req.resamples,
+        seed: req.seed,
+        stage: "sign patterns",
+    }
+    .run(
+        progress,
+        &mut |cb| setup.enumerate(rng::BLOCK, cb),
+        &mut |s, len| setup.random_block(s, len),
+    )?;
     let pr = p_value(&counts, exact, req.alternative, req.two_sided);
     let observed = setup.observed;
 

@@ -638,28 +638,18 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Ru
     let count = setup.strata.iter().fold(1u64, |acc, s| {
         acc.saturating_mul(choose(s.pool.len() as u64, s.k() as u64))
     });
-    let (counts, values, exact) = if count <= st.exact_limit {
-        let mut cb = |done: u64| {
-            progress(&Progress {
-                stage: "relabelling within strata".into(),
-                done,
-                total: count,
-            })
-        };
-        let (c, v) = setup
-            .enumerate(rng::BLOCK, &mut cb)
-            .ok_or(RunError::Cancelled)?;
-        (c, v, true)
-    } else {
-        let (c, v) = design::random_null(
-            st.seed,
-            st.resamples,
-            "relabelling within strata",
-            progress,
-            &mut |s, len| setup.random_block(s, len),
-        )?;
-        (c, v, false)
-    };
+    let (counts, values, exact) = design::Relabelling {
+        count,
+        exact_limit: st.exact_limit,
+        resamples: st.resamples,
+        seed: st.seed,
+        stage: "relabelling within strata",
+    }
+    .run(
+        progress,
+        &mut |cb| setup.enumerate(rng::BLOCK, cb),
+        &mut |s, len| setup.random_block(s, len),
+    )?;
     let test = TestOutcome::new(
         &counts,
         &values,
