@@ -29,6 +29,7 @@ Usage:
   reshuffle analyze FILE --design yes-no --value COL --group COL
   reshuffle analyze --design yes-no --counts 42/300,61/310
                        [--statistic proportion-difference|risk-ratio|odds-ratio]
+  reshuffle plan [FILE] --design D ... power, sample size and detectable effect by simulation
   reshuffle bench                      compare the speed of the relabelling kernels
   reshuffle help                       show this text
 
@@ -54,6 +55,20 @@ The question:
   --markdown                           print the findings as Markdown
   --html FILE                          also write a self-contained HTML report
 
+Planning (reshuffle plan):
+  --design two-groups|paired|k-groups|yes-no
+  --sd SD                              assumed normal model (SD of the differences for pairs)
+  FILE --value COL [--multiply]        resample a pilot column; the effect is added (or, with
+                                       --multiply, a ratio multiplying the values)
+  --baseline RATE                      yes/no: the yes rate of the reference group
+  --effect E                           difference in means (or ratio, or rate difference; for
+                                       k groups a factor on --means)
+  --means 0,0,0.5                      k groups: the assumed group means
+  --statistic KEY  --alpha 0.05  --alternative two-sided|greater|less  --power 0.8
+  --studies 1000 (per sample size)  --relabellings 199 (per study)  --max-n 2000
+  --mde-n N                            also the smallest detectable effect at N per group
+  --seed S  --json  --markdown  --html FILE
+
 Estimate only (reshuffle estimate):
   --value COL --estimate mean|median|trimmed-mean|sd|cv|quantile|proportion [--q 0.9]
       [--strata COL]                   one column; resample within strata if given
@@ -76,6 +91,7 @@ pub fn main_with(
         Some("analyze") | Some("analyse") => analyze(&args[1..], out),
         Some("estimate") => estimate(&args[1..], out),
         Some("link") => link_command(&args[1..], out),
+        Some("plan") => plan_command(&args[1..], out),
         Some("bench") => bench(out),
         Some("help") | Some("--help") | Some("-h") | None => {
             let _ = out.write_all(USAGE.as_bytes());
@@ -138,7 +154,7 @@ pub struct Opts {
 }
 
 /// Options that take no value.
-const SWITCHES: [&str; 3] = ["--json", "--paired", "--markdown"];
+const SWITCHES: [&str; 4] = ["--json", "--paired", "--markdown", "--multiply"];
 
 impl Opts {
     pub fn parse(args: &[String]) -> Result<Opts, String> {
@@ -720,6 +736,73 @@ fn yesno_job(args: &[String]) -> Result<(Job, bool), String> {
     }
     p.finish()?;
     Ok((Job::YesNo(req), json))
+}
+
+/// `reshuffle plan [FILE] --design D ...`: power, sample size and detectable effect.
+fn plan_command(args: &[String], out: &mut dyn std::io::Write) -> Result<(), String> {
+    let (args, mut o) = take_outputs(args)?;
+    let (job, json) = plan_job(&args)?;
+    o.json = json;
+    run_job(&job, &o, out)
+}
+
+/// Builds a planning job from the command line.
+pub fn plan_job(args: &[String]) -> Result<(Job, bool), String> {
+    use crate::engine::plan::{PlanDesign, PlanModel, PlanRequest};
+    let mut p = Opts::parse(args)?;
+    let json = p.switch("--json");
+    let multiply = p.switch("--multiply");
+    let design = p
+        .choice(
+            "--design",
+            PlanDesign::from_key,
+            "two-groups, paired, k-groups or yes-no",
+        )?
+        .ok_or("Say which design to plan with --design two-groups, paired, k-groups or yes-no.")?;
+    let effect: f64 = p
+        .num("--effect")?
+        .ok_or("Give the assumed effect with --effect (for example --effect 0.5).")?;
+    let header = p.header()?;
+    let (sd, baseline, value) = (
+        p.num::<f64>("--sd")?,
+        p.num::<f64>("--baseline")?,
+        p.take("--value"),
+    );
+    let model = match (sd, baseline, value) {
+        (Some(sd), None, None) => PlanModel::Normal { sd },
+        (None, Some(baseline), None) => PlanModel::Rates { baseline },
+        (None, None, Some(value)) => PlanModel::Pilot {
+            data: p.data()?,
+            header,
+            value,
+            multiply,
+        },
+        _ => {
+            return Err(
+                "Give one data model: --sd SD (normal values), FILE --value COL (a pilot \
+                 column), or --baseline RATE (yes/no outcomes)."
+                    .into(),
+            )
+        }
+    };
+    let mut req = PlanRequest::new(design, model, effect, 0);
+    if let Some(m) = p.list("--means") {
+        req.means = m
+            .iter()
+            .map(|v| parse_num("--means", v))
+            .collect::<Result<Vec<f64>, String>>()?;
+    }
+    req.statistic = p.take("--statistic").unwrap_or_default();
+    req.alpha = p.num("--alpha")?.unwrap_or(req.alpha);
+    req.alternative = p.alternative()?.unwrap_or(req.alternative);
+    req.target_power = p.num("--power")?.unwrap_or(req.target_power);
+    req.studies = p.num("--studies")?.unwrap_or(req.studies);
+    req.relabellings = p.num("--relabellings")?.unwrap_or(req.relabellings);
+    req.max_n = p.num("--max-n")?.unwrap_or(req.max_n);
+    req.mde_n = p.num("--mde-n")?;
+    req.seed = p.seed()?;
+    p.finish()?;
+    Ok((Job::Plan(req), json))
 }
 
 /// `reshuffle link FILE [analyze options] [--base URL]`: the share link of an analysis.

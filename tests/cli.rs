@@ -556,3 +556,81 @@ fn links_reproduce_the_new_designs() {
         assert_eq!(direct, again, "{args:?}");
     }
 }
+
+#[test]
+fn plan_command_finds_a_sample_size_and_a_detectable_effect() {
+    let v = json_of(&[
+        "plan",
+        "--design",
+        "two-groups",
+        "--sd",
+        "1",
+        "--effect",
+        "0.8",
+        "--studies",
+        "400",
+        "--mde-n",
+        "20",
+        "--seed",
+        "4",
+        "--json",
+    ]);
+    let n = v["smoothed"]["n"].as_f64().unwrap();
+    // The t-test needs about 26 per group for d = 0.8 (statsmodels TTestIndPower computes
+    // 25.5); the simulation's estimate is close to it.
+    assert!((20.0..34.0).contains(&n), "{n}");
+    assert!(v["detectable"]["effect"].as_f64().unwrap() > 0.5);
+    assert!(!v["tradeoffs"].as_array().unwrap().is_empty());
+    // A pilot column resampled with a multiplicative effect.
+    let v = json_of(&[
+        "plan",
+        "demo-data/tomato-irrigation.csv",
+        "--value",
+        "yield_kg",
+        "--multiply",
+        "--design",
+        "two-groups",
+        "--effect",
+        "1.15",
+        "--studies",
+        "300",
+        "--seed",
+        "4",
+        "--json",
+    ]);
+    assert!(v["required"]["n"].as_u64().is_some());
+    assert!(v["model_label"].as_str().unwrap().contains("pilot"));
+    // Messages.
+    let (code, _, err) = reshuffle(&["plan", "--design", "two-groups", "--effect", "0.5"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("Give one data model"), "{err}");
+    let (code, _, err) = reshuffle(&[
+        "plan",
+        "--design",
+        "yes-no",
+        "--baseline",
+        "0.9",
+        "--effect",
+        "0.2",
+    ]);
+    assert_eq!(code, 2);
+    assert!(err.contains("outside 0 to 1"), "{err}");
+    // The text report says what was traded for speed.
+    let (code, out, _) = reshuffle(&[
+        "plan",
+        "--design",
+        "k-groups",
+        "--sd",
+        "1",
+        "--means",
+        "0,0,0.8",
+        "--effect",
+        "1",
+        "--studies",
+        "300",
+        "--seed",
+        "2",
+    ]);
+    assert_eq!(code, 0);
+    assert!(out.contains("What was traded for speed"), "{out}");
+}

@@ -325,27 +325,33 @@ fn hypergeometric(t: &Table2) -> (u64, Vec<f64>) {
 }
 
 /// Draws Binomial(n, p) by inverting its cumulative distribution (a table prepared once).
-struct Binomial {
+pub(crate) struct Binomial {
     lo: u64,
     cdf: Vec<f64>,
 }
 
 impl Binomial {
+    /// The distribution of the yes count when resampling `n` units of which `yes` said yes.
     fn new(n: u64, yes: u64) -> Binomial {
-        if yes == 0 || yes == n {
+        Binomial::with_rate(n, yes as f64 / n as f64)
+    }
+
+    /// Binomial(n, p).
+    pub(crate) fn with_rate(n: u64, p: f64) -> Binomial {
+        if p <= 0.0 || p >= 1.0 {
             return Binomial {
-                lo: yes,
+                lo: if p <= 0.0 { 0 } else { n },
                 cdf: vec![1.0],
             };
         }
-        let p = yes as f64 / n as f64;
         let sd = (n as f64 * p * (1.0 - p)).sqrt();
-        // Beyond 40 standard deviations the probabilities are far below 2^-53.
+        // The mode, and beyond 40 standard deviations the probabilities are far below 2^-53.
+        let mode = (((n + 1) as f64 * p).floor() as u64).min(n);
         let reach = (40.0 * sd + 40.0) as u64;
-        let lo = yes.saturating_sub(reach);
-        let hi = (yes + reach).min(n);
+        let lo = mode.saturating_sub(reach);
+        let hi = (mode + reach).min(n);
         let odds = p / (1.0 - p);
-        let pmf = pmf_from_ratios(lo, hi, yes, |k| (n - k) as f64 / (k + 1) as f64 * odds);
+        let pmf = pmf_from_ratios(lo, hi, mode, |k| (n - k) as f64 / (k + 1) as f64 * odds);
         let mut acc = 0.0;
         let cdf = pmf
             .iter()
@@ -358,7 +364,7 @@ impl Binomial {
     }
 
     #[inline]
-    fn draw(&self, s: &mut Stream) -> u64 {
+    pub(crate) fn draw(&self, s: &mut Stream) -> u64 {
         let u = s.unit();
         let i = self
             .cdf
@@ -366,6 +372,30 @@ impl Binomial {
             .min(self.cdf.len() - 1);
         self.lo + i as u64
     }
+}
+
+/// The exact permutation p-value of a 2×2 table (a yes of n1 against c yes of n2) for the
+/// difference in proportions, two-sided by |difference| or one-sided, from the
+/// hypergeometric distribution with both margins fixed.
+pub fn exact_p(a: u64, n1: u64, c: u64, n2: u64, alternative: Alternative) -> f64 {
+    let t = Table2 { a, n1, c, n2 };
+    let (lo, pmf) = hypergeometric(&t);
+    let obs = (a - lo) as usize;
+    let big_n = (n1 + n2) as i128;
+    let dist = |i: usize| ((lo + i as u64) as i128 * big_n - t.m() as i128 * n1 as i128).abs();
+    let p: f64 = match alternative {
+        Alternative::Greater => pmf[obs..].iter().sum(),
+        Alternative::Less => pmf[..=obs].iter().sum(),
+        Alternative::TwoSided => {
+            let d0 = dist(obs);
+            pmf.iter()
+                .enumerate()
+                .filter(|(i, _)| dist(*i) >= d0)
+                .map(|(_, p)| p)
+                .sum()
+        }
+    };
+    p.min(1.0)
 }
 
 /// Reads the 2×2 table the request describes.
@@ -1181,6 +1211,27 @@ mod tests {
                     (rep.test.p_value - want).abs() < 1e-12,
                     "{st:?} {alt:?} {rule:?}: {} vs {want}",
                     rep.test.p_value
+                );
+            }
+        }
+    }
+
+    #[test]
+    fn exact_p_equals_the_design_p() {
+        for (a, n1, c, n2) in [(5, 9, 1, 7), (37, 48, 22, 48), (0, 15, 6, 15)] {
+            for alt in [
+                Alternative::TwoSided,
+                Alternative::Greater,
+                Alternative::Less,
+            ] {
+                let mut r = counts(a, n1, c, n2);
+                r.settings.alternative = alt;
+                r.settings.bootstrap_resamples = 200;
+                let rep = run(&r, &mut |_| true).unwrap();
+                assert_eq!(
+                    exact_p(a, n1, c, n2, alt),
+                    rep.test.p_value,
+                    "{a}/{n1} {c}/{n2} {alt:?}"
                 );
             }
         }

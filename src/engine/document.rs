@@ -36,6 +36,8 @@ pub struct Doc {
     /// "label: value" lines of results.
     pub lines: Vec<(String, String)>,
     pub tables: Vec<DocTable>,
+    /// Further headed lists (e.g. what a simulation traded for speed).
+    pub sections: Vec<(String, Vec<String>)>,
     pub methods: String,
     pub cautions: Vec<String>,
 }
@@ -99,6 +101,12 @@ impl Doc {
                 s.push_str(&format!("{}\n", line(r)));
             }
         }
+        for (head, items) in &self.sections {
+            s.push_str(&format!("\n{head}\n"));
+            for i in items {
+                s.push_str(&format!("- {i}\n"));
+            }
+        }
         s.push_str(&format!("\nMethods: {}\n\n", self.methods));
         for c in &self.cautions {
             s.push_str(&format!("- {c}\n"));
@@ -137,6 +145,12 @@ impl Doc {
                         .collect::<Vec<_>>()
                         .join(" | ")
                 ));
+            }
+        }
+        for (head, items) in &self.sections {
+            s.push_str(&format!("\n### {}\n\n", md_escape(head)));
+            for i in items {
+                s.push_str(&format!("- {}\n", md_escape(i)));
             }
         }
         s.push_str(&format!(
@@ -198,6 +212,13 @@ impl Doc {
                 f.svg,
                 escape(&f.caption)
             ));
+        }
+        for (head, items) in &self.sections {
+            b.push_str(&format!("<h2>{}</h2><ul>", escape(head)));
+            for i in items {
+                b.push_str(&format!("<li>{}</li>", escape(i)));
+            }
+            b.push_str("</ul>");
         }
         b.push_str(&format!(
             "<h2>Methods</h2><p>{}</p><div class=\"cautions\"><h2>Cautions</h2><ul>",
@@ -435,6 +456,7 @@ pub fn kgroups_doc(r: &KGroupsReport, date: &str) -> Doc {
         notes: r.notes.clone(),
         lines,
         tables: vec![groups, comparisons],
+        sections: Vec::new(),
         methods,
         cautions: r.cautions.clone(),
     }
@@ -600,6 +622,7 @@ pub fn strata_doc(r: &StrataReport, date: &str) -> Doc {
         notes: r.notes.clone(),
         lines,
         tables: vec![table],
+        sections: Vec::new(),
         methods,
         cautions: r.cautions.clone(),
     }
@@ -766,6 +789,7 @@ pub fn yesno_doc(r: &YesNoReport, date: &str) -> Doc {
         notes: r.notes.clone(),
         lines,
         tables: vec![table],
+        sections: Vec::new(),
         methods,
         cautions: r.cautions.clone(),
     }
@@ -797,6 +821,142 @@ pub fn yesno_figures(r: &YesNoReport) -> Vec<Figure> {
             caption: plot::describe_bootstrap(&bf),
         },
     ]
+}
+
+// ----- planning -------------------------------------------------------------------------
+
+pub fn plan_doc(r: &super::plan::PlanReport, date: &str) -> Doc {
+    let per = match r.design {
+        super::plan::PlanDesign::Paired => "pairs",
+        _ => "per group",
+    };
+    let finding = r.sentences.first().cloned().unwrap_or_else(|| {
+        r.notes
+            .first()
+            .cloned()
+            .unwrap_or_else(|| "No sample size reached the target power.".into())
+    });
+    let mut lines = vec![
+        ("Design".into(), r.design.key().to_string()),
+        ("Data model".into(), r.model_label.clone()),
+        ("Test".into(), r.test_label.clone()),
+        (format!("Assumed {}", r.effect_label), fmt::plain(r.effect)),
+        (
+            "Significance level".into(),
+            format!(
+                "{} ({})",
+                fmt::plain(r.alpha),
+                match r.alternative {
+                    Alternative::TwoSided => "two-sided",
+                    Alternative::Greater => "one-sided, treated higher",
+                    Alternative::Less => "one-sided, treated lower",
+                }
+            ),
+        ),
+        ("Target power".into(), fmt::percent(r.target_power)),
+    ];
+    if let Some(g) = r.first_guess {
+        lines.push((
+            "Normal-approximation first guess".into(),
+            format!("{} {per}", fmt::fixed(g, 1)),
+        ));
+    }
+    if let Some(sm) = &r.smoothed {
+        lines.push((
+            "Sample size at the target (fitted curve)".into(),
+            format!(
+                "{} {per} (estimate {} ± {}, probit fit through {} sizes)",
+                fmt::count(sm.n.ceil() as u64),
+                fmt::fixed(sm.n, 1),
+                fmt::fixed(sm.se, 1),
+                sm.points
+            ),
+        ));
+    }
+    lines.push((
+        "Smallest simulated size reaching the target".into(),
+        match &r.required {
+            Some(p) => format!(
+                "{} {per}: power {} ± {} (95% interval {} to {}, {} studies)",
+                fmt::count(p.n),
+                fmt::fixed(p.power, 3),
+                fmt::fixed(p.se, 3),
+                fmt::fixed(p.low, 3),
+                fmt::fixed(p.high, 3),
+                fmt::count(p.studies)
+            ),
+            None => "not reached within the largest size tried".into(),
+        },
+    ));
+    if let Some(d) = &r.detectable {
+        lines.push((
+            format!("Smallest detectable effect at {} {per}", d.n),
+            format!(
+                "{} (power {} ± {}; bracket {} to {})",
+                fmt::sig(d.effect),
+                fmt::fixed(d.power.power, 3),
+                fmt::fixed(d.power.se, 3),
+                fmt::sig(d.bracket.0),
+                fmt::sig(d.bracket.1)
+            ),
+        ));
+    }
+    lines.push((
+        "Seed and generator".into(),
+        format!("{} · {}", r.seed, r.rng),
+    ));
+    let table = DocTable {
+        id: "power-table",
+        caption: format!("Estimated power at the assumed {}", r.effect_label),
+        header: [
+            "n",
+            "power",
+            "± SE",
+            "95% interval",
+            "studies",
+            "stopped early",
+        ]
+        .map(String::from)
+        .to_vec(),
+        rows: r
+            .curve
+            .iter()
+            .map(|p| {
+                vec![
+                    fmt::count(p.n),
+                    fmt::fixed(p.power, 3),
+                    fmt::fixed(p.se, 3),
+                    format!("[{}, {}]", fmt::fixed(p.low, 3), fmt::fixed(p.high, 3)),
+                    fmt::count(p.studies),
+                    if p.stopped_early { "yes" } else { "no" }.into(),
+                ]
+            })
+            .collect(),
+    };
+    let mut notes = r.notes.clone();
+    notes.extend(r.sentences.iter().skip(1).cloned());
+    Doc {
+        finding,
+        notes,
+        lines,
+        tables: vec![table],
+        sections: vec![("What was traded for speed".into(), r.tradeoffs.clone())],
+        methods: format!(
+            "Power by simulation: each simulated study draws data from {}, runs {}, and rejects \
+             when p ≤ {}. The sample size at the target is read off a curve fitted through \
+             every simulated size (probit of the power linear in √n, weighted by each point's \
+             simulation variance), with a delta-method error that covers the simulation only, \
+             not the fit's own shape. Random numbers: {}, seed {}; the studies at each sample size and \
+             effect draw from a seed derived from it. Computed with Reshuffle {} on {date}.",
+            r.model_label,
+            r.test_label,
+            fmt::plain(r.alpha),
+            r.rng,
+            r.seed,
+            r.engine_version
+        ),
+        cautions: r.cautions.clone(),
+    }
 }
 
 /// (quantity, value) pairs at full precision, for the results CSV of the new designs.
@@ -878,6 +1038,21 @@ fn results_rows(rep: &AnyReport) -> Vec<Vec<String>> {
                 rows.push(row(&format!("group:{name}"), "n", r.n[i].to_string()));
             }
         }
+        AnyReport::Plan(r) => {
+            for p in &r.curve {
+                let part = format!("n:{}", p.n);
+                rows.push(row(&part, "power", format!("{:?}", p.power)));
+                rows.push(row(&part, "se", format!("{:?}", p.se)));
+                rows.push(row(&part, "studies", p.studies.to_string()));
+            }
+            if let Some(p) = &r.required {
+                rows.push(row("required", "n", p.n.to_string()));
+            }
+            if let Some(d) = &r.detectable {
+                rows.push(row("detectable", "effect", format!("{:?}", d.effect)));
+            }
+            rows.push(row("run", "seed", r.seed.to_string()));
+        }
         _ => {}
     }
     rows
@@ -891,6 +1066,7 @@ impl AnyReport {
             AnyReport::KGroups(r) => Some(kgroups_doc(r, date)),
             AnyReport::Stratified(r) => Some(strata_doc(r, date)),
             AnyReport::YesNo(r) => Some(yesno_doc(r, date)),
+            AnyReport::Plan(r) => Some(plan_doc(r, date)),
             _ => None,
         }
     }
@@ -905,6 +1081,7 @@ impl AnyReport {
             AnyReport::KGroups(r) => serde_json::to_string_pretty(r),
             AnyReport::Stratified(r) => serde_json::to_string_pretty(r),
             AnyReport::YesNo(r) => serde_json::to_string_pretty(r),
+            AnyReport::Plan(r) => serde_json::to_string_pretty(r),
         }
     }
 
@@ -1010,6 +1187,11 @@ impl AnyReport {
             AnyReport::KGroups(r) => kgroups_figures(r),
             AnyReport::Stratified(r) => strata_figures(r),
             AnyReport::YesNo(r) => yesno_figures(r),
+            AnyReport::Plan(r) => vec![Figure {
+                name: "power",
+                svg: plot::power_svg(r, "plan-power"),
+                caption: plot::describe_power(r),
+            }],
         }
     }
 
@@ -1077,6 +1259,7 @@ impl AnyReport {
             AnyReport::KGroups(_) => "k-groups",
             AnyReport::Stratified(_) => "stratified",
             AnyReport::YesNo(_) => "yes-no",
+            AnyReport::Plan(_) => "plan",
         }
     }
 
@@ -1090,6 +1273,7 @@ impl AnyReport {
             AnyReport::KGroups(r) => &r.finding,
             AnyReport::Stratified(r) => &r.finding,
             AnyReport::YesNo(r) => &r.finding,
+            AnyReport::Plan(r) => r.sentences.first().map_or("", String::as_str),
         }
     }
 }

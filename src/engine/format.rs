@@ -74,6 +74,16 @@ pub fn sig(x: f64) -> String {
     fixed(x, dec)
 }
 
+/// A number as a person would type it: about four significant digits, no trailing zeros
+/// ("0.5", "1", "0.05", "1.234e-5").
+pub fn plain(x: f64) -> String {
+    let s = sig(x);
+    if s.contains('e') || !s.contains('.') {
+        return s;
+    }
+    s.trim_end_matches('0').trim_end_matches('.').to_string()
+}
+
 /// Integer with thousands separators: 100000 -> "100,000".
 pub fn count(n: u64) -> String {
     let s = n.to_string();
@@ -154,6 +164,10 @@ mod tests {
         assert_eq!(percent(0.995), "99.5%");
         assert_eq!(ci(0.95, 0.3, 1.5, 2), "95% CI [0.30, 1.50]");
         assert_eq!(fixed(-0.0001, 2), "0.00");
+        assert_eq!(plain(0.5), "0.5");
+        assert_eq!(plain(1.0), "1");
+        assert_eq!(plain(0.05), "0.05");
+        assert_eq!(plain(12.25), "12.25");
         assert_eq!(percent_share(0.312), "31.2%");
         assert_eq!(percent_share(0.004), "0.4%");
         assert_eq!(percent_share(0.5), "50%");

@@ -165,7 +165,7 @@ struct Scratch {
 }
 
 /// Everything a relabelling needs, prepared once.
-struct KSetup {
+pub(crate) struct KSetup {
     statistic: KStatistic,
     /// Pooled values centred at the pooled mean, sorted ascending.
     pool: Vec<f64>,
@@ -176,12 +176,12 @@ struct KSetup {
     total: f64,
     total_sq: f64,
     pooled_median: f64,
-    observed: f64,
+    pub(crate) observed: f64,
     tolerance: f64,
 }
 
 impl KSetup {
-    fn new(statistic: KStatistic, groups: &[Vec<f64>]) -> KSetup {
+    pub(crate) fn new(statistic: KStatistic, groups: &[Vec<f64>]) -> KSetup {
         let n: usize = groups.iter().map(Vec::len).sum();
         let centre = groups.iter().flatten().sum::<f64>() / n as f64;
         let mut tagged: Vec<(f64, u16)> = groups
@@ -281,7 +281,7 @@ impl KSetup {
     }
 
     /// One block of random relabellings (a full Fisher–Yates shuffle of the labels each).
-    fn random_block(&self, mut stream: Stream, len: u64) -> (Counts, Vec<f64>) {
+    pub(crate) fn random_block(&self, mut stream: Stream, len: u64) -> (Counts, Vec<f64>) {
         let mut labels = self.labels.clone();
         let mut scratch = self.scratch();
         let mut counts = Counts::default();

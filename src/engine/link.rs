@@ -89,14 +89,7 @@ pub fn decode(text: &str) -> Result<Job, String> {
 /// The same job without its data, for a settings-only link.
 pub fn without_data(job: &Job) -> Job {
     let mut j = job.clone();
-    j.data_mut().clear();
-    if let Job::YesNo(r) = &mut j {
-        if let super::binary::YesNoInput::Counts { groups } = &mut r.input {
-            for g in groups {
-                (g.yes, g.n) = (0, 0);
-            }
-        }
-    }
+    j.clear_data();
     j
 }
 

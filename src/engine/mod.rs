@@ -18,6 +18,7 @@ pub mod multiple;
 pub mod normal;
 pub mod paired;
 pub mod perm;
+pub mod plan;
 pub mod plot;
 pub mod protocol;
 pub mod report;

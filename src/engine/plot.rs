@@ -786,6 +786,103 @@ pub fn describe_strata(r: &super::strata::StrataReport) -> String {
     )
 }
 
+/// A power curve: the estimated power at each sample size with its 95% simulation interval,
+/// the target as a dashed line and the required size marked.
+pub fn power_svg(r: &super::plan::PlanReport, id: &str) -> String {
+    let mut out = String::new();
+    let desc = describe_power(r);
+    open(
+        &mut out,
+        id,
+        &format!("Estimated power by sample size ({})", r.design.key()),
+        &desc,
+    );
+    if r.curve.is_empty() {
+        out.push_str("</svg>");
+        return out;
+    }
+    let xs: Vec<f64> = r.curve.iter().map(|p| p.n as f64).collect();
+    let (lo, hi) = xs
+        .iter()
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(l, h), x| {
+            (l.min(*x), h.max(*x))
+        });
+    let pad = if hi > lo { (hi - lo) * 0.05 } else { 1.0 };
+    let f = Frame {
+        lo: (lo - pad).max(0.0),
+        hi: hi + pad,
+        ymax: 1.0,
+        probability: true,
+    };
+    legend(
+        &mut out,
+        &[
+            ("estimated power (bar: 95% interval)", BODY),
+            ("target", INK),
+        ],
+    );
+    axes(&mut out, &f, "sample size (per group, or pairs)", "power");
+    let yt = f.y(r.target_power);
+    out.push_str(&format!(
+        r#"<line x1="{LEFT}" x2="{:.1}" y1="{yt:.1}" y2="{yt:.1}" stroke="{INK}" stroke-width="1.5" stroke-dasharray="5 3"/><text x="{:.1}" y="{:.1}" font-size="11" fill="{INK}" text-anchor="end">target {}</text>"#,
+        W - RIGHT,
+        W - RIGHT,
+        yt - 4.0,
+        fmt::percent(r.target_power)
+    ));
+    let mut pts: Vec<(f64, f64)> = Vec::new();
+    for p in &r.curve {
+        let x = f.x(p.n as f64);
+        out.push_str(&format!(
+            r#"<line x1="{x:.1}" x2="{x:.1}" y1="{:.1}" y2="{:.1}" stroke="{OUTSIDE}" stroke-width="2"/>"#,
+            f.y(p.low),
+            f.y(p.high)
+        ));
+        pts.push((x, f.y(p.power)));
+    }
+    let path: Vec<String> = pts.iter().map(|(x, y)| format!("{x:.1},{y:.1}")).collect();
+    out.push_str(&format!(
+        r#"<polyline points="{}" fill="none" stroke="{BODY}" stroke-width="1.5"/>"#,
+        path.join(" ")
+    ));
+    for (x, y) in &pts {
+        out.push_str(&format!(
+            r#"<circle cx="{x:.1}" cy="{y:.1}" r="4" fill="{BODY}" stroke="white" stroke-width="1"/>"#
+        ));
+    }
+    if let Some(req) = &r.required {
+        marker(
+            &mut out,
+            &f,
+            req.n as f64,
+            &format!("reached at n = {}", req.n),
+            true,
+            req.n as f64 > 0.5 * (f.lo + f.hi),
+        );
+    }
+    out.push_str("</svg>");
+    out
+}
+
+pub fn describe_power(r: &super::plan::PlanReport) -> String {
+    let pts: Vec<String> = r
+        .curve
+        .iter()
+        .map(|p| format!("n = {}: {}", p.n, fmt::fixed(p.power, 2)))
+        .collect();
+    format!(
+        "Estimated power (vertical, 0 to 1) against the sample size (horizontal), each point \
+         from up to {} simulated studies with its 95% interval as a bar; the dashed line is the \
+         target power {}{}. {}.",
+        fmt::count(r.studies),
+        fmt::percent(r.target_power),
+        r.required
+            .as_ref()
+            .map_or(String::new(), |p| format!(", first reached at n = {}", p.n)),
+        pts.join("; ")
+    )
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

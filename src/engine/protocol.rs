@@ -476,6 +476,7 @@ pub enum Job {
     KGroups(super::kgroups::KGroupsRequest),
     Stratified(super::strata::StrataRequest),
     YesNo(super::binary::YesNoRequest),
+    Plan(super::plan::PlanRequest),
 }
 
 /// The report of any job.
@@ -489,6 +490,7 @@ pub enum AnyReport {
     KGroups(super::kgroups::KGroupsReport),
     Stratified(super::strata::StrataReport),
     YesNo(super::binary::YesNoReport),
+    Plan(super::plan::PlanReport),
 }
 
 impl Job {
@@ -505,6 +507,7 @@ impl Job {
             Job::KGroups(r) => AnyReport::KGroups(super::kgroups::run(r, progress)?),
             Job::Stratified(r) => AnyReport::Stratified(super::strata::run(r, progress)?),
             Job::YesNo(r) => AnyReport::YesNo(super::binary::run(r, progress)?),
+            Job::Plan(r) => AnyReport::Plan(super::plan::run(r, progress)?),
         })
     }
 
@@ -517,6 +520,7 @@ impl Job {
             Job::KGroups(r) => r.format_version,
             Job::Stratified(r) => r.format_version,
             Job::YesNo(r) => r.format_version,
+            Job::Plan(r) => r.format_version,
         }
     }
 
@@ -529,10 +533,11 @@ impl Job {
             Job::KGroups(r) => r.settings.seed,
             Job::Stratified(r) => r.settings.seed,
             Job::YesNo(r) => r.settings.seed,
+            Job::Plan(r) => r.seed,
         }
     }
 
-    /// The pasted table the job reads.
+    /// The pasted table the job reads ("" when it reads none).
     pub fn data(&self) -> &str {
         match self {
             Job::Compare(r) => &r.data,
@@ -542,25 +547,49 @@ impl Job {
             Job::KGroups(r) => &r.data,
             Job::Stratified(r) => &r.data,
             Job::YesNo(r) => &r.data,
+            Job::Plan(r) => match &r.model {
+                super::plan::PlanModel::Pilot { data, .. } => data,
+                _ => "",
+            },
         }
     }
 
-    pub fn data_mut(&mut self) -> &mut String {
+    /// Removes the data (and typed counts), keeping the settings: for a settings-only link.
+    pub fn clear_data(&mut self) {
         match self {
-            Job::Compare(r) => &mut r.data,
-            Job::Estimate(r) => &mut r.data,
-            Job::Paired(r) => &mut r.data,
-            Job::Association(r) => &mut r.data,
-            Job::KGroups(r) => &mut r.data,
-            Job::Stratified(r) => &mut r.data,
-            Job::YesNo(r) => &mut r.data,
+            Job::Compare(r) => r.data.clear(),
+            Job::Estimate(r) => r.data.clear(),
+            Job::Paired(r) => r.data.clear(),
+            Job::Association(r) => r.data.clear(),
+            Job::KGroups(r) => r.data.clear(),
+            Job::Stratified(r) => r.data.clear(),
+            Job::YesNo(r) => {
+                r.data.clear();
+                if let super::binary::YesNoInput::Counts { groups } = &mut r.input {
+                    for g in groups {
+                        (g.yes, g.n) = (0, 0);
+                    }
+                }
+            }
+            Job::Plan(r) => {
+                if let super::plan::PlanModel::Pilot { data, .. } = &mut r.model {
+                    data.clear();
+                }
+            }
         }
     }
 
     /// Whether the job carries what it analyses (a settings-only link does not).
     pub fn has_data(&self) -> bool {
         match self {
-            Job::YesNo(r) if matches!(r.input, super::binary::YesNoInput::Counts { .. }) => true,
+            Job::YesNo(r) => match &r.input {
+                super::binary::YesNoInput::Counts { groups } => groups.iter().all(|g| g.n > 0),
+                _ => !r.data.trim().is_empty(),
+            },
+            Job::Plan(r) => {
+                !matches!(r.model, super::plan::PlanModel::Pilot { .. })
+                    || !self.data().trim().is_empty()
+            }
             j => !j.data().trim().is_empty(),
         }
     }

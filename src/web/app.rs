@@ -19,6 +19,7 @@ use crate::engine::groups;
 use crate::engine::kgroups::{KGroupsRequest, KStatistic};
 use crate::engine::link;
 use crate::engine::paired::{PairedLayout, PairedReport, PairedRequest};
+use crate::engine::plan::{PlanDesign, PlanModel, PlanRequest};
 use crate::engine::plot;
 use crate::engine::protocol::*;
 use crate::engine::report;
@@ -334,6 +335,24 @@ fn App() -> impl IntoView {
     let yn_source = RwSignal::new("table".to_string());
     let counts_text = RwSignal::new("control: 42/300, new: 61/310".to_string());
     let yn_stat = RwSignal::new(YesNoStatistic::ProportionDifference);
+    // Planning a study.
+    let plan_design = RwSignal::new("two-groups".to_string());
+    let plan_model = RwSignal::new("normal".to_string());
+    let plan_sd = RwSignal::new("1".to_string());
+    let plan_value = RwSignal::new(String::new());
+    let plan_multiply = RwSignal::new(false);
+    let plan_effect = RwSignal::new("0.5".to_string());
+    let plan_means = RwSignal::new("0, 0, 0.5".to_string());
+    let plan_baseline = RwSignal::new("0.14".to_string());
+    let plan_rate = RwSignal::new("0.20".to_string());
+    let plan_stat = RwSignal::new(String::new());
+    let plan_alpha = RwSignal::new("0.05".to_string());
+    let plan_power = RwSignal::new("80".to_string());
+    let plan_alt = RwSignal::new(Alternative::TwoSided);
+    let plan_mde_n = RwSignal::new(String::new());
+    let plan_studies = RwSignal::new("1000".to_string());
+    let plan_relabellings = RwSignal::new("199".to_string());
+    let plan_max_n = RwSignal::new("2000".to_string());
     // The shape (column names and kinds) of the table last seen, to notice a new table.
     let shape_seen = RwSignal::new(String::new());
     let suggestion_note = RwSignal::new(String::new());
@@ -341,10 +360,10 @@ fn App() -> impl IntoView {
     // The result on screen: the last one, if it belongs to the question now chosen.
     let shown = Memo::new(move |_| -> Option<AnyReport> {
         let r = result.get()?;
-        let wanted = if mode.get() == "estimate" {
-            "estimate".to_string()
-        } else {
-            design.get()
+        let wanted = match mode.get().as_str() {
+            "estimate" => "estimate".to_string(),
+            "plan" => "plan".to_string(),
+            _ => design.get(),
         };
         (r.design() == wanted).then_some(r)
     });
@@ -439,6 +458,9 @@ fn App() -> impl IntoView {
         let pick = |i: usize| numeric.get(i).or(names.get(i)).cloned().unwrap_or_default();
         if !names.contains(&est_value.get_untracked()) {
             est_value.set(pick(0));
+        }
+        if !names.contains(&plan_value.get_untracked()) {
+            plan_value.set(pick(0));
         }
         if !names.contains(&est_x.get_untracked()) || !names.contains(&est_y.get_untracked()) {
             est_x.set(pick(0));
@@ -596,7 +618,68 @@ fn App() -> impl IntoView {
         r.confidence = if level > 1.0 { level / 100.0 } else { level };
         Ok(r)
     };
+    let build_plan = move |seed_value: u64| -> Result<Job, String> {
+        let num = |label: &str, text: String| -> Result<f64, String> {
+            text.trim()
+                .trim_end_matches('%')
+                .replace(',', ".")
+                .parse::<f64>()
+                .map_err(|_| format!("{label}: \"{text}\" is not a number."))
+        };
+        let d = PlanDesign::from_key(&plan_design.get_untracked()).unwrap_or(PlanDesign::TwoGroups);
+        let model = if d == PlanDesign::YesNo {
+            PlanModel::Rates {
+                baseline: num("Baseline rate", plan_baseline.get_untracked())?,
+            }
+        } else if plan_model.get_untracked() == "pilot" {
+            PlanModel::Pilot {
+                data: data.get_untracked(),
+                header: header.get_untracked(),
+                value: plan_value.get_untracked(),
+                multiply: plan_multiply.get_untracked() && d == PlanDesign::TwoGroups,
+            }
+        } else {
+            PlanModel::Normal {
+                sd: num("Standard deviation", plan_sd.get_untracked())?,
+            }
+        };
+        let effect = match d {
+            PlanDesign::YesNo => {
+                num("Yes rate in the treated group", plan_rate.get_untracked())?
+                    - num("Baseline rate", plan_baseline.get_untracked())?
+            }
+            PlanDesign::KGroups => 1.0,
+            _ => num("Effect to detect", plan_effect.get_untracked())?,
+        };
+        let mut r = PlanRequest::new(d, model, effect, seed_value);
+        if d == PlanDesign::KGroups {
+            r.means = plan_means
+                .get_untracked()
+                .split([',', ';', ' '])
+                .filter(|t| !t.trim().is_empty())
+                .map(|t| num("Group means", t.to_string()))
+                .collect::<Result<Vec<f64>, String>>()?;
+        }
+        r.statistic = plan_stat.get_untracked();
+        r.alpha = num("Significance level", plan_alpha.get_untracked())?;
+        let pw = num("Target power", plan_power.get_untracked())?;
+        r.target_power = if pw > 1.0 { pw / 100.0 } else { pw };
+        r.alternative = plan_alt.get_untracked();
+        r.studies = parse_count("Simulated studies per size", &plan_studies.get_untracked())?;
+        r.relabellings = parse_count("Relabellings per study", &plan_relabellings.get_untracked())?;
+        r.max_n = parse_count("Largest size to try", &plan_max_n.get_untracked())?;
+        let m = plan_mde_n.get_untracked();
+        r.mde_n = if m.trim().is_empty() {
+            None
+        } else {
+            Some(parse_count("Size for the detectable effect", &m)?)
+        };
+        Ok(Job::Plan(r))
+    };
     let build_job = move |seed_value: u64| -> Result<Job, String> {
+        if mode.get_untracked() == "plan" {
+            return build_plan(seed_value);
+        }
         let base = build_request(seed_value)?;
         if mode.get_untracked() == "compare" {
             let d = design.get_untracked();
@@ -856,6 +939,27 @@ fn App() -> impl IntoView {
             counts_text.get(),
             yn_stat.get(),
         );
+        let _ = (
+            plan_design.get(),
+            plan_model.get(),
+            plan_sd.get(),
+            plan_value.get(),
+            plan_multiply.get(),
+            plan_effect.get(),
+            plan_means.get(),
+            plan_baseline.get(),
+            plan_rate.get(),
+            plan_stat.get(),
+            plan_alpha.get(),
+            plan_power.get(),
+            plan_alt.get(),
+            plan_mde_n.get(),
+        );
+        let _ = (
+            plan_studies.get(),
+            plan_relabellings.get(),
+            plan_max_n.get(),
+        );
         let s = parse_count("Seed", &seed.get()).unwrap_or(last.seed());
         match build_job(s) {
             Ok(now) => now != last,
@@ -905,6 +1009,16 @@ fn App() -> impl IntoView {
                 settings_request(&r.data, r.header, &r.settings),
                 r.settings.seed,
             ),
+            Job::Plan(r) => {
+                // A plan from a pilot carries its table; otherwise the data box stays.
+                let (d, h) = match &r.model {
+                    PlanModel::Pilot { data, header, .. } => (data.clone(), *header),
+                    _ => (data.get_untracked(), header.get_untracked()),
+                };
+                let mut b = Request::new(d, r.seed);
+                b.header = h;
+                (b, r.seed)
+            }
         };
         // The restored table's shape is not a new table: keep the design the job names.
         shape_seen.set(shape_of(&base.data, base.header));
@@ -1090,6 +1204,47 @@ fn App() -> impl IntoView {
                         );
                     }
                 }
+            }
+            Job::Plan(r) => {
+                mode.set("plan".into());
+                plan_design.set(r.design.key().into());
+                match &r.model {
+                    PlanModel::Normal { sd } => {
+                        plan_model.set("normal".into());
+                        plan_sd.set(format!("{sd}"));
+                    }
+                    PlanModel::Pilot {
+                        value, multiply, ..
+                    } => {
+                        plan_model.set("pilot".into());
+                        plan_value.set(value.clone());
+                        plan_multiply.set(*multiply);
+                    }
+                    PlanModel::Rates { baseline } => {
+                        plan_baseline.set(format!("{baseline}"));
+                        plan_rate.set(format!("{}", baseline + r.effect));
+                    }
+                }
+                if r.design != PlanDesign::YesNo && r.design != PlanDesign::KGroups {
+                    plan_effect.set(format!("{}", r.effect));
+                }
+                if !r.means.is_empty() {
+                    plan_means.set(
+                        r.means
+                            .iter()
+                            .map(|m| format!("{}", m * r.effect))
+                            .collect::<Vec<_>>()
+                            .join(", "),
+                    );
+                }
+                plan_stat.set(r.statistic.clone());
+                plan_alpha.set(format!("{}", r.alpha));
+                plan_power.set(format!("{}", (r.target_power * 1e6).round() / 1e4));
+                plan_alt.set(r.alternative);
+                plan_studies.set(r.studies.to_string());
+                plan_relabellings.set(r.relabellings.to_string());
+                plan_max_n.set(r.max_n.to_string());
+                plan_mde_n.set(r.mde_n.map(|n| n.to_string()).unwrap_or_default());
             }
             Job::Estimate(r) => {
                 mode.set("estimate".into());
@@ -1385,7 +1540,119 @@ fn App() -> impl IntoView {
                             on:change=move |_| mode.set("estimate".into())/>
                         "How large something is, with a confidence interval (bootstrap only, no test)"
                     </label>
+                    <label class="choice">
+                        <input type="radio" name="mode" id="mode-plan" value="plan" prop:checked=move || mode.get() == "plan"
+                            on:change=move |_| mode.set("plan".into())/>
+                        "How many units a new study needs, or what it could detect (power by simulation)"
+                    </label>
                 </fieldset>
+                <div class="plan-options" id="plan-options" style:display=move || if mode.get() == "plan" { "block" } else { "none" }>
+                    <div class="row">
+                        <label for="plan-design">"The study will compare"</label>
+                        <select id="plan-design" on:change=move |ev| { plan_design.set(event_target_value(&ev)); plan_stat.set(String::new()); }>
+                            <option value="two-groups" selected=move || plan_design.get() == "two-groups">"two independent groups"</option>
+                            <option value="paired" selected=move || plan_design.get() == "paired">"paired measurements"</option>
+                            <option value="k-groups" selected=move || plan_design.get() == "k-groups">"three or more groups"</option>
+                            <option value="yes-no" selected=move || plan_design.get() == "yes-no">"yes/no outcomes in two groups"</option>
+                        </select>
+                        <label for="plan-stat">"measured by"</label>
+                        <select id="plan-stat" on:change=move |ev| plan_stat.set(event_target_value(&ev))>
+                            {move || {
+                                let opts: Vec<(&str, &str)> = match plan_design.get().as_str() {
+                                    "paired" => vec![("mean", "the mean difference"), ("median", "the median difference")],
+                                    "k-groups" => vec![("f", "F statistic"), ("welch-f", "Welch F"), ("median-spread", "spread of the medians")],
+                                    "yes-no" => vec![("proportion-difference", "difference in proportions (exact test)")],
+                                    _ => vec![("mean-difference", "difference in means"), ("welch-t", "Welch t"), ("median-difference", "difference in medians"), ("trimmed-mean-difference", "difference in 20% trimmed means")],
+                                };
+                                opts.into_iter().map(|(k, l)| view! {
+                                    <option value=k selected=move || plan_stat.get() == k>{l}</option>
+                                }).collect_view()
+                            }}
+                        </select>
+                    </div>
+                    <fieldset style:display=move || if plan_design.get() == "yes-no" { "none" } else { "block" }>
+                        <legend>"What the data will look like"</legend>
+                        <label class="choice">
+                            <input type="radio" name="plan-model" value="normal" prop:checked=move || plan_model.get() == "normal"
+                                on:change=move |_| plan_model.set("normal".into())/>
+                            "Normal values with a standard deviation of "
+                            <input id="plan-sd" inputmode="decimal" size="6" aria-label="Standard deviation" prop:value=move || plan_sd.get()
+                                on:input=move |ev| plan_sd.set(event_target_value(&ev))/>
+                            {move || if plan_design.get() == "paired" { " (of the differences)" } else { "" }}
+                        </label>
+                        <label class="choice">
+                            <input type="radio" name="plan-model" value="pilot" id="plan-pilot-choice" prop:checked=move || plan_model.get() == "pilot"
+                                on:change=move |_| plan_model.set("pilot".into())/>
+                            "Like the pilot values in column "
+                        </label>
+                        <div class="row" style:display=move || if plan_model.get() == "pilot" { "flex" } else { "none" }>
+                            <ColumnSelect id="plan-value" options=Signal::derive(column_options) chosen=plan_value/>
+                            <label class="choice inline" style:display=move || if plan_design.get() == "two-groups" { "inline" } else { "none" }>
+                                <input type="checkbox" id="plan-multiply" prop:checked=move || plan_multiply.get()
+                                    on:change=move |ev| plan_multiply.set(event_target_checked(&ev))/>
+                                " the effect multiplies the values (a ratio; positive data)"
+                            </label>
+                        </div>
+                        <p class="hint" style:display=move || if plan_model.get() == "pilot" { "block" } else { "none" }>
+                            "Each simulated group is drawn from these values (centred at their mean), with the assumed effect added to (or multiplying) the treated group's values. For paired data the column holds pilot differences."
+                        </p>
+                    </fieldset>
+                    <div class="row" style:display=move || if matches!(plan_design.get().as_str(), "two-groups" | "paired") { "flex" } else { "none" }>
+                        <label for="plan-effect">{move || if plan_multiply.get() && plan_model.get() == "pilot" && plan_design.get() == "two-groups" { "Ratio to detect (treated / reference)" } else if plan_design.get() == "paired" { "Mean difference to detect" } else { "Difference in means to detect (treated − reference)" }}</label>
+                        <input id="plan-effect" inputmode="decimal" size="8" prop:value=move || plan_effect.get()
+                            on:input=move |ev| plan_effect.set(event_target_value(&ev))/>
+                    </div>
+                    <div class="row" style:display=move || if plan_design.get() == "k-groups" { "flex" } else { "none" }>
+                        <label for="plan-means">"Assumed group means"</label>
+                        <input id="plan-means" size="24" prop:value=move || plan_means.get()
+                            on:input=move |ev| plan_means.set(event_target_value(&ev))/>
+                        <span class="hint">"one per group, e.g. 0, 0, 0.5"</span>
+                    </div>
+                    <div class="row" style:display=move || if plan_design.get() == "yes-no" { "flex" } else { "none" }>
+                        <label for="plan-baseline">"Yes rate in the reference group"</label>
+                        <input id="plan-baseline" inputmode="decimal" size="6" prop:value=move || plan_baseline.get()
+                            on:input=move |ev| plan_baseline.set(event_target_value(&ev))/>
+                        <label for="plan-rate">"and in the treated group"</label>
+                        <input id="plan-rate" inputmode="decimal" size="6" prop:value=move || plan_rate.get()
+                            on:input=move |ev| plan_rate.set(event_target_value(&ev))/>
+                    </div>
+                    <div class="row">
+                        <label for="plan-alpha">"Significance level"</label>
+                        <input id="plan-alpha" inputmode="decimal" size="6" prop:value=move || plan_alpha.get()
+                            on:input=move |ev| plan_alpha.set(event_target_value(&ev))/>
+                        <label for="plan-alt">"test"</label>
+                        <select id="plan-alt" on:change=move |ev| {
+                            if let Some(a) = Alternative::from_key(&event_target_value(&ev)) { plan_alt.set(a) }
+                        }>
+                            <option value="two-sided" selected=move || plan_alt.get() == Alternative::TwoSided>"two-sided"</option>
+                            <option value="greater" selected=move || plan_alt.get() == Alternative::Greater>"one-sided: treated higher"</option>
+                            <option value="less" selected=move || plan_alt.get() == Alternative::Less>"one-sided: treated lower"</option>
+                        </select>
+                        <label for="plan-power">"Target power (%)"</label>
+                        <input id="plan-power" inputmode="decimal" size="5" prop:value=move || plan_power.get()
+                            on:input=move |ev| plan_power.set(event_target_value(&ev))/>
+                    </div>
+                    <div class="row">
+                        <label for="plan-mde-n">"Also: the smallest effect detectable with this many units per group"</label>
+                        <input id="plan-mde-n" inputmode="numeric" size="7" placeholder="(optional)" prop:value=move || plan_mde_n.get()
+                            on:input=move |ev| plan_mde_n.set(event_target_value(&ev))/>
+                    </div>
+                    <details class="settings">
+                        <summary>"Simulation settings"</summary>
+                        <div class="grid">
+                            <label for="plan-studies">"Simulated studies per sample size"</label>
+                            <input id="plan-studies" inputmode="numeric" prop:value=move || plan_studies.get()
+                                on:input=move |ev| plan_studies.set(event_target_value(&ev))/>
+                            <label for="plan-relabellings">"Random relabellings per simulated study"</label>
+                            <input id="plan-relabellings" inputmode="numeric" prop:value=move || plan_relabellings.get()
+                                on:input=move |ev| plan_relabellings.set(event_target_value(&ev))/>
+                            <label for="plan-max-n">"Largest sample size to try"</label>
+                            <input id="plan-max-n" inputmode="numeric" prop:value=move || plan_max_n.get()
+                                on:input=move |ev| plan_max_n.set(event_target_value(&ev))/>
+                        </div>
+                        <p class="hint">"Power is estimated from simulated studies, each analysed with a modest number of relabellings: fewer relabellings and studies run faster but add simulation error and lose a little power. The findings say what was traded."</p>
+                    </details>
+                </div>
                 <div class="estimate-options" style:display=move || if mode.get() == "estimate" { "block" } else { "none" }>
                     <div class="row">
                         <label for="est-kind">"Estimate"</label>
@@ -1732,8 +1999,8 @@ fn App() -> impl IntoView {
                 </fieldset>
                 </div>
                 <details class="settings">
-                    <summary>"Resampling settings"</summary>
-                    <div class="grid" class:estimating=move || mode.get() == "estimate">
+                    <summary>{move || if mode.get() == "plan" { "Seed" } else { "Resampling settings" }}</summary>
+                    <div class="grid" class:estimating=move || mode.get() == "estimate" class:planning=move || mode.get() == "plan">
                         <label class="compare-only" for="resamples">"Random relabellings (or sign patterns)"</label>
                         <input class="compare-only" id="resamples" inputmode="numeric" prop:value=move || resamples.get()
                             on:input=move |ev| resamples.set(event_target_value(&ev))/>
@@ -1762,8 +2029,8 @@ fn App() -> impl IntoView {
                             <option value="absolute">"count |relabelled| ≥ |observed|"</option>
                             <option value="doubled-tail">"twice the smaller one-sided p"</option>
                         </select>
-                        <label for="seed">"Seed (blank: a new one)"</label>
-                        <div class="seed-row">
+                        <label class="seed-field" for="seed">"Seed (blank: a new one)"</label>
+                        <div class="seed-row seed-field">
                             <input id="seed" inputmode="numeric" prop:value=move || seed.get()
                                 on:input=move |ev| seed.set(event_target_value(&ev))/>
                             <button type="button" class="secondary" on:click=move |_| seed.set(fresh_seed().to_string())>"New seed"</button>
@@ -1772,7 +2039,7 @@ fn App() -> impl IntoView {
                 </details>
                 <div class="actions">
                     <button type="button" id="run" class="primary" disabled=move || running.get() || parsed.get().is_err()
-                        on:click=move |_| run()>"Run analysis"</button>
+                        on:click=move |_| run()>{move || if mode.get() == "plan" { "Run the simulation" } else { "Run analysis" }}</button>
                     <button type="button" id="stop" class="secondary" disabled=move || !running.get()
                         on:click=move |_| stop()>"Stop"</button>
                 </div>
@@ -2287,11 +2554,18 @@ fn DocFindings(report: AnyReport) -> impl IntoView {
         AnyReport::KGroups(r) => (r.test.p_value, r.ci.low, r.ci.high),
         AnyReport::Stratified(r) => (r.test.p_value, r.ci.low, r.ci.high),
         AnyReport::YesNo(r) => (r.test.p_value, r.ci.low, r.ci.high),
+        // For a plan: the fitted sample size and its simulation error.
+        AnyReport::Plan(r) => (
+            f64::NAN,
+            r.smoothed.as_ref().map(|s| s.n),
+            r.smoothed.as_ref().map(|s| s.se),
+        ),
         _ => (f64::NAN, None, None),
     };
     let id = match report.design() {
         "k-groups" => "k-findings",
         "stratified" => "strata-findings",
+        "plan" => "plan-findings",
         _ => "yes-no-findings",
     };
     view! {
@@ -2326,6 +2600,12 @@ fn DocFindings(report: AnyReport) -> impl IntoView {
                     </tbody>
                 </table>
                 </div>
+            }).collect_view()}
+            {doc.sections.iter().map(|(head, items)| view! {
+                <section class="doc-section">
+                    <h3>{head.clone()}</h3>
+                    <ul>{items.iter().map(|i| view! { <li>{i.clone()}</li> }).collect_view()}</ul>
+                </section>
             }).collect_view()}
             <details class="methods">
                 <summary>"Methods (for a report)"</summary>

@@ -63,7 +63,7 @@ test("the demo analysis runs in the worker and shows the finding and both plots"
   // The default example (invented tomato data) is loaded, with a preview.
   await page.waitForSelector("#preview table");
   assert.match(await page.textContent("#preview"), /yield_kg/);
-  await page.click("summary");
+  await page.click("details:has(#seed) > summary");
   await page.fill("#seed", "2024");
   await page.click("#run");
   await page.waitForSelector("#finding", { timeout: 60000 });
@@ -118,7 +118,7 @@ test("a broken table gets a specific message and the pasted text is kept", async
 
 test("a long run shows progress and can be stopped", async () => {
   const { page } = await openPage();
-  await page.click("summary");
+  await page.click("details:has(#seed) > summary");
   await page.fill("#resamples", "10000000");
   await page.selectOption("#statistic", "median-difference");
   await page.click("#run");
@@ -144,7 +144,7 @@ test("the page and the native command give bit-identical numbers for the same se
   await page.waitForFunction(() => /north_desk/.test(document.querySelector("#preview")?.textContent || ""));
   await page.selectOption("#first", "harbour_desk");
   await page.selectOption("#statistic", "median-difference");
-  await page.click("summary");
+  await page.click("details:has(#seed) > summary");
   await page.fill("#seed", "31337");
   await page.click("#run");
   await page.waitForSelector("#finding", { timeout: 60000 });
@@ -169,7 +169,7 @@ test("markup in the data is shown as text, never run", async () => {
   const hostile = 'y,g\n1,<img src=x onerror=alert(1)>\n2,<img src=x onerror=alert(1)>\n3,<img src=x onerror=alert(1)>\n' +
     '4,"<svg onload=alert(2)>"\n5,"<svg onload=alert(2)>"\n6,"<svg onload=alert(2)>"\n';
   await page.fill("#data", hostile);
-  await page.click("summary");
+  await page.click("details:has(#seed) > summary");
   await page.fill("#resamples", "999");
   await page.fill("#bootstrap", "999");
   await page.click("#run");
@@ -189,7 +189,7 @@ test("estimate only: every interval method, and the same numbers as the native c
   const { page, errors } = await openPage();
   await page.check("#mode-estimate");
   await page.selectOption("#est-kind", "median");
-  await page.click("summary");
+  await page.click("details:has(#seed) > summary");
   await page.fill("#seed", "777");
   await page.click("#run");
   await page.waitForSelector("#estimate-finding", { timeout: 60000 });
@@ -277,7 +277,7 @@ test("a link too long for chat programs gets a warning with two ways out", async
     ta.value = text;
     ta.dispatchEvent(new Event("input", { bubbles: true }));
   }, rows);
-  await page.click("summary");
+  await page.click("details:has(#seed) > summary");
   await page.fill("#resamples", "999");
   await page.fill("#bootstrap", "500");
   await page.click("#run");
@@ -295,7 +295,7 @@ test("a link too long for chat programs gets a warning with two ways out", async
 
 test("reports and analysis files: download, save and reopen", async () => {
   const { page } = await openPage();
-  await page.click("summary");
+  await page.click("details:has(#seed) > summary");
   await page.fill("#seed", "99");
   await page.click("#run");
   await page.waitForSelector("#finding", { timeout: 60000 });
@@ -339,12 +339,12 @@ test("the single-file build works from disk with no server and no network", asyn
   page.on("pageerror", (e) => errors.push(String(e)));
   await page.goto("file://" + file);
   await page.waitForSelector("#run:not([disabled])", { timeout: 30000 });
-  await page.click("summary");
+  await page.click("details:has(#seed) > summary");
   await page.fill("#seed", "2024");
   await page.click("#run");
   await page.waitForSelector("#finding", { timeout: 60000 });
   const { page: served } = await openPage();
-  await served.click("summary");
+  await served.click("details:has(#seed) > summary");
   await served.fill("#seed", "2024");
   await served.click("#run");
   await served.waitForSelector("#finding", { timeout: 60000 });
@@ -368,7 +368,7 @@ test("paired and one-sample designs in the page match the native command", async
   await page.selectOption("#col-b", "drug1");
   await page.selectOption("#design", "paired");
   await page.selectOption("#first", "drug2");
-  await page.click("summary");
+  await page.click("details:has(#seed) > summary");
   await page.fill("#seed", "55");
   await page.click("#run");
   await page.waitForSelector("#paired-finding", { timeout: 60000 });
@@ -400,7 +400,7 @@ test("association in the page matches the native command and draws a scatter plo
   await page.selectOption("#assoc-x", "speed");
   await page.selectOption("#assoc-y", "dist");
   await page.selectOption("#assoc-stat", "spearman");
-  await page.click("summary");
+  await page.click("details:has(#seed) > summary");
   await page.fill("#seed", "66");
   await page.click("#run");
   await page.waitForSelector("#assoc-finding", { timeout: 60000 });
@@ -446,7 +446,7 @@ const rustF = (v) => (Number.isInteger(v) ? `${v}.0` : String(v));
 const rustOpt = (v) => (v === null ? "None" : `Some(${rustF(v)})`);
 
 async function runWithSeed(page, seed) {
-  if (!(await page.isVisible("#seed"))) await page.click("summary");
+  if (!(await page.isVisible("#seed"))) await page.click("details:has(#seed) > summary");
   await page.fill("#seed", String(seed));
   await page.click("#run");
 }
@@ -557,5 +557,39 @@ test("a link to a k-group analysis reproduces it in a fresh page", async () => {
   assert.equal(await page.inputValue("#design"), "k-groups");
   assert.equal(await page.inputValue("#control"), "acrylic");
   assert.equal(await page.inputValue("#k-stat"), "median-spread");
+  await page.close();
+});
+
+test("planning: sample size and detectable effect by simulation, same numbers as the native command", async () => {
+  const json = JSON.parse(native(["plan", "--design", "two-groups", "--sd", "1", "--effect", "0.5", "--mde-n", "30",
+    "--seed", "26", "--json"]));
+  const { page, errors } = await openPage();
+  await page.check("#mode-plan");
+  await page.fill("#plan-mde-n", "30");
+  await runWithSeed(page, 26);
+  await page.waitForSelector("#plan-findings", { timeout: 120000 });
+  assert.equal(await page.textContent("#doc-finding"), json.sentences[0]);
+  assert.equal(await page.getAttribute("#plan-findings", "data-ci-low"), rustOpt(json.smoothed.n));
+  assert.match(await page.textContent("#plan-findings"), /What was traded for speed/);
+  assert.match(await page.textContent("#plan-findings"), /smallest difference in means .* detectable with 80% power/);
+  assert.ok((await page.$$("#doc-figure-1 circle")).length >= 5, "power curve points drawn");
+  assert.match(await page.textContent(".cautions"), /qualified statistician/);
+  // Yes/no rates, and a link that reproduces the plan.
+  await page.selectOption("#plan-design", "yes-no");
+  await page.fill("#plan-baseline", "0.2");
+  await page.fill("#plan-rate", "0.4");
+  await page.click("#run");
+  await page.waitForFunction(() => /yes\/no outcomes, baseline rate 0\.2/.test(document.querySelector("#doc-results")?.textContent || ""), null, { timeout: 120000 });
+  const finding = await page.textContent("#doc-finding");
+  await page.click("#copy-link");
+  const link = await page.inputValue("#share-link");
+  const again = await context.newPage();
+  await again.goto(link);
+  await again.waitForSelector("#plan-findings", { timeout: 120000 });
+  assert.equal(await again.textContent("#doc-finding"), finding);
+  assert.equal(await again.inputValue("#plan-design"), "yes-no");
+  await page.screenshot({ path: path.join(out, "plan.png"), fullPage: true });
+  assert.deepEqual(errors, []);
+  await again.close();
   await page.close();
 });

@@ -17,6 +17,9 @@ What is computed here, independently of Reshuffle's code:
   unbalanced subset of R's ToothGrowth (len by supp within dose), for both weightings; a
   numpy Monte Carlo estimate (400,000 within-stratum relabellings) on the full ToothGrowth;
   the group coefficient of statsmodels OLS len ~ C(supp) + C(dose);
+- planning: statsmodels TTestIndPower, TTestPower, FTestAnovaPower and NormalIndPower, and
+  the exact power of the yes/no test summed over every 2×2 table (scipy.stats.binom and
+  hypergeom);
 - yes/no: scipy.stats.fisher_exact (two-sided, greater, less); permutation p-values for the
   difference, log risk ratio and log odds ratio from scipy.stats.hypergeom; chi-square from
   scipy.stats.chi2_contingency (with and without Yates' correction); intervals from
@@ -240,6 +243,48 @@ def yes_no_reference():
     return out
 
 
+def plan_reference():
+    """Analytic and exact power for the planning checks."""
+    from statsmodels.stats.power import TTestIndPower, TTestPower, FTestAnovaPower, NormalIndPower
+    from statsmodels.stats.proportion import proportion_effectsize
+    out = {
+        # Two groups, d = 0.5, two-sided alpha .05: power at 64 per group, and the n for 80%
+        # power (Cohen 1988, Table 2.4.1 lists 64 per group; from memory, checked here).
+        "two_groups": {"d": 0.5, "n": 64,
+                       "power": float(TTestIndPower().power(effect_size=0.5, nobs1=64, alpha=0.05)),
+                       "n_for_80": float(TTestIndPower().solve_power(effect_size=0.5, power=0.8, alpha=0.05))},
+        # Paired, d_z = 0.5 with 30 pairs: the one-sample t-test's power.
+        "paired": {"d": 0.5, "n": 30,
+                   "power": float(TTestPower().power(effect_size=0.5, nobs=30, alpha=0.05))},
+    }
+    # k groups with means 0, 0, 0.5 and SD 1: Cohen's f = SD of the means (population) / SD.
+    means = np.array([0.0, 0.0, 0.5])
+    f = float(np.sqrt(np.mean((means - means.mean()) ** 2)))
+    out["k_groups"] = {"means": means.tolist(), "n": 50, "f": f,
+                       "power": float(FTestAnovaPower().power(effect_size=f, nobs=150, alpha=0.05, k_groups=3))}
+    # Yes/no: 0.14 against 0.30 with 60 per group. The exact power of the two-sided
+    # permutation test of the difference in proportions (both margins fixed): the sum of the
+    # binomial probabilities of every table the test rejects, with its p from
+    # scipy.stats.hypergeom; and the normal approximation (statsmodels) for comparison.
+    p0, p1, n, alpha = 0.14, 0.30, 60, 0.05
+    pa = stats.binom.pmf(np.arange(n + 1), n, p1)
+    pc = stats.binom.pmf(np.arange(n + 1), n, p0)
+    power = 0.0
+    for a in range(n + 1):
+        for c in range(n + 1):
+            m = a + c
+            support = np.arange(max(0, m - n), min(n, m) + 1)
+            pmf = stats.hypergeom(2 * n, m, n).pmf(support)
+            dist = np.abs(support * 2 * n - m * n)
+            p = pmf[dist >= abs(a * 2 * n - m * n)].sum()
+            if p <= alpha:
+                power += pa[a] * pc[c]
+    out["yes_no"] = {"baseline": p0, "rate": p1, "n": n, "exact_power": float(power),
+                     "normal_power": float(NormalIndPower().power(
+                         effect_size=proportion_effectsize(p1, p0), nobs1=n, alpha=alpha))}
+    return out
+
+
 def main():
     # R's sleep in long format with its ID column, for the long-format paired design (its
     # sign-flip p-values are in expected.json, from make_reference.py).
@@ -253,6 +298,7 @@ def main():
         "multiple": multiple_reference(),
         "strata": strata_reference(),
         "yes_no": yes_no_reference(),
+        "plan": plan_reference(),
     }
     with open(os.path.join(HERE, "expected_designs.json"), "w") as f:
         json.dump(out, f, indent=1)
