@@ -188,6 +188,9 @@ pub struct PlanReport {
     pub test_label: String,
     pub effect: f64,
     pub effect_label: String,
+    /// k groups: the assumed group means.
+    #[serde(default)]
+    pub means: Vec<f64>,
     pub alpha: f64,
     pub alternative: Alternative,
     pub target_power: f64,
@@ -812,6 +815,7 @@ pub fn run(req: &PlanRequest, progress: ProgressFn) -> Result<PlanReport, RunErr
         test_label,
         effect: req.effect,
         effect_label,
+        means: req.means.clone(),
         alpha: req.alpha,
         alternative: req.alternative,
         target_power: target,
@@ -1008,6 +1012,17 @@ fn alt_words(a: Alternative) -> &'static str {
     }
 }
 
+/// The assumed effect in words: "a difference in means (treated − reference) of 0.5", or for
+/// k groups "group means of 20, 20, 22".
+fn effect_phrase(r: &PlanReport) -> String {
+    if r.design == PlanDesign::KGroups {
+        let m: Vec<String> = r.means.iter().map(|m| fmt::plain(m * r.effect)).collect();
+        format!("group means of {}", m.join(", "))
+    } else {
+        format!("a {} of {}", r.effect_label, fmt::plain(r.effect))
+    }
+}
+
 /// Sentences that can go into a proposal.
 fn sentences(r: &PlanReport) -> Vec<String> {
     let mut s = Vec::new();
@@ -1019,13 +1034,12 @@ fn sentences(r: &PlanReport) -> Vec<String> {
     );
     if let Some(sm) = &r.smoothed {
         s.push(format!(
-            "About {} {} are needed for {} power to detect a {} of {}, assuming {}, with {how} \
+            "About {} {} are needed for {} power to detect {}, assuming {}, with {how} \
              (simulation estimate {} ± {}, from a curve fitted through {} simulated sample sizes).",
             fmt::count(sm.n.ceil() as u64),
             r.design.per(),
             fmt::percent(r.target_power),
-            r.effect_label,
-            fmt::plain(r.effect),
+            effect_phrase(r),
             r.model_label,
             fmt::fixed(sm.n, 1),
             fmt::fixed(sm.se, 1),
@@ -1035,15 +1049,14 @@ fn sentences(r: &PlanReport) -> Vec<String> {
     if let Some(p) = &r.required {
         s.push(format!(
             "The smallest simulated size that reached the target: {} {} had an estimated power of {} (95% simulation interval {} to {}, \
-             from {} simulated studies) to detect a {} of {}, assuming {}, with {how}.",
+             from {} simulated studies) to detect {}, assuming {}, with {how}.",
             fmt::count(p.n),
             r.design.per(),
             fmt::fixed(p.power, 2),
             fmt::fixed(p.low, 2),
             fmt::fixed(p.high, 2),
             fmt::count(p.studies),
-            r.effect_label,
-            fmt::plain(r.effect),
+            effect_phrase(r),
             r.model_label
         ));
     }
