@@ -42,18 +42,22 @@ pub struct Doc {
     pub cautions: Vec<String>,
 }
 
-fn md_escape(s: &str) -> String {
-    let mut out = String::with_capacity(s.len());
-    for c in s.chars() {
-        if matches!(
-            c,
-            '\\' | '`' | '*' | '_' | '[' | ']' | '<' | '>' | '|' | '#'
-        ) {
-            out.push('\\');
-        }
-        out.push(c);
-    }
-    out
+use super::report::md_escape;
+
+/// The null and bootstrap figures every test design shows, with ids from `prefix`.
+fn test_figures(nf: &plot::NullFigure, bf: &plot::BootFigure, prefix: &str) -> [Figure; 2] {
+    [
+        Figure {
+            name: "relabelling",
+            svg: plot::null_figure_svg(nf, &format!("{prefix}-null")),
+            caption: plot::describe_null(nf),
+        },
+        Figure {
+            name: "bootstrap",
+            svg: plot::bootstrap_figure_svg(bf, &format!("{prefix}-boot")),
+            caption: plot::describe_bootstrap(bf),
+        },
+    ]
 }
 
 impl Doc {
@@ -475,23 +479,14 @@ pub fn kgroups_figures(r: &KGroupsReport) -> Vec<Figure> {
         histogram: &r.bootstrap_histogram,
         resamples: r.bootstrap_resamples,
     };
-    vec![
-        Figure {
-            name: "groups",
-            svg: plot::groups_svg(&r.groups, &r.value_label, "k-strip"),
-            caption: plot::describe_groups(&r.groups, &r.value_label),
-        },
-        Figure {
-            name: "relabelling",
-            svg: plot::null_figure_svg(&nf, "k-null"),
-            caption: plot::describe_null(&nf),
-        },
-        Figure {
-            name: "bootstrap",
-            svg: plot::bootstrap_figure_svg(&bf, "k-boot"),
-            caption: plot::describe_bootstrap(&bf),
-        },
-    ]
+    vec![Figure {
+        name: "groups",
+        svg: plot::groups_svg(&r.groups, &r.value_label, "k-strip"),
+        caption: plot::describe_groups(&r.groups, &r.value_label),
+    }]
+    .into_iter()
+    .chain(test_figures(&nf, &bf, "k"))
+    .collect()
 }
 
 // ----- stratified -----------------------------------------------------------------------
@@ -641,23 +636,14 @@ pub fn strata_figures(r: &StrataReport) -> Vec<Figure> {
         histogram: &r.bootstrap_histogram,
         resamples: r.bootstrap_resamples,
     };
-    vec![
-        Figure {
-            name: "strata",
-            svg: plot::strata_svg(r, "s-strata"),
-            caption: plot::describe_strata(r),
-        },
-        Figure {
-            name: "relabelling",
-            svg: plot::null_figure_svg(&nf, "s-null"),
-            caption: plot::describe_null(&nf),
-        },
-        Figure {
-            name: "bootstrap",
-            svg: plot::bootstrap_figure_svg(&bf, "s-boot"),
-            caption: plot::describe_bootstrap(&bf),
-        },
-    ]
+    vec![Figure {
+        name: "strata",
+        svg: plot::strata_svg(r, "s-strata"),
+        caption: plot::describe_strata(r),
+    }]
+    .into_iter()
+    .chain(test_figures(&nf, &bf, "s"))
+    .collect()
 }
 
 // ----- yes/no ---------------------------------------------------------------------------

@@ -179,7 +179,7 @@ pub fn estimate_decimals(rep: &EstimateReport) -> usize {
         )
 }
 
-fn md_escape(s: &str) -> String {
+pub(crate) fn md_escape(s: &str) -> String {
     let mut out = String::with_capacity(s.len());
     for c in s.chars() {
         if matches!(
