@@ -310,8 +310,17 @@ fn differences(
                 }
             }
             if incomplete > 0 {
+                let lengths = if na.values.len() != nb.values.len() {
+                    format!(
+                        " (column \"{first}\" has {} values, \"{second}\" has {})",
+                        na.values.len(),
+                        nb.values.len()
+                    )
+                } else {
+                    String::new()
+                };
                 notes.push(format!(
-                    "{incomplete} pair{} with a missing member {} left out.",
+                    "{incomplete} pair{} with a missing member {} left out{lengths}.",
                     plural(incomplete),
                     if incomplete == 1 { "was" } else { "were" }
                 ));
@@ -793,6 +802,15 @@ mod tests {
         assert_eq!(rep.n, 4);
         assert!(
             rep.notes[0].contains("2 pairs with a missing member were left out"),
+            "{:?}",
+            rep.notes
+        );
+        // Columns of unequal length: both lengths are named.
+        let mut r = r.clone();
+        r.data = "a,b\n1,2\n3,4\n5,\n7,\n2,1\n".into();
+        let rep = run(&r, &mut |_| true).unwrap();
+        assert!(
+            rep.notes[0].contains("column \"a\" has 5 values, \"b\" has 3"),
             "{:?}",
             rep.notes
         );

@@ -470,6 +470,11 @@ test("k groups: suggested from the table, same numbers as the native command, ad
     assert.ok(await page.$(`${id} svg title`), `${id} has a title`);
   }
   await page.screenshot({ path: path.join(out, "k-groups.png"), fullPage: true });
+  // On a phone-width screen the wide comparison table scrolls inside its own region.
+  await page.setViewportSize({ width: 390, height: 844 });
+  const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
+  assert.ok(overflow <= 1, `page overflows by ${overflow}px`);
+  await page.screenshot({ path: path.join(out, "k-groups-narrow.png"), fullPage: true });
   assert.deepEqual(errors, []);
   await page.close();
 });
