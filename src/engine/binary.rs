@@ -134,7 +134,9 @@ pub fn parse_counts(text: &str) -> Result<Vec<CountGroup>, String> {
     }
     let mut out = Vec::new();
     for (i, part) in parts.iter().enumerate() {
-        let (name, counts) = match part.find([':', '=']) {
+        // The counts never hold ':' or '=', so the name ends at the last one (a name may
+        // hold them, e.g. "dose=10mg: 3/20").
+        let (name, counts) = match part.rfind([':', '=']) {
             Some(at) => (part[..at].trim().to_string(), part[at + 1..].trim()),
             None => (String::new(), *part),
         };
@@ -1241,6 +1243,8 @@ mod tests {
     fn counts_are_parsed_in_several_forms() {
         let g = parse_counts("42/300, 61/310").unwrap();
         assert_eq!((g[0].yes, g[0].n, g[1].name.as_str()), (42, 300, "group 2"));
+        let g = parse_counts("dose=10mg: 3/20; dose=20mg: 9/21").unwrap();
+        assert_eq!((g[0].name.as_str(), g[1].yes), ("dose=10mg", 9));
         let g = parse_counts("control: 42 of 300 vs new page: 61 of 310").unwrap();
         assert_eq!(g[1].name, "new page");
         assert_eq!(g[1].n, 310);

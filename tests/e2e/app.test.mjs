@@ -518,6 +518,14 @@ test("yes/no outcomes from a column and from typed counts; bad counts get a mess
   await page.selectOption("#yn-stat", "risk-ratio");
   await page.click("#run");
   await page.waitForFunction((f) => document.querySelector("#doc-finding")?.textContent === f, counts.finding, { timeout: 60000 });
+  // Markup in typed group names is shown as text, never run.
+  let dialogs = 0;
+  page.on("dialog", async (d) => { dialogs += 1; await d.dismiss(); });
+  await page.fill("#counts", "<img src=x onerror=alert(1)>: 3/20, <svg onload=alert(2)>: 9/21");
+  await page.click("#run");
+  await page.waitForFunction(() => /<img src=x onerror=alert\(1\)>/.test(document.querySelector("#doc-finding")?.textContent || ""), null, { timeout: 60000 });
+  assert.equal(await page.$$eval("#yes-no-findings img", (els) => els.length), 0);
+  assert.equal(dialogs, 0);
   // Counts that cannot be right: a specific message, and what was typed stays.
   await page.fill("#counts", "old: 42/30, new: 61/310");
   assert.match(await page.textContent("#counts-error"), /cannot outnumber the total/);
