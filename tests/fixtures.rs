@@ -1,0 +1,245 @@
+//! Pinned behaviour: every number the engine gives today, checked bit for bit.
+//!
+//! - `tests/fixtures/streams.json`: the first outputs of the random streams for fixed seeds,
+//!   purposes and blocks, computed independently from the published algorithms
+//!   (`tests/fixtures/make_streams.py`: SplitMix64, xoshiro256++ with its jumps, Lemire's
+//!   bounded integers).
+//! - `tests/fixtures/v1/`: saved analysis files and share links of format version 1, one per
+//!   design and statistic, with the full report each gave when it was pinned
+//!   (`tests/fixtures/v1/make_v1_fixtures.py`). Old files and links must keep opening and
+//!   keep giving these numbers.
+//!
+//! A deliberate change of a pinned number updates the fixture in the same commit and says why.
+
+use std::path::{Path, PathBuf};
+
+use reshuffle::engine::rng::{self, Purpose, Stream};
+use serde_json::Value;
+
+fn fixtures() -> PathBuf {
+    Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/fixtures")
+}
+
+fn read(p: &Path) -> String {
+    std::fs::read_to_string(p).unwrap_or_else(|e| panic!("{}: {e}", p.display()))
+}
+
+fn u64_of(v: &Value) -> u64 {
+    v.as_u64().unwrap_or_else(|| panic!("not a u64: {v}"))
+}
+
+#[test]
+fn streams_match_the_published_algorithms() {
+    let f: Value = serde_json::from_str(&read(&fixtures().join("streams.json"))).unwrap();
+    let cases = f["streams"].as_array().unwrap();
+    assert!(cases.len() >= 30);
+    for c in cases {
+        let purpose = match c["purpose"].as_str().unwrap() {
+            "permutation" => Purpose::Permutation,
+            _ => Purpose::Bootstrap,
+        };
+        let (seed, block) = (u64_of(&c["seed"]), u64_of(&c["block"]));
+        let mut s = Stream::new(seed, purpose, block);
+        let words: Vec<u64> = (0..4).map(|_| s.next_u64()).collect();
+        let want: Vec<u64> = c["next_u64"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(u64_of)
+            .collect();
+        assert_eq!(words, want, "seed {seed}, {purpose:?}, block {block}");
+        // The bounded integers continue the same stream, in the fixture's order of n.
+        for b in c["below"].as_array().unwrap() {
+            let n = u64_of(&b["n"]);
+            for v in b["values"].as_array().unwrap() {
+                assert_eq!(
+                    s.below(n),
+                    u64_of(v),
+                    "below({n}), seed {seed}, block {block}"
+                );
+            }
+        }
+        for u in c["unit"].as_array().unwrap() {
+            assert_eq!(s.unit().to_bits(), u.as_f64().unwrap().to_bits());
+        }
+        // The same stream reached through the consecutive-block iterator.
+        if block > 0 {
+            let mut it = rng::Streams::new(seed, purpose, block - 1);
+            it.next();
+            let mut t = it.next().unwrap();
+            assert_eq!(t.next_u64(), want[0], "Streams, seed {seed}, block {block}");
+        }
+    }
+    for c in f["sub_seeds"].as_array().unwrap() {
+        let (seed, i) = (u64_of(&c["seed"]), u64_of(&c["index"]));
+        assert_eq!(rng::sub_seed(seed, i), u64_of(&c["sub_seed"]));
+    }
+    for c in f["seeds_from_entropy"].as_array().unwrap() {
+        assert_eq!(
+            rng::seed_from_entropy(u64_of(&c["entropy"])),
+            u64_of(&c["seed"])
+        );
+    }
+}
+
+/// The differences between two JSON values, as paths (empty when equal). Numbers are equal
+/// only when they are the same double (serde_json reads them back exactly).
+fn differences(path: &str, want: &Value, got: &Value, out: &mut Vec<String>) {
+    match (want, got) {
+        (Value::Object(a), Value::Object(b)) => {
+            for (k, va) in a {
+                match b.get(k) {
+                    Some(vb) => differences(&format!("{path}.{k}"), va, vb, out),
+                    None => out.push(format!("{path}.{k}: missing")),
+                }
+            }
+            for k in b.keys().filter(|k| !a.contains_key(*k)) {
+                out.push(format!("{path}.{k}: not in the fixture"));
+            }
+        }
+        (Value::Array(a), Value::Array(b)) => {
+            if a.len() != b.len() {
+                out.push(format!("{path}: {} items, fixture {}", b.len(), a.len()));
+            }
+            for (i, (va, vb)) in a.iter().zip(b).enumerate() {
+                differences(&format!("{path}[{i}]"), va, vb, out);
+            }
+        }
+        (Value::Number(a), Value::Number(b)) => {
+            let same = match (a.as_u64(), b.as_u64()) {
+                (Some(x), Some(y)) => x == y,
+                _ => a.as_f64().map(f64::to_bits) == b.as_f64().map(f64::to_bits),
+            };
+            if !same {
+                out.push(format!("{path}: {b}, fixture {a}"));
+            }
+        }
+        (a, b) => {
+            if a != b {
+                let short = |v: &Value| {
+                    let s = v.to_string();
+                    s.chars().take(120).collect::<String>()
+                };
+                out.push(format!("{path}: {}, fixture {}", short(b), short(a)));
+            }
+        }
+    }
+}
+
+fn cases() -> Vec<String> {
+    let mut names: Vec<String> = std::fs::read_dir(fixtures().join("v1/jobs"))
+        .unwrap()
+        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+        .filter_map(|n| n.strip_suffix(".json").map(String::from))
+        .collect();
+    names.sort();
+    assert!(names.len() >= 30, "fixture jobs missing");
+    names
+}
+
+fn check(name: &str, job: &reshuffle::engine::protocol::Job, how: &str) -> Vec<String> {
+    let report = job
+        .run(&mut |_| true)
+        .unwrap_or_else(|e| panic!("{name} ({how}): {e}"));
+    let got: Value = serde_json::from_str(&report.json().unwrap()).unwrap();
+    let want: Value =
+        serde_json::from_str(&read(&fixtures().join(format!("v1/reports/{name}.json")))).unwrap();
+    let mut d = Vec::new();
+    differences("", &want, &got, &mut d);
+    d.into_iter()
+        .map(|x| format!("{name} ({how}) {x}"))
+        .collect()
+}
+
+#[test]
+fn version_1_files_reproduce_their_reports() {
+    let mut bad = Vec::new();
+    for name in cases() {
+        let text = read(&fixtures().join(format!("v1/jobs/{name}.json")));
+        let job = reshuffle::cli::read_job(&text, &name).unwrap();
+        bad.extend(check(&name, &job, "file"));
+    }
+    assert!(bad.is_empty(), "{}", bad.join("\n"));
+}
+
+#[test]
+fn version_1_links_reproduce_their_reports() {
+    let mut bad = Vec::new();
+    for name in cases() {
+        let link = read(&fixtures().join(format!("v1/links/{name}.txt")));
+        let job = reshuffle::engine::link::decode(link.trim()).unwrap();
+        bad.extend(check(&name, &job, "link"));
+    }
+    assert!(bad.is_empty(), "{}", bad.join("\n"));
+}
+
+#[test]
+fn the_command_reads_version_1_files_and_links() {
+    for (flag, name, path) in [
+        (
+            "--request",
+            "k-groups-adhesive",
+            "jobs/k-groups-adhesive.json",
+        ),
+        (
+            "--link",
+            "paired-sleep-exact",
+            "links/paired-sleep-exact.txt",
+        ),
+    ] {
+        let p = fixtures().join("v1").join(path);
+        let arg = if flag == "--link" {
+            read(&p).trim().to_string()
+        } else {
+            p.display().to_string()
+        };
+        let out = std::process::Command::new(env!("CARGO_BIN_EXE_reshuffle"))
+            .args(["analyze", flag, &arg, "--json"])
+            .output()
+            .unwrap();
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        let got: Value = serde_json::from_slice(&out.stdout).unwrap();
+        let want: Value =
+            serde_json::from_str(&read(&fixtures().join(format!("v1/reports/{name}.json"))))
+                .unwrap();
+        let mut d = Vec::new();
+        differences("", &want, &got, &mut d);
+        assert!(d.is_empty(), "{name}: {}", d.join("\n"));
+    }
+}
+
+/// The words as well as the numbers: each fixture's findings rendered as text, Markdown,
+/// HTML (with its figures) and CSV, on a fixed date. These pin the renderers while the
+/// engine is reshaped; a deliberate change of wording rewrites them
+/// (`RESHUFFLE_PIN_WORDS=write cargo test --test fixtures`) in the same commit, saying why.
+#[test]
+fn version_1_fixtures_are_worded_as_pinned() {
+    let write = std::env::var("RESHUFFLE_PIN_WORDS").as_deref() == Ok("write");
+    let dir = fixtures().join("v1/words");
+    let mut bad = Vec::new();
+    for name in cases() {
+        let text = read(&fixtures().join(format!("v1/jobs/{name}.json")));
+        let job = reshuffle::cli::read_job(&text, &name).unwrap();
+        let rep = job.run(&mut |_| true).unwrap();
+        let date = "2026-01-02";
+        for (ext, body) in [
+            ("txt", rep.text(date)),
+            ("md", rep.markdown(date)),
+            ("html.pinned", rep.html(date)),
+            ("csv", rep.results_csv()),
+        ] {
+            let p = dir.join(format!("{name}.{ext}"));
+            if write {
+                std::fs::create_dir_all(&dir).unwrap();
+                std::fs::write(&p, &body).unwrap();
+            } else if read(&p) != body {
+                bad.push(format!("{name}.{ext}"));
+            }
+        }
+    }
+    assert!(bad.is_empty(), "worded differently: {}", bad.join(", "));
+}
