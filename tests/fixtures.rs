@@ -13,7 +13,7 @@
 
 use std::path::{Path, PathBuf};
 
-use reshuffle::engine::rng::{self, Purpose, Stream};
+use reshuffle::resample::rng::{self, Purpose, Stream};
 use serde_json::Value;
 
 fn fixtures() -> PathBuf {
@@ -137,7 +137,7 @@ fn cases() -> Vec<String> {
     names
 }
 
-fn check(name: &str, job: &reshuffle::engine::protocol::Job, how: &str) -> Vec<String> {
+fn check(name: &str, job: &reshuffle::wire::Job, how: &str) -> Vec<String> {
     let report = job
         .run(&mut |_| true)
         .unwrap_or_else(|e| panic!("{name} ({how}): {e}"));
@@ -167,7 +167,7 @@ fn version_1_links_reproduce_their_reports() {
     let mut bad = Vec::new();
     for name in cases() {
         let link = read(&fixtures().join(format!("v1/links/{name}.txt")));
-        let job = reshuffle::engine::link::decode(link.trim()).unwrap();
+        let job = reshuffle::wire::link::decode(link.trim()).unwrap();
         bad.extend(check(&name, &job, "link"));
     }
     assert!(bad.is_empty(), "{}", bad.join("\n"));

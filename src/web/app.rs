@@ -8,26 +8,29 @@ use leptos::prelude::*;
 use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
 
-use crate::engine::assoc::{AssocReport, AssocRequest, AssocStatistic};
-use crate::engine::binary::{parse_counts, YesNoInput, YesNoRequest, YesNoStatistic};
-use crate::engine::design::TestSettings;
-use crate::engine::document::Doc;
-use crate::engine::estimate::{Estimate, EstimateLayout, EstimateReport, EstimateRequest, Kind};
-use crate::engine::finding;
-use crate::engine::format as fmt;
-use crate::engine::groups;
-use crate::engine::kgroups::{KGroupsRequest, KStatistic};
-use crate::engine::link;
-use crate::engine::paired::{PairedLayout, PairedReport, PairedRequest};
-use crate::engine::plan::{PlanDesign, PlanModel, PlanRequest};
-use crate::engine::plot;
-use crate::engine::protocol::*;
-use crate::engine::report;
-use crate::engine::signflip::FlipStatistic;
-use crate::engine::strata::{StrataRequest, StrataWeights};
-use crate::engine::suggest;
-use crate::engine::table::{self, ColumnKind, HeaderChoice};
+use crate::base::format as fmt;
+use crate::base::*;
+use crate::designs::association::{AssocReport, AssocRequest, AssocStatistic};
+use crate::designs::estimate::{Estimate, EstimateLayout, EstimateReport, EstimateRequest, Kind};
+use crate::designs::k_groups::{KGroupsRequest, KStatistic};
+use crate::designs::paired::{PairedLayout, PairedReport, PairedRequest};
+use crate::designs::plan::{PlanDesign, PlanModel, PlanRequest};
+use crate::designs::stratified::{StrataRequest, StrataWeights};
+use crate::designs::two_groups;
+use crate::designs::two_groups::{Report, Request, Statistic};
+use crate::designs::yes_no::{parse_counts, YesNoInput, YesNoRequest, YesNoStatistic};
+use crate::designs::TestSettings;
+use crate::input::columns;
+use crate::input::columns::Layout;
+use crate::input::suggest;
+use crate::input::table::{self, ColumnKind, HeaderChoice};
+use crate::render::doc::Doc;
+use crate::render::plot;
+use crate::render::report;
+use crate::resample::signs::FlipStatistic;
 use crate::web::share;
+use crate::wire::link;
+use crate::wire::{AnyReport, Job, WorkerMessage};
 
 /// Invented example tables, built into the page so it works without fetching anything.
 const EXAMPLES: [(&str, &str, &str); 5] = [
@@ -210,7 +213,7 @@ fn fresh_seed() -> u64 {
     } else {
         (js_sys::Math::random() * 9007199254740992.0) as u64
     };
-    crate::engine::rng::seed_from_entropy(raw)
+    crate::resample::rng::seed_from_entropy(raw)
 }
 
 /// What the preview shows of a parsed table.
@@ -392,7 +395,7 @@ fn App() -> impl IntoView {
         let Ok(t) = table::parse(&data.get_untracked(), header.get_untracked()) else {
             return false;
         };
-        match groups::detect_layout(&t) {
+        match columns::detect_layout(&t) {
             Ok(Layout::Long { value, group }) => {
                 layout_kind.set("long".into());
                 value_col.set(value);
@@ -704,7 +707,7 @@ fn App() -> impl IntoView {
                 r.interval = base.interval;
                 return Ok(Job::Association(r));
             }
-            let settings = TestSettings::from_request(&base);
+            let settings = base.settings();
             if d == "k-groups" {
                 let layout = if layout_kind.get_untracked() == "long" {
                     base.layout.clone()
@@ -2153,7 +2156,7 @@ fn App() -> impl IntoView {
             </section>
         </main>
         <footer>
-            <p>{format!("Reshuffle {ENGINE_VERSION} · computed in your browser · generator: {}", crate::engine::rng::RNG_NAME)}</p>
+            <p>{format!("Reshuffle {ENGINE_VERSION} · computed in your browser · generator: {}", crate::resample::rng::RNG_NAME)}</p>
             {(!is_offline()).then(|| view! {
                 <p><a href="./reshuffle-offline.html" download="reshuffle-offline.html" id="offline-download">
                     "Download Reshuffle as one file"</a>" to use without a server or network (open it from disk in a current browser)."</p>
@@ -2228,7 +2231,7 @@ fn ColumnSelect(
 #[component]
 fn Findings(report: Report) -> impl IntoView {
     let r = report;
-    let d = finding::effect_decimals(&r);
+    let d = two_groups::effect_decimals(&r);
     let null_svg = plot::null_svg(&r, "null-plot");
     let boot_svg = plot::bootstrap_svg(&r, "boot-plot");
     let p_detail = if r.exact {

@@ -5,8 +5,8 @@ use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
 use web_sys::{DedicatedWorkerGlobalScope, MessageEvent};
 
-use crate::engine::analysis::RunError;
-use crate::engine::protocol::{Job, Progress, WorkerMessage};
+use crate::base::{Progress, RunError};
+use crate::wire::{Job, WorkerMessage};
 
 fn post(scope: &DedicatedWorkerGlobalScope, msg: &WorkerMessage) {
     let text = serde_json::to_string(msg).unwrap_or_else(|e| {

@@ -1,0 +1,244 @@
+//! The vocabulary every layer shares: the direction of a test, interval methods and sides,
+//! intervals, histograms, the region counted toward a p-value, and JSON numbers that may be
+//! infinite. Nothing here computes anything.
+
+use serde::{Deserialize, Serialize};
+
+/// Version of the request/report format. Bump on any incompatible change.
+pub const FORMAT_VERSION: u32 = 1;
+
+/// Engine version, reported with every result.
+pub const ENGINE_VERSION: &str = env!("CARGO_PKG_VERSION");
+
+/// Serde for numbers that may be infinite or undefined (a t statistic of groups without
+/// spread, a ratio with a zero count): JSON has no such numbers and serde_json would write
+/// `null`, which cannot be read back as a number. They are written as the strings "inf",
+/// "-inf" and "NaN"; finite numbers stay numbers. Use with `#[serde(with = "float")]`.
+pub mod float {
+    use serde::{Deserialize, Deserializer, Serializer};
+
+    pub fn serialize<S: Serializer>(v: &f64, s: S) -> Result<S::Ok, S::Error> {
+        if v.is_finite() {
+            s.serialize_f64(*v)
+        } else if v.is_nan() {
+            s.serialize_str("NaN")
+        } else if *v > 0.0 {
+            s.serialize_str("inf")
+        } else {
+            s.serialize_str("-inf")
+        }
+    }
+
+    #[derive(Deserialize)]
+    #[serde(untagged)]
+    enum Num {
+        F(f64),
+        S(String),
+    }
+
+    pub fn deserialize<'de, D: Deserializer<'de>>(d: D) -> Result<f64, D::Error> {
+        match Num::deserialize(d)? {
+            Num::F(v) => Ok(v),
+            Num::S(s) => match s.as_str() {
+                "inf" => Ok(f64::INFINITY),
+                "-inf" => Ok(f64::NEG_INFINITY),
+                "NaN" => Ok(f64::NAN),
+                other => Err(serde::de::Error::custom(format!(
+                    "\"{other}\" is not a number"
+                ))),
+            },
+        }
+    }
+}
+
+/// [`float`] for optional numbers (None stays `null`).
+pub mod float_opt {
+    use serde::{Deserialize, Deserializer, Serialize, Serializer};
+
+    #[derive(Serialize, Deserialize)]
+    struct W(#[serde(with = "super::float")] f64);
+
+    pub fn serialize<S: Serializer>(v: &Option<f64>, s: S) -> Result<S::Ok, S::Error> {
+        v.map(W).serialize(s)
+    }
+
+    pub fn deserialize<'de, D: Deserializer<'de>>(d: D) -> Result<Option<f64>, D::Error> {
+        Ok(Option::<W>::deserialize(d)?.map(|w| w.0))
+    }
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Alternative {
+    TwoSided,
+    /// First group minus second group is positive.
+    Greater,
+    /// First group minus second group is negative.
+    Less,
+}
+
+impl Alternative {
+    pub fn key(self) -> &'static str {
+        match self {
+            Alternative::TwoSided => "two-sided",
+            Alternative::Greater => "greater",
+            Alternative::Less => "less",
+        }
+    }
+    pub fn from_key(s: &str) -> Option<Alternative> {
+        [
+            Alternative::TwoSided,
+            Alternative::Greater,
+            Alternative::Less,
+        ]
+        .into_iter()
+        .find(|x| x.key() == s)
+    }
+}
+
+/// How a two-sided p-value is defined.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum TwoSidedRule {
+    /// Count relabellings whose statistic is at least as far from zero as the observed one:
+    /// |T| >= |t|. The permutation null of each statistic here is centred at zero.
+    #[default]
+    Absolute,
+    /// Twice the smaller one-sided p-value, capped at 1.
+    DoubledTail,
+}
+
+impl TwoSidedRule {
+    pub fn key(self) -> &'static str {
+        match self {
+            TwoSidedRule::Absolute => "absolute",
+            TwoSidedRule::DoubledTail => "doubled-tail",
+        }
+    }
+    pub fn from_key(s: &str) -> Option<TwoSidedRule> {
+        [TwoSidedRule::Absolute, TwoSidedRule::DoubledTail]
+            .into_iter()
+            .find(|x| x.key() == s)
+    }
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum IntervalMethod {
+    Percentile,
+    Basic,
+    Normal,
+    Bca,
+    Studentized,
+}
+
+impl IntervalMethod {
+    pub const ALL: [IntervalMethod; 5] = [
+        IntervalMethod::Percentile,
+        IntervalMethod::Basic,
+        IntervalMethod::Normal,
+        IntervalMethod::Bca,
+        IntervalMethod::Studentized,
+    ];
+    pub fn key(self) -> &'static str {
+        match self {
+            IntervalMethod::Percentile => "percentile",
+            IntervalMethod::Basic => "basic",
+            IntervalMethod::Normal => "normal",
+            IntervalMethod::Bca => "bca",
+            IntervalMethod::Studentized => "studentized",
+        }
+    }
+    pub fn from_key(s: &str) -> Option<IntervalMethod> {
+        IntervalMethod::ALL.into_iter().find(|x| x.key() == s)
+    }
+    pub fn label(self) -> &'static str {
+        match self {
+            IntervalMethod::Percentile => "percentile",
+            IntervalMethod::Basic => "basic (reverse percentile)",
+            IntervalMethod::Normal => "normal, bootstrap SE",
+            IntervalMethod::Bca => "BCa",
+            IntervalMethod::Studentized => "studentized (bootstrap-t)",
+        }
+    }
+}
+
+/// Which bound(s) an interval gives.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Side {
+    /// [low, high]
+    #[default]
+    TwoSided,
+    /// [low, ∞): a lower confidence bound.
+    Lower,
+    /// (−∞, high]: an upper confidence bound.
+    Upper,
+}
+
+impl Side {
+    pub fn key(self) -> &'static str {
+        match self {
+            Side::TwoSided => "two-sided",
+            Side::Lower => "lower",
+            Side::Upper => "upper",
+        }
+    }
+    pub fn from_key(s: &str) -> Option<Side> {
+        [Side::TwoSided, Side::Lower, Side::Upper]
+            .into_iter()
+            .find(|x| x.key() == s)
+    }
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Interval {
+    pub low: Option<f64>,
+    pub high: Option<f64>,
+    pub level: f64,
+    pub method: String,
+    /// Two-sided, or a one-sided bound (then the other end is open and null).
+    #[serde(default)]
+    pub side: Side,
+    /// Why the interval is missing or should be read with care.
+    pub note: Option<String>,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct PInterval {
+    pub low: f64,
+    pub high: f64,
+    pub level: f64,
+}
+
+/// Equal-width histogram.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Histogram {
+    /// Bin edges, one more than the counts.
+    pub edges: Vec<f64>,
+    pub counts: Vec<u64>,
+    /// Probabilities instead of counts, for an exact distribution given as probabilities
+    /// (the tables of a yes/no comparison); None when the bars are counts.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub weights: Option<Vec<f64>>,
+}
+
+impl Histogram {
+    /// The height of each bar: its probability, or its count.
+    pub fn heights(&self) -> Vec<f64> {
+        match &self.weights {
+            Some(w) => w.clone(),
+            None => self.counts.iter().map(|&c| c as f64).collect(),
+        }
+    }
+}
+
+/// The part of the null distribution counted toward the p-value: values <= `low` and/or
+/// values >= `high`.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Tail {
+    #[serde(default, with = "float_opt")]
+    pub low: Option<f64>,
+    #[serde(default, with = "float_opt")]
+    pub high: Option<f64>,
+}

@@ -1,0 +1,1191 @@
+//! Estimation only: a bootstrap confidence interval (by one or all methods) for a one-sample
+//! estimate, a two-group effect (independent or paired) or an association, with the
+//! bootstrap standard error and bias. No test is run.
+
+use serde::{Deserialize, Serialize};
+
+use super::two_groups::Request;
+use super::MAX_BOOTSTRAP;
+use crate::base::format as fmt;
+use crate::base::*;
+use crate::classical;
+use crate::input::columns::paired_columns;
+use crate::input::columns::Layout;
+use crate::input::columns::{self as groups};
+use crate::input::table::{self, HeaderChoice};
+use crate::input::table::{Table, TableError};
+use crate::num::binomial::clopper_pearson;
+use crate::num::stats;
+use crate::num::stats::ranks;
+use crate::resample::boot;
+use crate::resample::boot::{BoxedStat, Design, SeMethod, Stat, StatFn};
+use crate::resample::rng::RNG_NAME;
+use crate::resample::summary::histogram;
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Estimate {
+    // One sample
+    Mean,
+    Median,
+    TrimmedMean,
+    Sd,
+    Cv,
+    Quantile,
+    Proportion,
+    // Two groups (first vs second)
+    MeanDifference,
+    MedianDifference,
+    TrimmedMeanDifference,
+    MeanRatio,
+    MedianRatio,
+    HedgesG,
+    CliffsDelta,
+    Superiority,
+    // Association
+    Pearson,
+    Spearman,
+    Slope,
+}
+
+/// What kind of data an estimate needs.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Kind {
+    One,
+    Two,
+    Association,
+}
+
+impl Estimate {
+    pub const ALL: [Estimate; 18] = [
+        Estimate::Mean,
+        Estimate::Median,
+        Estimate::TrimmedMean,
+        Estimate::Sd,
+        Estimate::Cv,
+        Estimate::Quantile,
+        Estimate::Proportion,
+        Estimate::MeanDifference,
+        Estimate::MedianDifference,
+        Estimate::TrimmedMeanDifference,
+        Estimate::MeanRatio,
+        Estimate::MedianRatio,
+        Estimate::HedgesG,
+        Estimate::CliffsDelta,
+        Estimate::Superiority,
+        Estimate::Pearson,
+        Estimate::Spearman,
+        Estimate::Slope,
+    ];
+
+    pub fn key(self) -> &'static str {
+        match self {
+            Estimate::Mean => "mean",
+            Estimate::Median => "median",
+            Estimate::TrimmedMean => "trimmed-mean",
+            Estimate::Sd => "sd",
+            Estimate::Cv => "cv",
+            Estimate::Quantile => "quantile",
+            Estimate::Proportion => "proportion",
+            Estimate::MeanDifference => "mean-difference",
+            Estimate::MedianDifference => "median-difference",
+            Estimate::TrimmedMeanDifference => "trimmed-mean-difference",
+            Estimate::MeanRatio => "mean-ratio",
+            Estimate::MedianRatio => "median-ratio",
+            Estimate::HedgesG => "hedges-g",
+            Estimate::CliffsDelta => "cliffs-delta",
+            Estimate::Superiority => "superiority",
+            Estimate::Pearson => "pearson",
+            Estimate::Spearman => "spearman",
+            Estimate::Slope => "slope",
+        }
+    }
+
+    pub fn from_key(s: &str) -> Option<Estimate> {
+        Estimate::ALL.into_iter().find(|e| e.key() == s)
+    }
+
+    pub fn kind(self) -> Kind {
+        use Estimate::*;
+        match self {
+            Mean | Median | TrimmedMean | Sd | Cv | Quantile | Proportion => Kind::One,
+            Pearson | Spearman | Slope => Kind::Association,
+            _ => Kind::Two,
+        }
+    }
+
+    pub fn label(self, q: f64) -> String {
+        match self {
+            Estimate::Mean => "mean".into(),
+            Estimate::Median => "median".into(),
+            Estimate::TrimmedMean => "20% trimmed mean".into(),
+            Estimate::Sd => "standard deviation".into(),
+            Estimate::Cv => "coefficient of variation".into(),
+            Estimate::Quantile => format!("{} percentile", ordinal(q * 100.0)),
+            Estimate::Proportion => "proportion".into(),
+            Estimate::MeanDifference => "difference in means".into(),
+            Estimate::MedianDifference => "difference in medians".into(),
+            Estimate::TrimmedMeanDifference => "difference in 20% trimmed means".into(),
+            Estimate::MeanRatio => "ratio of means".into(),
+            Estimate::MedianRatio => "ratio of medians".into(),
+            Estimate::HedgesG => "Hedges' g".into(),
+            Estimate::CliffsDelta => "Cliff's delta".into(),
+            Estimate::Superiority => "probability of superiority".into(),
+            Estimate::Pearson => "Pearson correlation r".into(),
+            Estimate::Spearman => "Spearman correlation rho".into(),
+            Estimate::Slope => "least-squares slope".into(),
+        }
+    }
+
+    /// The range of possible values, for estimates that have one.
+    fn bounds(self) -> Option<(f64, f64)> {
+        match self {
+            Estimate::Proportion | Estimate::Superiority => Some((0.0, 1.0)),
+            Estimate::Pearson | Estimate::Spearman | Estimate::CliffsDelta => Some((-1.0, 1.0)),
+            Estimate::Sd => Some((0.0, f64::INFINITY)),
+            _ => None,
+        }
+    }
+}
+
+fn ordinal(p: f64) -> String {
+    let s = if (p - p.round()).abs() < 1e-9 {
+        format!("{}", p.round() as i64)
+    } else {
+        fmt::sig(p)
+    };
+    let suffix = if s.contains('.') {
+        "th"
+    } else {
+        match (p.round() as i64 % 100, p.round() as i64 % 10) {
+            (11..=13, _) => "th",
+            (_, 1) => "st",
+            (_, 2) => "nd",
+            (_, 3) => "rd",
+            _ => "th",
+        }
+    };
+    format!("{s}{suffix}")
+}
+
+/// Where the data for an estimate are.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "kind", rename_all = "kebab-case")]
+pub enum EstimateLayout {
+    /// One column of values; with `strata`, resampling stays within each stratum.
+    One {
+        value: String,
+        #[serde(default)]
+        strata: Option<String>,
+    },
+    /// Two groups in long or wide format; `paired` resamples whole rows (wide format).
+    Groups {
+        layout: Layout,
+        #[serde(default)]
+        first: Option<String>,
+        #[serde(default)]
+        second: Option<String>,
+        #[serde(default)]
+        paired: bool,
+    },
+    /// Two numeric columns, resampled as pairs.
+    Pairs { x: String, y: String },
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct EstimateRequest {
+    pub format_version: u32,
+    pub data: String,
+    #[serde(default)]
+    pub header: HeaderChoice,
+    pub layout: EstimateLayout,
+    pub estimate: Estimate,
+    /// The quantile for `quantile`, in (0, 1).
+    #[serde(default)]
+    pub q: Option<f64>,
+    /// Interval methods; the first is the headline. Empty: the default (BCa).
+    #[serde(default)]
+    pub methods: Vec<IntervalMethod>,
+    #[serde(default)]
+    pub side: Side,
+    pub confidence: f64,
+    pub resamples: u64,
+    pub seed: u64,
+    /// Return every bootstrap value (for a CSV download).
+    #[serde(default)]
+    pub keep_resamples: bool,
+}
+
+impl EstimateRequest {
+    pub fn new(
+        data: String,
+        layout: EstimateLayout,
+        estimate: Estimate,
+        seed: u64,
+    ) -> EstimateRequest {
+        EstimateRequest {
+            format_version: FORMAT_VERSION,
+            data,
+            header: HeaderChoice::Detect,
+            layout,
+            estimate,
+            q: None,
+            methods: vec![IntervalMethod::Bca],
+            side: Side::TwoSided,
+            confidence: 0.95,
+            resamples: 10_000,
+            seed,
+            keep_resamples: false,
+        }
+    }
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct SampleSize {
+    pub name: String,
+    pub n: usize,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct EstimateReport {
+    pub format_version: u32,
+    pub engine_version: String,
+    pub estimate_key: Estimate,
+    pub estimate_label: String,
+    pub samples: Vec<SampleSize>,
+    pub notes: Vec<String>,
+    pub estimate: f64,
+    /// Bootstrap standard error.
+    pub se: Option<f64>,
+    /// Bootstrap estimate of bias (mean of the resampled estimates minus the estimate).
+    pub bias: Option<f64>,
+    pub resamples: u64,
+    pub seed: u64,
+    pub rng: String,
+    pub intervals: Vec<Interval>,
+    /// Why the headline method is the default choice.
+    pub method_reason: String,
+    /// A classical interval as a cross-check, where a standard one exists.
+    pub classical: Option<Interval>,
+    pub histogram: Histogram,
+    pub finding: String,
+    pub cautions: Vec<String>,
+    /// Every bootstrap value, in order (only when asked for).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub values: Option<Vec<f64>>,
+}
+
+// ----- statistics -------------------------------------------------------------------
+
+fn cliffs_counts(a: &[f64], b: &mut [f64]) -> (f64, f64) {
+    // (share of pairs with a > b, share with a == b)
+    b.sort_unstable_by(f64::total_cmp);
+    let (mut gt, mut eq) = (0usize, 0usize);
+    for &x in a.iter() {
+        let lo = b.partition_point(|&v| v < x);
+        let hi = b.partition_point(|&v| v <= x);
+        gt += lo;
+        eq += hi - lo;
+    }
+    let total = (a.len() * b.len()) as f64;
+    (gt as f64 / total, eq as f64 / total)
+}
+
+fn pearson(x: &[f64], y: &[f64]) -> f64 {
+    let (mx, my) = (stats::mean(x), stats::mean(y));
+    let (mut sxy, mut sxx, mut syy) = (0.0, 0.0, 0.0);
+    for (a, b) in x.iter().zip(y) {
+        sxy += (a - mx) * (b - my);
+        sxx += (a - mx) * (a - mx);
+        syy += (b - my) * (b - my);
+    }
+    sxy / (sxx * syy).sqrt()
+}
+
+fn slope(x: &[f64], y: &[f64]) -> f64 {
+    let (mx, my) = (stats::mean(x), stats::mean(y));
+    let (mut sxy, mut sxx) = (0.0, 0.0);
+    for (a, b) in x.iter().zip(y) {
+        sxy += (a - mx) * (b - my);
+        sxx += (a - mx) * (a - mx);
+    }
+    sxy / sxx
+}
+
+/// The estimate as a two-slice function (second slice empty for one sample).
+pub(crate) fn estimator(e: Estimate, q: f64) -> BoxedStat {
+    match e {
+        Estimate::Mean | Estimate::Proportion => Box::new(|a, _| stats::mean(a)),
+        Estimate::Median => Box::new(|a, _| stats::median_select(a)),
+        Estimate::TrimmedMean => Box::new(|a, _| stats::trimmed_mean_select(a)),
+        Estimate::Sd => Box::new(|a, _| stats::sd(a)),
+        Estimate::Cv => Box::new(|a, _| stats::sd(a) / stats::mean(a)),
+        Estimate::Quantile => Box::new(move |a, _| {
+            a.sort_unstable_by(f64::total_cmp);
+            stats::quantile_sorted(a, q)
+        }),
+        Estimate::MeanDifference => Box::new(|a, b| stats::mean(a) - stats::mean(b)),
+        Estimate::MedianDifference => {
+            Box::new(|a, b| stats::median_select(a) - stats::median_select(b))
+        }
+        Estimate::TrimmedMeanDifference => {
+            Box::new(|a, b| stats::trimmed_mean_select(a) - stats::trimmed_mean_select(b))
+        }
+        Estimate::MeanRatio => Box::new(|a, b| stats::mean(a) / stats::mean(b)),
+        Estimate::MedianRatio => Box::new(|a, b| stats::median_select(a) / stats::median_select(b)),
+        Estimate::HedgesG => Box::new(|a, b| stats::hedges_g(a, b)),
+        Estimate::CliffsDelta => Box::new(|a, b| {
+            let (gt, eq) = cliffs_counts(a, b);
+            gt - (1.0 - gt - eq)
+        }),
+        Estimate::Superiority => Box::new(|a, b| {
+            let (gt, eq) = cliffs_counts(a, b);
+            gt + 0.5 * eq
+        }),
+        Estimate::Pearson => Box::new(|x, y| pearson(x, y)),
+        Estimate::Spearman => Box::new(|x, y| pearson(&ranks(x), &ranks(y))),
+        Estimate::Slope => Box::new(|x, y| slope(x, y)),
+    }
+}
+
+/// A standard-error formula for the studentized interval, where one exists.
+pub(crate) fn se_formula(e: Estimate, paired: bool) -> Option<BoxedStat> {
+    match e {
+        Estimate::Mean | Estimate::Proportion => Some(Box::new(|a, _| {
+            (stats::variance(a) / a.len() as f64).sqrt()
+        })),
+        Estimate::TrimmedMean => Some(Box::new(|a, _| stats::trimmed_mean_se2(a).sqrt())),
+        Estimate::MeanDifference if paired => Some(Box::new(|a, b| {
+            let d: Vec<f64> = a.iter().zip(b.iter()).map(|(x, y)| x - y).collect();
+            (stats::variance(&d) / d.len() as f64).sqrt()
+        })),
+        Estimate::MeanDifference => Some(Box::new(|a, b| {
+            (stats::variance(a) / a.len() as f64 + stats::variance(b) / b.len() as f64).sqrt()
+        })),
+        Estimate::TrimmedMeanDifference if !paired => Some(Box::new(|a, b| {
+            (stats::trimmed_mean_se2(a) + stats::trimmed_mean_se2(b)).sqrt()
+        })),
+        Estimate::Slope => Some(Box::new(|x, y| {
+            let n = x.len() as f64;
+            let b = slope(x, y);
+            let (mx, my) = (stats::mean(x), stats::mean(y));
+            let sxx: f64 = x.iter().map(|v| (v - mx) * (v - mx)).sum();
+            let rss: f64 = x
+                .iter()
+                .zip(y.iter())
+                .map(|(a, c)| {
+                    let r = c - my - b * (a - mx);
+                    r * r
+                })
+                .sum();
+            (rss / (n - 2.0) / sxx).sqrt()
+        })),
+        _ => None,
+    }
+}
+
+// ----- reading the data ---------------------------------------------------------------
+
+fn numbers(t: &Table, col: &str, notes: &mut Vec<String>) -> Result<Vec<(usize, f64)>, TableError> {
+    let c = t.column(col)?;
+    let nums = c.numbers(t.decimal_comma)?;
+    if nums.missing > 0 {
+        notes.push(format!(
+            "{} blank or NA cell{} in column \"{col}\" left out.",
+            nums.missing,
+            groups::plural(nums.missing)
+        ));
+    }
+    Ok(nums.values)
+}
+
+/// Reads yes/no style values as 1/0 for a proportion.
+fn zero_one(t: &Table, col: &str, notes: &mut Vec<String>) -> Result<Vec<f64>, TableError> {
+    let c = t.column(col)?;
+    let mut out = Vec::new();
+    let mut missing = 0;
+    for cell in &c.cells {
+        let v = match table::read_yes_no(&cell.text) {
+            Some(None) => {
+                missing += 1;
+                continue;
+            }
+            Some(Some(yes)) => f64::from(u8::from(yes)),
+            None => {
+                return Err(TableError(format!(
+                    "Line {} of column \"{col}\" holds \"{}\"; a proportion needs 0/1, yes/no, \
+                     true/false or pass/fail values.",
+                    cell.line, cell.text
+                )))
+            }
+        };
+        out.push(v);
+    }
+    if missing > 0 {
+        notes.push(format!(
+            "{missing} blank or NA cell{} in column \"{col}\" left out.",
+            groups::plural(missing)
+        ));
+    }
+    Ok(out)
+}
+
+enum Prepared {
+    One {
+        x: Vec<f64>,
+        strata: Option<Vec<Vec<usize>>>,
+        name: String,
+    },
+    Two {
+        a: Vec<f64>,
+        b: Vec<f64>,
+        names: [String; 2],
+        paired: bool,
+    },
+    Pairs {
+        x: Vec<f64>,
+        y: Vec<f64>,
+        names: [String; 2],
+    },
+}
+
+fn prepare(
+    req: &EstimateRequest,
+    t: &Table,
+    notes: &mut Vec<String>,
+) -> Result<Prepared, RunError> {
+    let kind = req.estimate.kind();
+    let wrong = |what: &str| {
+        RunError::Input(format!(
+            "The {} needs {what}.",
+            req.estimate.label(req.q.unwrap_or(0.5))
+        ))
+    };
+    match (&req.layout, kind) {
+        (EstimateLayout::One { value, strata }, Kind::One) => {
+            let (x, rows): (Vec<f64>, Vec<usize>) = if req.estimate == Estimate::Proportion {
+                let v = zero_one(t, value, notes)?;
+                let rows = (0..v.len()).collect();
+                (v, rows)
+            } else {
+                let v = numbers(t, value, notes)?;
+                (
+                    v.iter().map(|p| p.1).collect(),
+                    v.iter().map(|p| p.0).collect(),
+                )
+            };
+            if x.len() < 2 {
+                return Err(RunError::Input(format!(
+                    "Column \"{value}\" has {} value{}; an interval needs at least 2.",
+                    x.len(),
+                    groups::plural(x.len())
+                )));
+            }
+            let strata = match strata {
+                None => None,
+                Some(sc) => {
+                    if req.estimate == Estimate::Proportion {
+                        return Err(RunError::Input(
+                            "Strata are not yet supported for a proportion.".into(),
+                        ));
+                    }
+                    let col = t.column(sc)?;
+                    let mut labels: Vec<String> = Vec::new();
+                    let mut groups_: Vec<Vec<usize>> = Vec::new();
+                    let mut xs = Vec::new();
+                    for (k, &r) in rows.iter().enumerate() {
+                        let l = col.cells[r].text.trim().to_string();
+                        if l.is_empty() {
+                            return Err(RunError::Input(format!(
+                                "Line {} has a value but no stratum in column \"{sc}\".",
+                                col.cells[r].line
+                            )));
+                        }
+                        let i = match labels.iter().position(|x| *x == l) {
+                            Some(i) => i,
+                            None => {
+                                labels.push(l);
+                                groups_.push(Vec::new());
+                                labels.len() - 1
+                            }
+                        };
+                        groups_[i].push(k);
+                        xs.push(x[k]);
+                    }
+                    if labels.len() < 2 {
+                        return Err(RunError::Input(format!(
+                            "Column \"{sc}\" names only one stratum; drop the strata or choose another column."
+                        )));
+                    }
+                    notes.push(format!(
+                        "Resampled within each of the {} strata of \"{sc}\", keeping their sizes.",
+                        labels.len()
+                    ));
+                    Some(groups_)
+                }
+            };
+            Ok(Prepared::One {
+                x,
+                strata,
+                name: value.clone(),
+            })
+        }
+        (EstimateLayout::One { .. }, _) => Err(wrong(if kind == Kind::Two {
+            "two groups"
+        } else {
+            "two columns (x and y)"
+        })),
+        (
+            EstimateLayout::Groups {
+                layout,
+                first,
+                second,
+                paired,
+            },
+            Kind::Two,
+        ) => {
+            if *paired {
+                let Layout::Wide { columns } = layout else {
+                    return Err(RunError::Input(
+                        "Paired data need one column per condition (wide format), with each row one unit.".into(),
+                    ));
+                };
+                if columns.len() != 2 {
+                    return Err(RunError::Input(
+                        "Paired data need exactly two columns.".into(),
+                    ));
+                }
+                let mut cols = columns.clone();
+                if first.as_deref() == Some(columns[1].as_str()) {
+                    cols.swap(0, 1);
+                }
+                let (a, b) = paired_columns(t, &cols[0], &cols[1], notes)?;
+                Ok(Prepared::Two {
+                    a,
+                    b,
+                    names: [cols[0].clone(), cols[1].clone()],
+                    paired: true,
+                })
+            } else {
+                let mut r = Request::new(String::new(), 0);
+                r.layout = layout.clone();
+                r.first = first.clone();
+                r.second = second.clone();
+                let g = groups::two_groups(t, &r.layout, r.first.as_deref(), r.second.as_deref())?;
+                notes.extend(g.notes);
+                Ok(Prepared::Two {
+                    a: g.a,
+                    b: g.b,
+                    names: g.names,
+                    paired: false,
+                })
+            }
+        }
+        (EstimateLayout::Groups { .. }, _) => Err(wrong(if kind == Kind::One {
+            "one column of values"
+        } else {
+            "two columns (x and y)"
+        })),
+        (EstimateLayout::Pairs { x, y }, Kind::Association) => {
+            let (xs, ys) = paired_columns(t, x, y, notes)?;
+            if xs.len() < 3 {
+                return Err(RunError::Input(format!(
+                    "Only {} complete (x, y) row{}; an association needs at least 3.",
+                    xs.len(),
+                    groups::plural(xs.len())
+                )));
+            }
+            Ok(Prepared::Pairs {
+                x: xs,
+                y: ys,
+                names: [x.clone(), y.clone()],
+            })
+        }
+        (EstimateLayout::Pairs { .. }, _) => Err(wrong(if kind == Kind::One {
+            "one column of values"
+        } else {
+            "two groups"
+        })),
+    }
+}
+
+// ----- running ------------------------------------------------------------------------
+
+fn check(req: &EstimateRequest, notes: &mut Vec<String>) -> Result<u64, RunError> {
+    if req.format_version != FORMAT_VERSION {
+        return Err(RunError::Input(format!(
+            "This analysis was saved in format version {}, but this version of Reshuffle reads version {FORMAT_VERSION}.",
+            req.format_version
+        )));
+    }
+    if !(req.confidence > 0.5 && req.confidence <= 0.9999) {
+        return Err(RunError::Input(format!(
+            "The confidence level must be between 0.5 and 0.9999, for example 0.95 (it is {}).",
+            req.confidence
+        )));
+    }
+    if req.estimate == Estimate::Quantile {
+        match req.q {
+            Some(q) if q > 0.0 && q < 1.0 => {}
+            Some(q) => {
+                return Err(RunError::Input(format!(
+                    "The quantile must be between 0 and 1, for example 0.9 for the 90th percentile (it is {q})."
+                )))
+            }
+            None => return Err(RunError::Input("Say which quantile, for example 0.9 for the 90th percentile.".into())),
+        }
+    }
+    if req.resamples < 200 {
+        return Err(RunError::Input(format!(
+            "Use at least 200 bootstrap resamples (it is {}); 10,000 is a good default.",
+            req.resamples
+        )));
+    }
+    let mut b = req.resamples;
+    let nested = req.methods.contains(&IntervalMethod::Studentized)
+        && se_formula(req.estimate, false).is_none();
+    let cap = if nested {
+        MAX_BOOTSTRAP / 10
+    } else {
+        MAX_BOOTSTRAP
+    };
+    if b > cap {
+        notes.push(format!(
+            "{} resamples were asked for; {} were used, the most this page keeps in memory{}.",
+            fmt::count(b),
+            fmt::count(cap),
+            if nested {
+                " with a nested bootstrap"
+            } else {
+                ""
+            }
+        ));
+        b = cap;
+    }
+    Ok(b)
+}
+
+/// Runs an estimate request.
+pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport, RunError> {
+    let mut notes = Vec::new();
+    let total = check(req, &mut notes)?;
+    let t = table::parse(&req.data, req.header)?;
+    let prepared = prepare(req, &t, &mut notes)?;
+    let q = req.q.unwrap_or(0.5);
+    let e = req.estimate;
+    let f = estimator(e, q);
+    let mut methods = req.methods.clone();
+    if methods.is_empty() {
+        methods.push(IntervalMethod::Bca);
+    }
+    methods.dedup();
+    let studentize = methods.contains(&IntervalMethod::Studentized);
+    let paired = matches!(prepared, Prepared::Two { paired: true, .. });
+    let se_f = se_formula(e, paired);
+    let (design, samples, estimate) = match &prepared {
+        Prepared::One { x, strata, name } => (
+            Design::One {
+                x,
+                strata: strata.as_deref(),
+            },
+            vec![SampleSize {
+                name: name.clone(),
+                n: x.len(),
+            }],
+            f(&mut x.clone(), &mut []),
+        ),
+        Prepared::Two {
+            a,
+            b,
+            names,
+            paired,
+        } => (
+            if *paired {
+                Design::Pairs { x: a, y: b }
+            } else {
+                Design::Two { a, b }
+            },
+            vec![
+                SampleSize {
+                    name: names[0].clone(),
+                    n: a.len(),
+                },
+                SampleSize {
+                    name: names[1].clone(),
+                    n: b.len(),
+                },
+            ],
+            f(&mut a.clone(), &mut b.clone()),
+        ),
+        Prepared::Pairs { x, y, names } => (
+            Design::Pairs { x, y },
+            vec![SampleSize {
+                name: format!("{} and {}", names[0], names[1]),
+                n: x.len(),
+            }],
+            f(&mut x.clone(), &mut y.clone()),
+        ),
+    };
+    if !estimate.is_finite() {
+        return Err(RunError::Input(format!(
+            "The {} cannot be computed from these data (for example a ratio with a zero \
+             denominator, or a correlation of a column with no variation).",
+            e.label(q)
+        )));
+    }
+    let se_method = if !studentize {
+        SeMethod::None
+    } else if let Some(g) = &se_f {
+        SeMethod::Formula(g.as_ref())
+    } else {
+        notes.push(format!(
+            "The studentized interval uses a nested bootstrap ({} inner resamples per resample) \
+             for the standard error, as this estimate has no simple formula; it is slower.",
+            boot::NESTED
+        ));
+        SeMethod::Nested(boot::NESTED)
+    };
+    let f_ref: StatFn = f.as_ref();
+    let stat = Stat {
+        f: f_ref,
+        estimate,
+        se: se_method,
+    };
+    let (values, tvals) = boot::resample(&design, &[stat], req.seed, total, progress)?;
+    let finite: Vec<f64> = values[0]
+        .iter()
+        .copied()
+        .filter(|v| v.is_finite())
+        .collect();
+    let dropped = values[0].len() - finite.len();
+    if dropped > 0 {
+        notes.push(format!(
+            "{} resample{} gave no defined value (for example no spread) and {} left out.",
+            fmt::count(dropped as u64),
+            groups::plural(dropped),
+            if dropped == 1 { "was" } else { "were" }
+        ));
+    }
+    let t_finite: Vec<f64> = tvals[0].iter().copied().filter(|v| v.is_finite()).collect();
+    let se_hat = match &se_method {
+        SeMethod::Formula(g) => {
+            let (mut a, mut b) = design.original();
+            g(&mut a, &mut b)
+        }
+        SeMethod::Nested(_) => boot::standard_error(&finite).unwrap_or(f64::NAN),
+        SeMethod::None => f64::NAN,
+    };
+    let summary = boot::Summary {
+        estimate,
+        boot: &finite,
+        t: studentize.then_some((&t_finite[..], se_hat)),
+        bounds: e.bounds(),
+    };
+    let mut accel_cache: Option<(Option<f64>, bool)> = None;
+    let mut accel = || *accel_cache.get_or_insert_with(|| boot::acceleration(&design, f_ref));
+    let intervals: Vec<Interval> = methods
+        .iter()
+        .map(|&m| boot::interval_by(m, req.confidence, req.side, &summary, &mut accel))
+        .collect();
+    let se = boot::standard_error(&finite);
+    let bias = (!finite.is_empty()).then(|| stats::mean(&finite) - estimate);
+
+    // Hard cases worth a sentence.
+    let n_min = samples.iter().map(|s| s.n).min().unwrap_or(0);
+    if let Some((lo, hi)) = e.bounds() {
+        if estimate <= lo || estimate >= hi {
+            notes.push(format!(
+                "The estimate is at the edge of its possible range ({}); bootstrap intervals cannot \
+                 reach beyond the data and are unreliable here.",
+                fmt::sig(estimate)
+            ));
+        }
+    }
+    if e == Estimate::Quantile {
+        if let Prepared::One { x, .. } = &prepared {
+            let tail = (x.len() as f64 * q.min(1.0 - q)).floor();
+            let mut distinct = stats::sorted(x);
+            distinct.dedup();
+            if tail < 5.0 || distinct.len() < 10 {
+                notes.push(format!(
+                    "Only about {} observation{} lie beyond the {} ({} distinct values in all): too \
+                     few for a trustworthy interval of this quantile.",
+                    tail,
+                    if tail == 1.0 { "" } else { "s" },
+                    e.label(q),
+                    distinct.len()
+                ));
+            }
+        }
+    }
+    if e == Estimate::Cv || e == Estimate::MeanRatio || e == Estimate::MedianRatio {
+        if let Some(se) = se {
+            if se > estimate.abs() {
+                notes.push("The bootstrap SE exceeds the estimate: the denominator is close to zero in some resamples, so this ratio is unstable.".into());
+            }
+        }
+    }
+    let method_reason = if methods[0] == IntervalMethod::Bca {
+        "BCa is the default: it corrects the percentile interval for bias and skewness and is \
+         second-order accurate (Efron 1987; DiCiccio & Efron 1996)."
+            .to_string()
+    } else {
+        format!("{} chosen by the user.", IntervalMethod::label(methods[0]))
+    };
+    let classical = classical_interval(e, &prepared, req.confidence);
+    let mut marks = vec![estimate];
+    marks.extend(intervals[0].low);
+    marks.extend(intervals[0].high);
+    let histogram = histogram(&finite, &marks, 48);
+    let mut report = EstimateReport {
+        format_version: FORMAT_VERSION,
+        engine_version: ENGINE_VERSION.into(),
+        estimate_key: e,
+        estimate_label: e.label(q),
+        samples,
+        notes,
+        estimate,
+        se,
+        bias,
+        resamples: values[0].len() as u64,
+        seed: req.seed,
+        rng: RNG_NAME.into(),
+        intervals,
+        method_reason,
+        classical,
+        histogram,
+        finding: String::new(),
+        cautions: Vec::new(),
+        values: req.keep_resamples.then(|| values[0].clone()),
+    };
+    report.finding = finding(&report);
+    report.cautions = cautions(&report, n_min);
+    Ok(report)
+}
+
+/// The t interval for a mean or a mean difference and Clopper–Pearson for a proportion.
+fn classical_interval(e: Estimate, p: &Prepared, level: f64) -> Option<Interval> {
+    use statrs::distribution::{ContinuousCDF, StudentsT};
+    let t_iv = |m: f64, se: f64, df: f64, name: &str| -> Option<Interval> {
+        let q = StudentsT::new(0.0, 1.0, df)
+            .ok()?
+            .inverse_cdf(1.0 - (1.0 - level) / 2.0);
+        Some(Interval {
+            low: Some(m - q * se),
+            high: Some(m + q * se),
+            level,
+            method: name.into(),
+            side: Side::TwoSided,
+            note: None,
+        })
+    };
+    match (e, p) {
+        (
+            Estimate::Mean,
+            Prepared::One {
+                x, strata: None, ..
+            },
+        ) => {
+            let n = x.len() as f64;
+            t_iv(
+                stats::mean(x),
+                (stats::variance(x) / n).sqrt(),
+                n - 1.0,
+                "one-sample t",
+            )
+        }
+        (Estimate::Proportion, Prepared::One { x, .. }) => {
+            let k = x.iter().filter(|v| **v == 1.0).count() as u64;
+            let (lo, hi) = clopper_pearson(k, x.len() as u64, level);
+            Some(Interval {
+                low: Some(lo),
+                high: Some(hi),
+                level,
+                method: "Clopper–Pearson (exact binomial)".into(),
+                side: Side::TwoSided,
+                note: None,
+            })
+        }
+        (
+            Estimate::MeanDifference,
+            Prepared::Two {
+                a,
+                b,
+                paired: false,
+                ..
+            },
+        ) => {
+            let w = classical::welch(a, b, Alternative::TwoSided, level);
+            Some(Interval {
+                method: "Welch t".into(),
+                ..w.ci
+            })
+        }
+        (
+            Estimate::MeanDifference,
+            Prepared::Two {
+                a, b, paired: true, ..
+            },
+        ) => {
+            let d: Vec<f64> = a.iter().zip(b).map(|(x, y)| x - y).collect();
+            let n = d.len() as f64;
+            t_iv(
+                stats::mean(&d),
+                (stats::variance(&d) / n).sqrt(),
+                n - 1.0,
+                "paired t",
+            )
+        }
+        _ => None,
+    }
+}
+
+fn finding(r: &EstimateReport) -> String {
+    let iv = &r.intervals[0];
+    let scale = match (iv.low, iv.high) {
+        (Some(l), Some(h)) if h > l => h - l,
+        _ => r.se.unwrap_or(r.estimate.abs()).max(1e-12),
+    };
+    let d = fmt::decimals_for(scale);
+    let who = match r.samples.as_slice() {
+        [one] => format!(" of {}", one.name),
+        [a, b] => format!(" ({} vs {})", a.name, b.name),
+        _ => String::new(),
+    };
+    let bound = match (iv.side, iv.low, iv.high) {
+        (Side::TwoSided, Some(l), Some(h)) => format!(
+            "{} [{}, {}]",
+            format_args!("{} CI", fmt::percent(iv.level)),
+            fmt::fixed(l, d),
+            fmt::fixed(h, d)
+        ),
+        (Side::Lower, Some(l), _) => format!(
+            "{} lower confidence bound {}",
+            fmt::percent(iv.level),
+            fmt::fixed(l, d)
+        ),
+        (Side::Upper, _, Some(h)) => format!(
+            "{} upper confidence bound {}",
+            fmt::percent(iv.level),
+            fmt::fixed(h, d)
+        ),
+        _ => "no interval could be formed".to_string(),
+    };
+    let method =
+        IntervalMethod::from_key(&iv.method).map_or(iv.method.clone(), |m| m.label().to_string());
+    format!(
+        "The {}{who} is {} ({bound}, {method} bootstrap, {} resamples; bootstrap SE {}).",
+        r.estimate_label,
+        fmt::fixed(r.estimate, d),
+        fmt::count(r.resamples),
+        r.se.map_or("undefined".into(), fmt::sig)
+    )
+}
+
+fn cautions(r: &EstimateReport, n_min: usize) -> Vec<String> {
+    let mut c = vec![
+        "The bootstrap treats the observations as independent draws from the population of \
+         interest (pairs as units for paired data and associations, each stratum on its own \
+         where strata are given); it cannot correct for a biased or clustered sample."
+            .to_string(),
+    ];
+    if n_min < 20 {
+        c.push(format!(
+            "Small sample ({n_min}): bootstrap intervals tend to be too narrow for samples this \
+             small — the percentile interval most of all (Hesterberg 2015); prefer BCa or \
+             studentized and read the interval as rough."
+        ));
+    }
+    if r.estimate_key.kind() == Kind::Association {
+        c.push("Correlation is not causation, and r and the slope describe only the straight-line part of an association.".into());
+    }
+    c.push(
+        "Several intervals on the same data do not all hold at once with the stated confidence; \
+         adjust the level if they are read together."
+            .into(),
+    );
+    c.push(
+        "Clinical, safety or regulatory decisions need a qualified statistician and the \
+         guidelines that apply to them."
+            .into(),
+    );
+    c
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn one(data: &str, e: Estimate) -> EstimateRequest {
+        let mut r = EstimateRequest::new(
+            data.into(),
+            EstimateLayout::One {
+                value: "x".into(),
+                strata: None,
+            },
+            e,
+            99,
+        );
+        r.resamples = 2000;
+        r
+    }
+
+    #[test]
+    fn ranks_average_ties() {
+        assert_eq!(ranks(&[10.0, 20.0, 10.0, 5.0]), vec![2.5, 4.0, 2.5, 1.0]);
+    }
+
+    #[test]
+    fn every_one_sample_estimate_runs_with_every_method() {
+        let data = "x\n3.1\n4.7\n2.2\n5.9\n4.0\n4.0\n7.5\n1.8\n2.9\n3.3\n2.1\n0.7\n2.6\n9.0\n1.1\n";
+        for e in [
+            Estimate::Mean,
+            Estimate::Median,
+            Estimate::TrimmedMean,
+            Estimate::Sd,
+            Estimate::Cv,
+            Estimate::Quantile,
+        ] {
+            let mut r = one(data, e);
+            r.q = Some(0.75);
+            r.methods = IntervalMethod::ALL.to_vec();
+            let rep = run(&r, &mut |_| true).unwrap();
+            assert_eq!(rep.intervals.len(), 5);
+            for iv in &rep.intervals {
+                assert!(
+                    iv.low.is_some() && iv.high.is_some(),
+                    "{e:?} {}: {:?}",
+                    iv.method,
+                    iv.note
+                );
+                assert!(iv.low <= iv.high);
+            }
+            assert!(rep.se.unwrap() > 0.0);
+            assert!(!rep.finding.contains("NaN"));
+        }
+    }
+
+    #[test]
+    fn proportion_reads_yes_no_and_is_clipped() {
+        let data = "x\nyes\nno\nyes\nyes\nno\nyes\nyes\nyes\nno\nyes\n";
+        let mut r = one(data, Estimate::Proportion);
+        r.methods = IntervalMethod::ALL.to_vec();
+        let rep = run(&r, &mut |_| true).unwrap();
+        assert!((rep.estimate - 0.7).abs() < 1e-12);
+        for iv in &rep.intervals {
+            if let (Some(l), Some(h)) = (iv.low, iv.high) {
+                assert!(
+                    (0.0..=1.0).contains(&l) && (0.0..=1.0).contains(&h),
+                    "{iv:?}"
+                );
+            }
+        }
+        assert!(rep.classical.unwrap().method.contains("Clopper"));
+        let bad = run(&one("x\nyes\nmaybe\n", Estimate::Proportion), &mut |_| true)
+            .err()
+            .unwrap();
+        assert!(bad.to_string().contains("\"maybe\""), "{bad}");
+    }
+
+    #[test]
+    fn degenerate_data_get_notes_not_nans() {
+        let rep = run(&one("x\n5\n5\n5\n5\n", Estimate::Mean), &mut |_| true).unwrap();
+        let iv = &rep.intervals[0];
+        assert!(iv.low.is_none() && iv.note.as_ref().unwrap().contains("Undefined"));
+        let mut r = one("x\n5\n5\n5\n5\n", Estimate::Mean);
+        r.methods = vec![IntervalMethod::Percentile];
+        let rep = run(&r, &mut |_| true).unwrap();
+        assert_eq!(rep.intervals[0].low, Some(5.0));
+        assert!(rep.intervals[0].note.is_some());
+        let r = one("x\n1\n2\n3\n", Estimate::Quantile);
+        assert!(run(&r, &mut |_| true)
+            .err()
+            .unwrap()
+            .to_string()
+            .contains("Say which quantile"));
+        let mut r = one("x\n1\n2\n3\n4\n5\n6\n7\n", Estimate::Quantile);
+        r.q = Some(0.95);
+        let rep = run(&r, &mut |_| true).unwrap();
+        assert!(
+            rep.notes.iter().any(|n| n.contains("too few")),
+            "{:?}",
+            rep.notes
+        );
+    }
+
+    #[test]
+    fn paired_and_association_resample_pairs() {
+        let data = "before,after\n10,12\n11,12.5\n9,10.2\n13,15\n12,12.9\n10.5,12.1\n";
+        let mut r = EstimateRequest::new(
+            data.into(),
+            EstimateLayout::Groups {
+                layout: Layout::Wide {
+                    columns: vec!["after".into(), "before".into()],
+                },
+                first: None,
+                second: None,
+                paired: true,
+            },
+            Estimate::MeanDifference,
+            1,
+        );
+        r.methods = vec![IntervalMethod::Studentized, IntervalMethod::Percentile];
+        let rep = run(&r, &mut |_| true).unwrap();
+        assert!((rep.estimate - (74.7 - 65.5) / 6.0).abs() < 1e-12);
+        // Differences all positive: every resampled mean difference is positive.
+        assert!(rep.intervals[1].low.unwrap() > 0.0);
+        assert_eq!(rep.classical.as_ref().unwrap().method, "paired t");
+        let mut r = EstimateRequest::new(
+            data.into(),
+            EstimateLayout::Pairs {
+                x: "before".into(),
+                y: "after".into(),
+            },
+            Estimate::Pearson,
+            1,
+        );
+        r.methods = IntervalMethod::ALL.to_vec();
+        let rep = run(&r, &mut |_| true).unwrap();
+        assert!(rep.estimate > 0.9);
+        for iv in &rep.intervals {
+            if let Some(h) = iv.high {
+                assert!(h <= 1.0);
+            }
+        }
+    }
+
+    #[test]
+    fn wrong_layout_for_the_estimate_says_what_it_needs() {
+        let r = one("x\n1\n2\n3\n", Estimate::Pearson);
+        let e = run(&r, &mut |_| true).err().unwrap().to_string();
+        assert!(e.contains("needs two columns (x and y)"), "{e}");
+    }
+
+    #[test]
+    fn cliffs_delta_and_superiority_by_definition() {
+        // a = [1, 2, 3], b = [2, 4]: pairs a>b: (3,2) = 1; ties: (2,2) = 1; of 6.
+        let f = estimator(Estimate::CliffsDelta, 0.5);
+        let g = estimator(Estimate::Superiority, 0.5);
+        let d = f(&mut [1.0, 2.0, 3.0], &mut [2.0, 4.0]);
+        assert!((d - (1.0 / 6.0 - 4.0 / 6.0)).abs() < 1e-12);
+        let s = g(&mut [1.0, 2.0, 3.0], &mut [2.0, 4.0]);
+        assert!((s - (1.0 / 6.0 + 0.5 / 6.0)).abs() < 1e-12);
+    }
+
+    #[test]
+    fn one_sided_bounds_and_same_seed_same_result() {
+        let data = "x\n3.1\n4.7\n2.2\n5.9\n4.0\n4.0\n7.5\n1.8\n2.9\n3.3\n";
+        let mut r = one(data, Estimate::Mean);
+        r.side = Side::Lower;
+        let a = run(&r, &mut |_| true).unwrap();
+        let b = run(&r, &mut |_| true).unwrap();
+        assert_eq!(a, b);
+        assert!(a.intervals[0].high.is_none() && a.intervals[0].low.is_some());
+        assert!(
+            a.finding.contains("lower confidence bound"),
+            "{}",
+            a.finding
+        );
+    }
+}

@@ -1,0 +1,645 @@
+//! Finding the two groups in a table, with specific messages for every way it can fail.
+
+use serde::{Deserialize, Serialize};
+
+use crate::input::table::{Column, ColumnKind, Table, TableError};
+
+/// Where the two groups are in the table.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "kind", rename_all = "kebab-case")]
+pub enum Layout {
+    /// Decide from the column types.
+    Detect,
+    /// One numeric column and one column of group labels.
+    Long { value: String, group: String },
+    /// One column per group.
+    Wide { columns: Vec<String> },
+}
+
+/// Two groups of numbers ready for analysis.
+#[derive(Clone, Debug)]
+pub struct TwoGroups {
+    pub names: [String; 2],
+    pub a: Vec<f64>,
+    pub b: Vec<f64>,
+    pub layout: Layout,
+    /// What the values are (the value column's name in long format).
+    pub value_label: String,
+    pub notes: Vec<String>,
+}
+
+fn err<T>(s: String) -> Result<T, TableError> {
+    Err(TableError(s))
+}
+
+fn quoted_list(items: &[String]) -> String {
+    items
+        .iter()
+        .map(|s| format!("\"{s}\""))
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
+fn lines_list(lines: &[u64]) -> String {
+    let shown: Vec<String> = lines.iter().take(5).map(|l| l.to_string()).collect();
+    let more = if lines.len() > 5 { ", …" } else { "" };
+    format!(
+        "line{} {}{more}",
+        if lines.len() > 1 { "s" } else { "" },
+        shown.join(", ")
+    )
+}
+
+/// Guesses the layout from the column types.
+pub fn detect_layout(table: &Table) -> Result<Layout, TableError> {
+    let numeric: Vec<&Column> = table
+        .columns
+        .iter()
+        .filter(|c| matches!(c.kind, ColumnKind::Number | ColumnKind::NumberWithText))
+        .collect();
+    let labels: Vec<&Column> = table
+        .columns
+        .iter()
+        .filter(|c| c.kind == ColumnKind::Label)
+        .collect();
+    match (numeric.len(), labels.len()) {
+        (0, _) => err(
+            "No column holds numbers. Paste the measurements themselves, one value per cell."
+                .into(),
+        ),
+        (1, 0) => err(format!(
+            "Only one column of numbers (\"{}\") and no column saying which group each row \
+             belongs to. Add a column of group labels, or put each group in its own column.",
+            numeric[0].name
+        )),
+        (_, 0) => Ok(Layout::Wide {
+            columns: vec![numeric[0].name.clone(), numeric[1].name.clone()],
+        }),
+        _ => Ok(Layout::Long {
+            value: numeric[0].name.clone(),
+            group: labels[0].name.clone(),
+        }),
+    }
+}
+
+/// Values of a numeric column with the group label of each row; the levels in order of
+/// first appearance.
+pub struct Labelled {
+    pub levels: Vec<String>,
+    /// (row index in the table, level index, value) for every row with both.
+    pub rows: Vec<(usize, usize, f64)>,
+}
+
+impl Labelled {
+    /// The values of each level, in level order.
+    pub fn by_level(&self) -> Vec<Vec<f64>> {
+        let mut out = vec![Vec::new(); self.levels.len()];
+        for &(_, l, v) in &self.rows {
+            out[l].push(v);
+        }
+        out
+    }
+}
+
+/// Reads a value column and a label column (long format), noting blank cells, decimal
+/// commas and values without a label.
+pub fn labelled_values(
+    table: &Table,
+    value: &str,
+    group: &str,
+    notes: &mut Vec<String>,
+) -> Result<Labelled, TableError> {
+    if value == group {
+        return err(format!(
+            "The same column (\"{value}\") was chosen for the values and the groups. \
+             Choose a different column for each."
+        ));
+    }
+    let vcol = table.column(value)?;
+    let gcol = table.column(group)?;
+    let nums = vcol.numbers(table.decimal_comma)?;
+    if nums.missing > 0 {
+        notes.push(format!(
+            "{} blank or NA cell{} in column \"{}\" {} left out.",
+            nums.missing,
+            plural(nums.missing),
+            value,
+            were(nums.missing)
+        ));
+    }
+    if nums.decimal_commas > 0 {
+        notes.push(format!(
+            "{} value{} in column \"{}\" had a decimal comma, read as a decimal point.",
+            nums.decimal_commas,
+            plural(nums.decimal_commas),
+            value
+        ));
+    }
+    let mut levels: Vec<String> = Vec::new();
+    let mut unlabelled: Vec<u64> = Vec::new();
+    let mut rows = Vec::new();
+    for &(i, v) in &nums.values {
+        let label = gcol.cells[i].text.trim();
+        if label.is_empty() {
+            unlabelled.push(gcol.cells[i].line);
+            continue;
+        }
+        let li = match levels.iter().position(|l| l == label) {
+            Some(li) => li,
+            None => {
+                levels.push(label.to_string());
+                levels.len() - 1
+            }
+        };
+        rows.push((i, li, v));
+    }
+    if !unlabelled.is_empty() {
+        notes.push(format!(
+            "{} value{} with no group label in column \"{}\" {} left out ({}).",
+            unlabelled.len(),
+            plural(unlabelled.len()),
+            group,
+            were(unlabelled.len()),
+            lines_list(&unlabelled)
+        ));
+    }
+    if levels.is_empty() {
+        return err(format!(
+            "Column \"{group}\" has no group labels next to the values in \"{value}\"."
+        ));
+    }
+    Ok(Labelled { levels, rows })
+}
+
+/// Reads one column per group (wide format), noting blank cells inside a column and
+/// decimal commas.
+pub fn wide_values(
+    table: &Table,
+    columns: &[String],
+    notes: &mut Vec<String>,
+) -> Result<Vec<Vec<f64>>, TableError> {
+    for (i, c) in columns.iter().enumerate() {
+        if columns[..i].contains(c) {
+            return err(format!(
+                "The same column (\"{c}\") was chosen for {} groups.",
+                if columns.len() == 2 { "both" } else { "two" }
+            ));
+        }
+    }
+    let mut groups = Vec::new();
+    for name in columns {
+        let col = table.column(name)?;
+        let nums = col.numbers(table.decimal_comma)?;
+        // Blank cells below a shorter column's last value are expected in wide format and
+        // not worth a note.
+        let last = nums.values.last().map_or(0, |v| v.0 + 1);
+        let inner = nums.missing - (col.cells.len() - last);
+        if inner > 0 {
+            notes.push(format!(
+                "{} blank or NA cell{} in column \"{}\" {} left out.",
+                inner,
+                plural(inner),
+                col.name,
+                were(inner)
+            ));
+        }
+        if nums.decimal_commas > 0 {
+            notes.push(format!(
+                "{} value{} in column \"{}\" had a decimal comma, read as a decimal point.",
+                nums.decimal_commas,
+                plural(nums.decimal_commas),
+                col.name
+            ));
+        }
+        groups.push(nums.values.into_iter().map(|v| v.1).collect::<Vec<f64>>());
+    }
+    Ok(groups)
+}
+
+/// Every group needs at least 2 values.
+fn check_sizes(names: &[String], groups: &[Vec<f64>]) -> Result<(), TableError> {
+    for (name, g) in names.iter().zip(groups) {
+        if g.len() < 2 {
+            return err(format!(
+                "Group \"{name}\" has {} value{}; each group needs at least 2 (at least 5 or so \
+                 for a permutation test to be able to show anything).",
+                g.len(),
+                plural(g.len())
+            ));
+        }
+    }
+    Ok(())
+}
+
+/// Extracts the two groups the request asks for.
+pub fn two_groups(
+    table: &Table,
+    layout: &Layout,
+    first: Option<&str>,
+    second: Option<&str>,
+) -> Result<TwoGroups, TableError> {
+    let layout = match layout {
+        Layout::Detect => detect_layout(table)?,
+        l => l.clone(),
+    };
+    let mut notes = Vec::new();
+    let (names, a, b, value_label) = match &layout {
+        Layout::Detect => unreachable!("resolved above"),
+        Layout::Long { value, group } => {
+            let lab = labelled_values(table, value, group, &mut notes)?;
+            let levels = &lab.levels;
+            let (first, second) = match levels.len() {
+                1 => {
+                    return err(format!(
+                        "Column \"{group}\" names only one group (\"{}\"); a comparison needs two.",
+                        levels[0]
+                    ))
+                }
+                2 => {
+                    let first = match first {
+                        Some(f) => find_level(levels, f, group)?,
+                        None => 0,
+                    };
+                    if let Some(s) = second {
+                        let s = find_level(levels, s, group)?;
+                        if s == first {
+                            return err(format!(
+                                "\"{}\" was chosen as both the first and the second group.",
+                                levels[s]
+                            ));
+                        }
+                    }
+                    (first, 1 - first)
+                }
+                _ => match (first, second) {
+                    (Some(f), Some(s)) => {
+                        let (f, s) = (find_level(levels, f, group)?, find_level(levels, s, group)?);
+                        if f == s {
+                            return err(format!(
+                                "\"{}\" was chosen as both the first and the second group.",
+                                levels[f]
+                            ));
+                        }
+                        let others: Vec<String> = levels
+                            .iter()
+                            .enumerate()
+                            .filter(|(i, _)| *i != f && *i != s)
+                            .map(|(_, l)| l.clone())
+                            .collect();
+                        notes.push(format!(
+                            "Only \"{}\" and \"{}\" are compared; the other group{} ({}) {} left out.",
+                            levels[f],
+                            levels[s],
+                            plural(others.len()),
+                            quoted_list(&others),
+                            were(others.len())
+                        ));
+                        (f, s)
+                    }
+                    _ => {
+                        return err(format!(
+                            "Column \"{group}\" names {} groups ({}); this analysis compares two. \
+                             Choose the first and the second group to compare.",
+                            levels.len(),
+                            quoted_list(levels)
+                        ))
+                    }
+                },
+            };
+            let mut by = lab.by_level();
+            let b = std::mem::take(&mut by[second]);
+            let a = std::mem::take(&mut by[first]);
+            (
+                [levels[first].clone(), levels[second].clone()],
+                a,
+                b,
+                value.clone(),
+            )
+        }
+        Layout::Wide { columns } => {
+            if columns.len() != 2 {
+                return err(format!(
+                    "This analysis compares two groups, but {} columns were chosen ({}). Choose two.",
+                    columns.len(),
+                    quoted_list(columns)
+                ));
+            }
+            let mut order = [0usize, 1];
+            if let Some(f) = first {
+                match columns.iter().position(|c| c == f) {
+                    Some(0) => {}
+                    Some(_) => order = [1, 0],
+                    None => {
+                        return err(format!(
+                            "\"{f}\" is not one of the chosen columns ({}).",
+                            quoted_list(columns)
+                        ))
+                    }
+                }
+            }
+            let ordered = [columns[order[0]].clone(), columns[order[1]].clone()];
+            let mut groups = wide_values(table, &ordered, &mut notes)?;
+            let b = groups.pop().unwrap_or_default();
+            let a = groups.pop().unwrap_or_default();
+            (ordered, a, b, "value".to_string())
+        }
+    };
+    check_sizes(&names, &[a.clone(), b.clone()])?;
+    Ok(TwoGroups {
+        names,
+        a,
+        b,
+        layout,
+        value_label,
+        notes,
+    })
+}
+
+/// Three or more groups of numbers.
+#[derive(Clone, Debug)]
+pub struct KGroups {
+    pub names: Vec<String>,
+    pub values: Vec<Vec<f64>>,
+    pub layout: Layout,
+    pub value_label: String,
+    pub notes: Vec<String>,
+}
+
+/// Extracts every group of a table for a k-group comparison: all labels of the group column
+/// (long format) or every chosen column (wide format). With `Layout::Detect`, a label column
+/// beside a numeric one means long format, otherwise every numeric column is a group.
+pub fn k_groups(table: &Table, layout: &Layout) -> Result<KGroups, TableError> {
+    let layout = match layout {
+        Layout::Detect => match detect_layout(table)? {
+            Layout::Wide { .. } => Layout::Wide {
+                columns: table
+                    .columns
+                    .iter()
+                    .filter(|c| matches!(c.kind, ColumnKind::Number | ColumnKind::NumberWithText))
+                    .map(|c| c.name.clone())
+                    .collect(),
+            },
+            l => l,
+        },
+        l => l.clone(),
+    };
+    let mut notes = Vec::new();
+    let (names, values, value_label) = match &layout {
+        Layout::Detect => unreachable!("resolved above"),
+        Layout::Long { value, group } => {
+            let lab = labelled_values(table, value, group, &mut notes)?;
+            let values = lab.by_level();
+            (lab.levels, values, value.clone())
+        }
+        Layout::Wide { columns } => {
+            let values = wide_values(table, columns, &mut notes)?;
+            (columns.clone(), values, "value".to_string())
+        }
+    };
+    if names.len() < 3 {
+        let (what, how) = match &layout {
+            Layout::Long { group, .. } => (
+                format!(
+                    "Column \"{group}\" names {} group{}",
+                    names.len(),
+                    plural(names.len())
+                ),
+                "",
+            ),
+            _ => (
+                format!(
+                    "{} column{} {} chosen",
+                    names.len(),
+                    plural(names.len()),
+                    were(names.len())
+                ),
+                " Choose three or more columns.",
+            ),
+        };
+        return err(format!(
+            "{what} ({}); a k-group comparison needs 3 or more.{how} For two groups use the \
+             two-groups design.",
+            quoted_list(&names)
+        ));
+    }
+    check_sizes(&names, &values)?;
+    Ok(KGroups {
+        names,
+        values,
+        layout,
+        value_label,
+        notes,
+    })
+}
+
+fn find_level(levels: &[String], wanted: &str, group: &str) -> Result<usize, TableError> {
+    levels.iter().position(|l| l == wanted).ok_or_else(|| {
+        TableError(format!(
+            "There is no group \"{wanted}\" in column \"{group}\"; its groups are {}.",
+            quoted_list(levels)
+        ))
+    })
+}
+
+pub fn plural(n: usize) -> &'static str {
+    if n == 1 {
+        ""
+    } else {
+        "s"
+    }
+}
+
+fn were(n: usize) -> &'static str {
+    if n == 1 {
+        "was"
+    } else {
+        "were"
+    }
+}
+
+/// Two numeric columns read row by row; rows missing either value are left out.
+pub(crate) fn paired_columns(
+    t: &Table,
+    a: &str,
+    b: &str,
+    notes: &mut Vec<String>,
+) -> Result<(Vec<f64>, Vec<f64>), TableError> {
+    if a == b {
+        return Err(TableError(format!(
+            "The same column (\"{a}\") was chosen twice."
+        )));
+    }
+    let (ca, cb) = (t.column(a)?, t.column(b)?);
+    let (na, nb) = (ca.numbers(t.decimal_comma)?, cb.numbers(t.decimal_comma)?);
+    let mut vb = vec![None; t.rows];
+    for &(i, v) in &nb.values {
+        vb[i] = Some(v);
+    }
+    let mut va = vec![None; t.rows];
+    for &(i, v) in &na.values {
+        va[i] = Some(v);
+    }
+    let (mut xs, mut ys, mut incomplete) = (Vec::new(), Vec::new(), 0);
+    for r in 0..t.rows {
+        match (va[r], vb[r]) {
+            (Some(x), Some(y)) => {
+                xs.push(x);
+                ys.push(y);
+            }
+            (None, None) => {}
+            _ => incomplete += 1,
+        }
+    }
+    if incomplete > 0 {
+        notes.push(format!(
+            "{incomplete} row{} with a value in only one of \"{a}\" and \"{b}\" {} left out.",
+            plural(incomplete),
+            if incomplete == 1 { "was" } else { "were" }
+        ));
+    }
+    if xs.len() < 2 {
+        return Err(TableError(format!(
+            "Fewer than 2 rows have values in both \"{a}\" and \"{b}\"."
+        )));
+    }
+    Ok((xs, ys))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::designs::two_groups::Request;
+    use crate::input::table::{parse, HeaderChoice};
+
+    fn req(text: &str) -> (Table, Request) {
+        (
+            parse(text, HeaderChoice::Detect).unwrap(),
+            Request::new(text.to_string(), 1),
+        )
+    }
+
+    #[test]
+    fn long_format_is_detected_with_blanks_noted() {
+        let (t, r) = req("yield,schedule\n4.1,drip\n3.9,drip\n,drip\n3.0,flood\n2.8,flood\n2.5,\n");
+        let g = two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref()).unwrap();
+        assert_eq!(g.names, ["drip".to_string(), "flood".to_string()]);
+        assert_eq!(g.a, vec![4.1, 3.9]);
+        assert_eq!(g.b, vec![3.0, 2.8]);
+        assert!(
+            g.notes
+                .iter()
+                .any(|n| n.contains("1 blank or NA cell in column \"yield\"")),
+            "{:?}",
+            g.notes
+        );
+        assert!(
+            g.notes.iter().any(|n| n.contains("line 7")),
+            "{:?}",
+            g.notes
+        );
+    }
+
+    #[test]
+    fn wide_format_with_unequal_lengths() {
+        let (t, mut r) = req("north,south\n1,2\n3,4\n5,\n");
+        r.first = Some("south".into());
+        let g = two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref()).unwrap();
+        assert_eq!(g.names[0], "south");
+        assert_eq!(g.a, vec![2.0, 4.0]);
+        assert_eq!(g.b, vec![1.0, 3.0, 5.0]);
+    }
+
+    #[test]
+    fn three_groups_need_a_choice() {
+        let (t, mut r) = req("y,g\n1,a\n2,a\n3,b\n4,b\n5,c\n6,c\n");
+        let e = two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref())
+            .err()
+            .unwrap();
+        assert!(e.0.contains("3 groups (\"a\", \"b\", \"c\")"), "{e}");
+        r.first = Some("c".into());
+        r.second = Some("a".into());
+        let g = two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref()).unwrap();
+        assert_eq!(g.a, vec![5.0, 6.0]);
+        assert!(g.notes[0].contains("\"b\""));
+    }
+
+    #[test]
+    fn single_group_and_tiny_group_messages() {
+        let (t, r) = req("y,g\n1,a\n2,a\n");
+        assert!(
+            two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref())
+                .err()
+                .unwrap()
+                .0
+                .contains("only one group (\"a\")")
+        );
+        let (t, r) = req("y,g\n1,a\n2,a\n3,b\n");
+        let e = two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref())
+            .err()
+            .unwrap();
+        assert!(e.0.contains("Group \"b\" has 1 value;"), "{e}");
+    }
+
+    #[test]
+    fn one_numeric_column_only() {
+        let (t, r) = req("y\n1\n2\n3\n");
+        assert!(
+            two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref())
+                .err()
+                .unwrap()
+                .0
+                .contains("Only one column of numbers (\"y\")")
+        );
+    }
+
+    #[test]
+    fn k_groups_long_and_wide() {
+        let t = parse(
+            "y,g\n1,a\n2,a\n3,b\n4,b\n5,c\n6,c\n,c\n",
+            HeaderChoice::Detect,
+        )
+        .unwrap();
+        let g = k_groups(&t, &Layout::Detect).unwrap();
+        assert_eq!(g.names, vec!["a", "b", "c"]);
+        assert_eq!(g.values[2], vec![5.0, 6.0]);
+        assert!(g.notes[0].contains("1 blank or NA cell"), "{:?}", g.notes);
+        let t = parse("p,q,r\n1,2,3\n4,5,6\n", HeaderChoice::Detect).unwrap();
+        let g = k_groups(&t, &Layout::Detect).unwrap();
+        assert_eq!(g.names, vec!["p", "q", "r"]);
+        let e = k_groups(
+            &t,
+            &Layout::Wide {
+                columns: vec!["p".into(), "q".into()],
+            },
+        )
+        .err()
+        .unwrap();
+        assert!(e.0.contains("2 columns were chosen (\"p\", \"q\")"), "{e}");
+        let e = k_groups(
+            &t,
+            &Layout::Wide {
+                columns: vec!["p".into(), "q".into(), "p".into()],
+            },
+        )
+        .err()
+        .unwrap();
+        assert!(
+            e.0.contains("The same column (\"p\") was chosen for two groups"),
+            "{e}"
+        );
+        let t = parse("y,g\n1,a\n2,a\n3,b\n4,b\n", HeaderChoice::Detect).unwrap();
+        let e = k_groups(&t, &Layout::Detect).err().unwrap();
+        assert!(e.0.contains("names 2 groups"), "{e}");
+        assert!(e.0.contains("two-groups design"), "{e}");
+    }
+
+    #[test]
+    fn unknown_first_group() {
+        let (t, mut r) = req("y,g\n1,a\n2,a\n3,b\n4,b\n");
+        r.first = Some("z".into());
+        let e = two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref())
+            .err()
+            .unwrap();
+        assert!(e.0.contains("no group \"z\""), "{e}");
+    }
+}

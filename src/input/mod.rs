@@ -1,0 +1,7 @@
+//! Reading what the user brings: the pasted or dropped table, the columns and groups a design
+//! needs, typed counts, and the design a table's shape suggests.
+
+pub mod columns;
+pub mod counts;
+pub mod suggest;
+pub mod table;

@@ -1,0 +1,514 @@
+//! Reading a pasted or dropped table: delimiter, header row, quoted fields, BOM, CRLF,
+//! decimal commas, blank and NA cells. Built on the `csv` crate.
+
+use serde::{Deserialize, Serialize};
+
+/// The kind of values a column holds.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum ColumnKind {
+    /// Every filled cell is a number.
+    Number,
+    /// Mostly numbers, but some cells are not (probably typing errors).
+    NumberWithText,
+    /// Text labels.
+    Label,
+    /// No filled cell at all.
+    Empty,
+}
+
+/// One cell as typed, with the line of the pasted text it came from (1-based).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Cell {
+    pub text: String,
+    pub line: u64,
+}
+
+#[derive(Clone, Debug)]
+pub struct Column {
+    pub name: String,
+    pub cells: Vec<Cell>,
+    pub kind: ColumnKind,
+}
+
+/// A parsed table.
+#[derive(Clone, Debug)]
+pub struct Table {
+    pub columns: Vec<Column>,
+    pub rows: usize,
+    pub delimiter: u8,
+    pub header: bool,
+    /// Whether decimal commas may be read as decimal points (delimiter is not a comma).
+    pub decimal_comma: bool,
+}
+
+/// How the user wants the first row treated.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum HeaderChoice {
+    #[default]
+    Detect,
+    Names,
+    Data,
+}
+
+/// A cell's value: a number, missing (blank or an NA marker), or text that is not a number.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Value {
+    Number(f64),
+    Missing,
+    Text,
+}
+
+/// Markers read as missing values, compared case-insensitively, besides blank cells.
+pub const MISSING_MARKERS: [&str; 4] = ["na", "n/a", "nan", "."];
+
+/// Reads one cell as a number. With `decimal_comma`, "4,25" reads as 4.25.
+pub fn read_value(text: &str, decimal_comma: bool) -> Value {
+    let t = text.trim();
+    if t.is_empty() || MISSING_MARKERS.iter().any(|m| t.eq_ignore_ascii_case(m)) {
+        return Value::Missing;
+    }
+    let plain = |s: &str| -> Option<f64> {
+        // Only plain decimal notation (with optional exponent); no "inf", "nan", hex.
+        let ok = s
+            .bytes()
+            .all(|c| c.is_ascii_digit() || matches!(c, b'.' | b'-' | b'+' | b'e' | b'E'));
+        if !ok || !s.bytes().any(|c| c.is_ascii_digit()) {
+            return None;
+        }
+        s.parse::<f64>().ok().filter(|v| v.is_finite())
+    };
+    if let Some(v) = plain(t) {
+        return Value::Number(v);
+    }
+    if decimal_comma && t.matches(',').count() == 1 && !t.contains('.') {
+        if let Some(v) = plain(&t.replace(',', ".")) {
+            return Value::Number(v);
+        }
+    }
+    Value::Text
+}
+
+/// Words read as a yes (1) and a no (0) outcome, compared case-insensitively.
+pub const YES_WORDS: [&str; 6] = ["1", "yes", "y", "true", "pass", "success"];
+pub const NO_WORDS: [&str; 6] = ["0", "no", "n", "false", "fail", "failure"];
+
+/// Reads one cell as a yes/no outcome: Some(Some(true)) for a yes, Some(Some(false)) for a
+/// no, Some(None) for a blank or NA cell, None for anything else.
+pub fn read_yes_no(text: &str) -> Option<Option<bool>> {
+    let t = text.trim();
+    if t.is_empty() || MISSING_MARKERS.iter().any(|m| t.eq_ignore_ascii_case(m)) {
+        return Some(None);
+    }
+    if YES_WORDS.iter().any(|w| t.eq_ignore_ascii_case(w)) || t == "1.0" {
+        Some(Some(true))
+    } else if NO_WORDS.iter().any(|w| t.eq_ignore_ascii_case(w)) || t == "0.0" {
+        Some(Some(false))
+    } else {
+        None
+    }
+}
+
+/// Whether every filled cell of a column reads as yes/no (and at least one is filled).
+pub fn is_yes_no(col: &Column) -> bool {
+    let mut any = false;
+    for c in &col.cells {
+        match read_yes_no(&c.text) {
+            None => return false,
+            Some(Some(_)) => any = true,
+            Some(None) => {}
+        }
+    }
+    any
+}
+
+/// Why a table could not be read.
+#[derive(Clone, Debug, PartialEq)]
+pub struct TableError(pub String);
+
+impl std::fmt::Display for TableError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(&self.0)
+    }
+}
+
+impl From<TableError> for crate::base::RunError {
+    fn from(e: TableError) -> Self {
+        crate::base::RunError::Input(e.0)
+    }
+}
+
+fn records(text: &str, delimiter: u8) -> Result<Vec<(u64, Vec<String>)>, TableError> {
+    let blanked: String;
+    let text = if text.lines().any(|l| l.trim_start().starts_with('#')) {
+        blanked = text
+            .split('\n')
+            .map(|l| {
+                if l.trim_start().starts_with('#') {
+                    ""
+                } else {
+                    l
+                }
+            })
+            .collect::<Vec<_>>()
+            .join("\n");
+        &blanked
+    } else {
+        text
+    };
+    let mut reader = csv::ReaderBuilder::new()
+        .delimiter(delimiter)
+        .has_headers(false)
+        .flexible(true)
+        .trim(csv::Trim::All)
+        .from_reader(text.as_bytes());
+    // Comment lines ('#' first) are blanked rather than skipped by the reader, so that the
+    // line numbers in messages match the pasted text.
+    let mut out = Vec::new();
+    let mut cursor = (0usize, 0u64);
+    for rec in reader.records() {
+        let rec = rec.map_err(|e| {
+            let line = e
+                .position()
+                .map_or(0, |p| line_of(text, p.byte() as usize, &mut cursor));
+            TableError(format!(
+                "Line {line} could not be read as a table row ({e}). Check for a stray quote mark."
+            ))
+        })?;
+        let line = rec
+            .position()
+            .map_or(0, |p| line_of(text, p.byte() as usize, &mut cursor));
+        let cells: Vec<String> = rec.iter().map(|c| c.to_string()).collect();
+        if cells.iter().all(|c| c.is_empty()) {
+            continue; // blank line
+        }
+        out.push((line, cells));
+    }
+    Ok(out)
+}
+
+/// The 1-based line on which the record starting at byte `at` has its first character
+/// (the reader's own line count is unreliable around blank lines).
+/// `cursor` holds (byte, newlines before it) of the previous call, so that a whole table is
+/// numbered in one pass.
+fn line_of(text: &str, at: usize, cursor: &mut (usize, u64)) -> u64 {
+    let bytes = text.as_bytes();
+    let mut b = at.min(bytes.len());
+    while b < bytes.len() && (bytes[b] == b'\n' || bytes[b] == b'\r') {
+        b += 1;
+    }
+    if b < cursor.0 {
+        *cursor = (0, 0);
+    }
+    cursor.1 += bytes[cursor.0..b].iter().filter(|&&c| c == b'\n').count() as u64;
+    cursor.0 = b;
+    1 + cursor.1
+}
+
+/// Picks the delimiter: tab, then semicolon, then comma, whichever splits the first rows
+/// into a consistent number of fields (more than one).
+fn detect_delimiter(text: &str) -> u8 {
+    let sample: String = text
+        .lines()
+        .filter(|l| !l.trim().is_empty() && !l.trim_start().starts_with('#'))
+        .take(30)
+        .collect::<Vec<_>>()
+        .join("\n");
+    for d in [b'\t', b';', b','] {
+        if let Ok(recs) = records(&sample, d) {
+            if recs.is_empty() {
+                continue;
+            }
+            let first = recs[0].1.len();
+            if first > 1 && recs.iter().all(|(_, r)| r.len() == first) {
+                return d;
+            }
+        }
+    }
+    // Ragged or single-column: take the first delimiter that appears at all.
+    for d in [b'\t', b';', b','] {
+        if sample.as_bytes().contains(&d) {
+            return d;
+        }
+    }
+    b','
+}
+
+pub fn delimiter_name(d: u8) -> &'static str {
+    match d {
+        b'\t' => "tab",
+        b';' => "semicolon",
+        _ => "comma",
+    }
+}
+
+/// Parses pasted or dropped text into a table.
+pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, TableError> {
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
+    if text.trim().is_empty() {
+        return Err(TableError(
+            "The data box is empty. Paste a table (for example from a spreadsheet), drop a file, or pick an example.".into(),
+        ));
+    }
+    let delimiter = detect_delimiter(text);
+    let decimal_comma = delimiter != b',';
+    let recs = records(text, delimiter)?;
+    if recs.is_empty() {
+        return Err(TableError("No rows were found in the data.".into()));
+    }
+    let is_num = |s: &str| matches!(read_value(s, decimal_comma), Value::Number(_));
+    let has_header = match header {
+        HeaderChoice::Names => true,
+        HeaderChoice::Data => false,
+        HeaderChoice::Detect => {
+            let first_has_number = recs[0].1.iter().any(|c| is_num(c));
+            let later_has_number = recs[1..].iter().any(|(_, r)| r.iter().any(|c| is_num(c)));
+            !first_has_number && (later_has_number || recs.len() > 1)
+        }
+    };
+    let width = if has_header {
+        recs[0].1.len()
+    } else {
+        recs.iter().map(|(_, r)| r.len()).max().unwrap_or(0)
+    };
+    let body = if has_header { &recs[1..] } else { &recs[..] };
+    if has_header {
+        for (line, r) in body {
+            let filled = r.iter().rposition(|c| !c.is_empty()).map_or(0, |i| i + 1);
+            if filled > width {
+                return Err(TableError(format!(
+                    "Line {line} has {filled} fields but the first row names only {width} columns. \
+                     Remove the extra fields or add a name for each column."
+                )));
+            }
+        }
+    }
+    let mut names: Vec<String> = Vec::with_capacity(width);
+    for i in 0..width {
+        let raw = if has_header {
+            recs[0].1.get(i).cloned().unwrap_or_default()
+        } else {
+            String::new()
+        };
+        let base = if raw.is_empty() {
+            format!("Column {}", i + 1)
+        } else {
+            raw
+        };
+        let mut name = base.clone();
+        let mut k = 2;
+        while names.contains(&name) {
+            name = format!("{base} ({k})");
+            k += 1;
+        }
+        names.push(name);
+    }
+    let mut columns: Vec<Column> = names
+        .into_iter()
+        .map(|name| Column {
+            name,
+            cells: Vec::with_capacity(body.len()),
+            kind: ColumnKind::Empty,
+        })
+        .collect();
+    for (line, r) in body {
+        for (i, col) in columns.iter_mut().enumerate() {
+            col.cells.push(Cell {
+                text: r.get(i).cloned().unwrap_or_default(),
+                line: *line,
+            });
+        }
+    }
+    for col in &mut columns {
+        let (mut num, mut text) = (0usize, 0usize);
+        for c in &col.cells {
+            match read_value(&c.text, decimal_comma) {
+                Value::Number(_) => num += 1,
+                Value::Text => text += 1,
+                Value::Missing => {}
+            }
+        }
+        col.kind = if num == 0 && text == 0 {
+            ColumnKind::Empty
+        } else if text == 0 {
+            ColumnKind::Number
+        } else if num >= text * 2 {
+            ColumnKind::NumberWithText
+        } else {
+            ColumnKind::Label
+        };
+    }
+    Ok(Table {
+        rows: body.len(),
+        columns,
+        delimiter,
+        header: has_header,
+        decimal_comma,
+    })
+}
+
+impl Table {
+    pub fn column(&self, name: &str) -> Result<&Column, TableError> {
+        self.columns.iter().find(|c| c.name == name).ok_or_else(|| {
+            let names: Vec<String> = self
+                .columns
+                .iter()
+                .map(|c| format!("\"{}\"", c.name))
+                .collect();
+            TableError(format!(
+                "There is no column named \"{name}\". The columns are: {}.",
+                names.join(", ")
+            ))
+        })
+    }
+}
+
+/// Numbers of a column, read strictly: each cell is a number or missing.
+pub struct NumericColumn {
+    /// (row index in the table, value) for every filled cell.
+    pub values: Vec<(usize, f64)>,
+    pub missing: usize,
+    pub decimal_commas: usize,
+}
+
+impl Column {
+    /// Reads every cell as a number; a cell holding text is an error that names it.
+    pub fn numbers(&self, decimal_comma: bool) -> Result<NumericColumn, TableError> {
+        let mut values = Vec::with_capacity(self.cells.len());
+        let mut missing = 0;
+        let mut decimal_commas = 0;
+        let mut bad: Vec<&Cell> = Vec::new();
+        for (i, c) in self.cells.iter().enumerate() {
+            match read_value(&c.text, decimal_comma) {
+                Value::Number(v) => {
+                    if c.text.contains(',') {
+                        decimal_commas += 1;
+                    }
+                    values.push((i, v))
+                }
+                Value::Missing => missing += 1,
+                Value::Text => bad.push(c),
+            }
+        }
+        if let Some(first) = bad.first() {
+            let more = if bad.len() > 1 {
+                let lines: Vec<String> = bad
+                    .iter()
+                    .skip(1)
+                    .take(4)
+                    .map(|c| c.line.to_string())
+                    .collect();
+                format!(
+                    " {} more cell{} in this column {} not numbers (line{} {}{}).",
+                    bad.len() - 1,
+                    if bad.len() > 2 { "s" } else { "" },
+                    if bad.len() > 2 { "are" } else { "is" },
+                    if bad.len() > 2 { "s" } else { "" },
+                    lines.join(", "),
+                    if bad.len() > 5 { ", …" } else { "" }
+                )
+            } else {
+                String::new()
+            };
+            return Err(TableError(format!(
+                "Line {} of column \"{}\" holds \"{}\", which is not a number. Correct it, or \
+                 clear the cell to leave it out.{more}",
+                first.line, self.name, first.text
+            )));
+        }
+        Ok(NumericColumn {
+            values,
+            missing,
+            decimal_commas,
+        })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn reads_tab_separated_with_header() {
+        let t = parse(
+            "yield\tschedule\n4.1\tdrip\n3.9\tsprinkler\n",
+            HeaderChoice::Detect,
+        )
+        .unwrap();
+        assert_eq!(t.delimiter, b'\t');
+        assert!(t.header);
+        assert_eq!(t.columns[0].name, "yield");
+        assert_eq!(t.columns[0].kind, ColumnKind::Number);
+        assert_eq!(t.columns[1].kind, ColumnKind::Label);
+        assert_eq!(t.rows, 2);
+    }
+
+    #[test]
+    fn bom_crlf_quotes_and_comments() {
+        let text = "\u{feff}# invented example\r\n\"time, s\",desk\r\n12.5,\"North, upper\"\r\n13,South\r\n";
+        let t = parse(text, HeaderChoice::Detect).unwrap();
+        assert_eq!(t.columns[0].name, "time, s");
+        assert_eq!(t.columns[1].cells[0].text, "North, upper");
+        assert_eq!(t.columns[1].cells[1].line, 4);
+    }
+
+    #[test]
+    fn decimal_commas_with_semicolons() {
+        let t = parse("a;b\n1,5;2,25\n3;4\n", HeaderChoice::Detect).unwrap();
+        assert_eq!(t.delimiter, b';');
+        let a = t.columns[0].numbers(t.decimal_comma).unwrap();
+        assert_eq!(a.values, vec![(0, 1.5), (1, 3.0)]);
+        assert_eq!(a.decimal_commas, 1);
+    }
+
+    #[test]
+    fn no_header_when_first_row_is_numeric() {
+        let t = parse("1,2\n3,4\n", HeaderChoice::Detect).unwrap();
+        assert!(!t.header);
+        assert_eq!(t.columns[1].name, "Column 2");
+        assert_eq!(t.rows, 2);
+    }
+
+    #[test]
+    fn text_in_numeric_column_names_line_and_text() {
+        let t = parse("x,g\n1,a\n2,a\n3,b\n4.l,b\n5,b\n", HeaderChoice::Detect).unwrap();
+        assert_eq!(t.columns[0].kind, ColumnKind::NumberWithText);
+        let err = t.columns[0].numbers(t.decimal_comma).err().unwrap();
+        assert!(err.0.contains("Line 5"), "{err}");
+        assert!(err.0.contains("\"4.l\""), "{err}");
+        assert!(err.0.contains("\"x\""), "{err}");
+    }
+
+    #[test]
+    fn blanks_and_na_are_missing() {
+        let t = parse("x,y\n1,\n,2\nNA,3\n4,n/a\n", HeaderChoice::Detect).unwrap();
+        let x = t.columns[0].numbers(false).unwrap();
+        assert_eq!(x.missing, 2);
+        assert_eq!(x.values.len(), 2);
+    }
+
+    #[test]
+    fn too_many_fields_is_an_error() {
+        let err = parse("a,b\n1,2\n3,4,5\n", HeaderChoice::Detect)
+            .err()
+            .unwrap();
+        assert!(err.0.contains("Line 3"), "{err}");
+    }
+
+    #[test]
+    fn infinities_are_not_numbers() {
+        assert_eq!(read_value("inf", false), Value::Text);
+        assert_eq!(read_value("-1e3", false), Value::Number(-1000.0));
+        assert_eq!(read_value(" NA ", false), Value::Missing);
+    }
+
+    #[test]
+    fn empty_text_is_a_clear_error() {
+        assert!(parse("  \n", HeaderChoice::Detect)
+            .err()
+            .unwrap()
+            .0
+            .contains("empty"));
+    }
+}

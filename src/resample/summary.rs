@@ -1,0 +1,83 @@
+//! Summaries of a resampled distribution for its figure: an equal-width histogram and the
+//! region counted toward the p-value.
+
+use crate::base::{Alternative, Histogram, Tail, TwoSidedRule};
+use crate::resample::tally::Counts;
+
+/// Equal-width histogram over the finite values, widened to include `mark` values.
+pub fn histogram(values: &[f64], marks: &[f64], bins: usize) -> Histogram {
+    let finite = values.iter().copied().filter(|v| v.is_finite());
+    let (mut lo, mut hi) = finite
+        .clone()
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(l, h), v| {
+            (l.min(v), h.max(v))
+        });
+    for &m in marks.iter().filter(|m| m.is_finite()) {
+        lo = lo.min(m);
+        hi = hi.max(m);
+    }
+    if !lo.is_finite() {
+        return Histogram {
+            edges: vec![],
+            counts: vec![],
+            weights: None,
+        };
+    }
+    if hi - lo <= 0.0 {
+        let w = if lo == 0.0 { 1.0 } else { lo.abs() * 0.01 };
+        lo -= w;
+        hi += w;
+    }
+    let mut width = (hi - lo) / bins as f64;
+    let mut bins = bins;
+    // Put the first mark (the observed value) on a bin edge, so that no bar straddles the
+    // boundary of the region counted toward p.
+    if let Some(&m) = marks.first().filter(|m| m.is_finite()) {
+        let below = ((m - lo) / width).ceil();
+        let start = m - below * width;
+        let above = ((hi - m) / width).ceil().max(1.0);
+        lo = start;
+        bins = (below + above) as usize;
+        hi = lo + width * bins as f64;
+        width = (hi - lo) / bins as f64;
+    }
+    let edges: Vec<f64> = (0..=bins).map(|i| lo + width * i as f64).collect();
+    let mut counts = vec![0u64; bins];
+    for v in finite {
+        let i = (((v - lo) / width).max(0.0) as usize).min(bins - 1);
+        counts[i] += 1;
+    }
+    Histogram {
+        edges,
+        counts,
+        weights: None,
+    }
+}
+
+/// The part of the null distribution counted toward the p-value, for the plot: the side of
+/// the observed value for a doubled tail, both sides beyond |t| for the absolute rule.
+pub fn tail_region(alt: Alternative, rule: TwoSidedRule, counts: &Counts, observed: f64) -> Tail {
+    let upper = Tail {
+        low: None,
+        high: Some(observed),
+    };
+    let lower = Tail {
+        low: Some(observed),
+        high: None,
+    };
+    match (alt, rule) {
+        (Alternative::Greater, _) => upper,
+        (Alternative::Less, _) => lower,
+        (Alternative::TwoSided, TwoSidedRule::Absolute) => Tail {
+            low: Some(-observed.abs()),
+            high: Some(observed.abs()),
+        },
+        (Alternative::TwoSided, TwoSidedRule::DoubledTail) => {
+            if counts.ge <= counts.le {
+                upper
+            } else {
+                lower
+            }
+        }
+    }
+}
