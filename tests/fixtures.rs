@@ -112,6 +112,8 @@ fn leaves(path: &str, v: &Value, key: &str, out: &mut Vec<(String, Value)>) {
             }
         }
         Value::String(_) if !DATA_KEYS.contains(&key) => {}
+        // Notes are wording (now typed codes); they are pinned by the renderings.
+        _ if key == "note" || key == "notes" => {}
         other => out.push((path.to_string(), other.clone())),
     }
 }

@@ -3,7 +3,9 @@
 
 pub mod error;
 pub mod format;
+pub mod note;
 pub mod vocab;
 
 pub use error::{Progress, ProgressFn, RunError};
+pub use note::{InfiniteCause, Note};
 pub use vocab::*;

@@ -4,6 +4,8 @@
 
 use serde::{Deserialize, Serialize};
 
+use super::note::Note;
+
 /// Version of the request/report format. Bump on any incompatible change.
 pub const FORMAT_VERSION: u32 = 1;
 
@@ -193,15 +195,93 @@ impl Side {
 
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct Interval {
+    /// The lower limit (None: open, or no interval).
     pub low: Option<f64>,
+    /// The upper limit (None: open, or no interval).
     pub high: Option<f64>,
+    /// The confidence level, e.g. 0.95.
     pub level: f64,
-    pub method: String,
+    /// How the interval was computed.
+    pub method: Method,
     /// Two-sided, or a one-sided bound (then the other end is open and null).
     #[serde(default)]
     pub side: Side,
     /// Why the interval is missing or should be read with care.
-    pub note: Option<String>,
+    #[serde(default)]
+    pub notes: Vec<Note>,
+}
+
+impl Interval {
+    /// No interval (yet): both limits missing, with the reason.
+    pub fn none(method: Method, level: f64, side: Side, note: Note) -> Interval {
+        Interval {
+            low: None,
+            high: None,
+            level,
+            method,
+            side,
+            notes: vec![note],
+        }
+    }
+}
+
+/// How an interval was computed: a bootstrap method, or a classical formula.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Method {
+    /// Bootstrap percentile interval.
+    Percentile,
+    /// Basic (reverse percentile) bootstrap interval.
+    Basic,
+    /// Normal interval with the bootstrap standard error and bias.
+    Normal,
+    /// Bias-corrected and accelerated bootstrap interval.
+    Bca,
+    /// Studentized (bootstrap-t) interval.
+    Studentized,
+    /// Welch's t interval for a difference in means.
+    WelchT,
+    /// The one-sample t interval for a mean.
+    OneSampleT,
+    /// The paired t interval for a mean difference.
+    PairedT,
+    /// The t interval of a mean difference (paired or one-sample t-test).
+    T,
+    /// The t interval for a least-squares slope.
+    SlopeT,
+    /// The t interval of a coefficient in a linear model.
+    LinearModelT,
+    /// The exact (Clopper–Pearson) interval for a proportion.
+    ClopperPearson,
+    /// Fisher's z interval for a correlation.
+    FisherZ,
+    /// Newcombe's hybrid score interval for a difference in proportions.
+    Newcombe,
+    /// Katz's log interval for a risk ratio.
+    Katz,
+    /// Woolf's logit interval for an odds ratio.
+    Woolf,
+}
+
+impl From<IntervalMethod> for Method {
+    fn from(m: IntervalMethod) -> Method {
+        match m {
+            IntervalMethod::Percentile => Method::Percentile,
+            IntervalMethod::Basic => Method::Basic,
+            IntervalMethod::Normal => Method::Normal,
+            IntervalMethod::Bca => Method::Bca,
+            IntervalMethod::Studentized => Method::Studentized,
+        }
+    }
+}
+
+impl Method {
+    /// The bootstrap method, if this is one.
+    pub fn bootstrap(self) -> Option<IntervalMethod> {
+        IntervalMethod::ALL
+            .into_iter()
+            .find(|m| Method::from(*m) == self)
+    }
 }
 
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]

@@ -3,7 +3,7 @@
 use serde::{Deserialize, Serialize};
 use statrs::distribution::{ContinuousCDF, StudentsT};
 
-use crate::base::{Alternative, Interval, Side};
+use crate::base::{Alternative, Interval, Method, Note, Side};
 
 /// The t-test of the group effect in a linear model with the stratum as a factor
 /// (y ~ group + stratum, no interaction).
@@ -48,9 +48,9 @@ pub fn linear_model(
         low: None,
         high: None,
         level,
-        method: "t (linear model)".into(),
+        method: Method::LinearModelT,
         side: Side::TwoSided,
-        note: None,
+        notes: Vec::new(),
     };
     let se = (sse / df / sxx).sqrt();
     let dist = StudentsT::new(0.0, 1.0, df).ok();
@@ -74,10 +74,7 @@ pub fn linear_model(
             }
         }
         None => {
-            ci.note = Some(
-                "Undefined: too few observations beyond one per cell, or no spread within cells."
-                    .into(),
-            );
+            ci.notes.push(Note::LinearModelUndefined);
             LinearModelCheck {
                 estimate: beta,
                 t: None,

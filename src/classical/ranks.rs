@@ -12,9 +12,23 @@ pub struct SignedRank {
     /// Sum of the ranks of the positive differences (zeros left out).
     pub w_plus: f64,
     pub p_value: Option<f64>,
-    /// "exact" (no ties, at most 50 non-zero differences) or "normal approximation".
-    pub method: String,
+    /// How the p-value was found.
+    pub method: RankMethod,
     pub zeros: usize,
+}
+
+/// How a signed-rank p-value was found.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum RankMethod {
+    /// Exact null distribution (no ties or zeros, at most 50 differences).
+    Exact,
+    /// Exact over all sign patterns (ties or zeros present, at most 13 differences).
+    ExactWithTies,
+    /// Normal approximation with the tie correction, no continuity correction.
+    Normal,
+    /// Undefined: all differences are zero.
+    Undefined,
 }
 
 /// Wilcoxon signed-rank test as scipy.stats.wilcoxon 1.17 computes it by default: zeros left
@@ -29,7 +43,7 @@ pub fn signed_rank(d: &[f64], alternative: Alternative) -> SignedRank {
         return SignedRank {
             w_plus: 0.0,
             p_value: None,
-            method: "undefined (all differences are zero)".into(),
+            method: RankMethod::Undefined,
             zeros,
         };
     }
@@ -64,7 +78,7 @@ pub fn signed_rank(d: &[f64], alternative: Alternative) -> SignedRank {
         return SignedRank {
             w_plus,
             p_value: Some(p),
-            method: "exact (all sign patterns; ties or zeros present)".into(),
+            method: RankMethod::ExactWithTies,
             zeros,
         };
     }
@@ -90,7 +104,7 @@ pub fn signed_rank(d: &[f64], alternative: Alternative) -> SignedRank {
         return SignedRank {
             w_plus,
             p_value: Some(p),
-            method: "exact".into(),
+            method: RankMethod::Exact,
             zeros,
         };
     }
@@ -117,7 +131,7 @@ pub fn signed_rank(d: &[f64], alternative: Alternative) -> SignedRank {
     SignedRank {
         w_plus,
         p_value: Some(p),
-        method: "normal approximation".into(),
+        method: RankMethod::Normal,
         zeros,
     }
 }

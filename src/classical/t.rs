@@ -3,7 +3,7 @@
 use serde::{Deserialize, Serialize};
 use statrs::distribution::{ContinuousCDF, StudentsT};
 
-use crate::base::{Alternative, Interval, Side};
+use crate::base::{Alternative, Interval, Method, Note, Side};
 use crate::num::stats;
 
 /// Welch's t-test of a difference in means, with its confidence interval.
@@ -27,12 +27,12 @@ pub fn welch(a: &[f64], b: &[f64], alternative: Alternative, level: f64) -> Welc
         low: None,
         high: None,
         level,
-        method: "Welch t".into(),
+        method: Method::WelchT,
         side: crate::base::Side::TwoSided,
-        note: None,
+        notes: Vec::new(),
     };
     if se2 <= 0.0 || !se2.is_finite() {
-        ci.note = Some("Both groups have no spread, so Welch's t-test is undefined.".into());
+        ci.notes.push(Note::WelchUndefined);
         return Welch {
             mean_difference: diff,
             t: None,
@@ -81,12 +81,12 @@ pub fn t_test(d: &[f64], alternative: Alternative, level: f64) -> TTest {
         low: None,
         high: None,
         level,
-        method: "t".into(),
+        method: Method::T,
         side: Side::TwoSided,
-        note: None,
+        notes: Vec::new(),
     };
     let Some(dist) = StudentsT::new(0.0, 1.0, df).ok().filter(|_| se > 0.0) else {
-        ci.note = Some("The differences do not vary, so the t-test is undefined.".into());
+        ci.notes.push(Note::TTestUndefined);
         return TTest {
             t: None,
             df,

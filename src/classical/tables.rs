@@ -5,7 +5,7 @@
 use serde::{Deserialize, Serialize};
 use statrs::distribution::{ChiSquared, ContinuousCDF};
 
-use crate::base::{float, Alternative, Interval, Side};
+use crate::base::{float, Alternative, Interval, Method, Note, Side};
 use crate::classical::anova::ChiSquareTest;
 use crate::num::binomial::pmf_from_ratios;
 use crate::num::normal;
@@ -79,13 +79,13 @@ pub fn classical_measures(t: &Table2, level: f64) -> (Measure, Measure, Measure)
     let (a, n1, c, n2) = (t.a as f64, t.n1 as f64, t.c as f64, t.n2 as f64);
     let (b, d) = (n1 - a, n2 - c);
     let (p1, p2) = (a / n1, c / n2);
-    let iv = |low: Option<f64>, high: Option<f64>, method: &str, note: Option<String>| Interval {
+    let iv = |low: Option<f64>, high: Option<f64>, method: Method, note: Option<Note>| Interval {
         low,
         high,
         level,
-        method: method.into(),
+        method,
         side: Side::TwoSided,
-        note,
+        notes: note.into_iter().collect(),
     };
     // Newcombe (1998), method 10: hybrid score interval from the two Wilson intervals.
     let (l1, u1) = wilson(a, n1, z);
@@ -97,12 +97,11 @@ pub fn classical_measures(t: &Table2, level: f64) -> (Measure, Measure, Measure)
         ci: iv(
             Some(delta - ((p1 - l1).powi(2) + (u2 - p2).powi(2)).sqrt()),
             Some(delta + ((u1 - p1).powi(2) + (p2 - l2).powi(2)).sqrt()),
-            "Newcombe hybrid score",
+            Method::Newcombe,
             None,
         ),
     };
-    let zero_note =
-        || Some("Undefined with a zero count in the table; see the exact test instead.".into());
+    let zero_note = || Some(Note::ZeroCount);
     // Katz et al. (1978): log risk ratio ± z·sqrt(1/a − 1/n1 + 1/c − 1/n2).
     let rr = p1 / p2;
     let risk_ratio = if a > 0.0 && c > 0.0 {
@@ -113,7 +112,7 @@ pub fn classical_measures(t: &Table2, level: f64) -> (Measure, Measure, Measure)
             ci: iv(
                 Some((rr.ln() - z * se).exp()),
                 Some((rr.ln() + z * se).exp()),
-                "Katz log",
+                Method::Katz,
                 None,
             ),
         }
@@ -121,7 +120,7 @@ pub fn classical_measures(t: &Table2, level: f64) -> (Measure, Measure, Measure)
         Measure {
             name: "risk ratio".into(),
             estimate: rr,
-            ci: iv(None, None, "Katz log", zero_note()),
+            ci: iv(None, None, Method::Katz, zero_note()),
         }
     };
     // Woolf (1955): log odds ratio ± z·sqrt(1/a + 1/b + 1/c + 1/d).
@@ -134,7 +133,7 @@ pub fn classical_measures(t: &Table2, level: f64) -> (Measure, Measure, Measure)
             ci: iv(
                 Some((or.ln() - z * se).exp()),
                 Some((or.ln() + z * se).exp()),
-                "Woolf (logit)",
+                Method::Woolf,
                 None,
             ),
         }
@@ -142,7 +141,7 @@ pub fn classical_measures(t: &Table2, level: f64) -> (Measure, Measure, Measure)
         Measure {
             name: "odds ratio".into(),
             estimate: or,
-            ci: iv(None, None, "Woolf (logit)", zero_note()),
+            ci: iv(None, None, Method::Woolf, zero_note()),
         }
     };
     (diff, risk_ratio, odds_ratio)
@@ -199,6 +198,8 @@ pub struct Measure {
 /// distribution, or two-sided by summing the tables no more likely than the observed one.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct FisherExact {
+    /// The p-value.
     pub p_value: f64,
-    pub method: String,
+    /// Its direction (two-sided: Fisher's rule).
+    pub alternative: Alternative,
 }

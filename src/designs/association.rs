@@ -70,7 +70,7 @@ pub struct AssocReport {
     pub x: String,
     pub y: String,
     pub n: usize,
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
     pub statistic: AssocStatistic,
     pub statistic_label: String,
     pub alternative: Alternative,
@@ -245,14 +245,14 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, RunE
         low: None,
         high: None,
         level: req.confidence,
-        method: String::new(),
+        method: Method::FisherZ,
         side: Side::TwoSided,
-        note: None,
+        notes: Vec::new(),
     };
     let zq = normal::quantile(1.0 - (1.0 - req.confidence) / 2.0);
     match req.statistic {
         AssocStatistic::Slope => {
-            classical_ci.method = "t interval for the slope".into();
+            classical_ci.method = Method::SlopeT;
             if let (Some(g), Ok(d)) = (
                 estimate::se_formula(Estimate::Slope, false),
                 StudentsT::new(0.0, 1.0, df),
@@ -266,14 +266,14 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, RunE
             }
         }
         _ => {
-            classical_ci.method = "Fisher z".into();
+            classical_ci.method = Method::FisherZ;
             if n > 3 && observed.abs() < 1.0 {
                 let z = observed.atanh();
                 let h = zq / (nf - 3.0).sqrt();
                 classical_ci.low = Some((z - h).tanh());
                 classical_ci.high = Some((z + h).tanh());
             } else {
-                classical_ci.note = Some("Needs at least 4 pairs and |r| < 1.".into());
+                classical_ci.notes.push(Note::FisherZNeedsMore);
             }
         }
     }

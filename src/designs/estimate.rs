@@ -254,7 +254,7 @@ pub struct EstimateReport {
     pub estimate_key: Estimate,
     pub estimate_label: String,
     pub samples: Vec<SampleSize>,
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
     pub estimate: f64,
     /// Bootstrap standard error.
     pub se: Option<f64>,
@@ -387,21 +387,20 @@ pub(crate) fn se_formula(e: Estimate, paired: bool) -> Option<BoxedStat> {
 
 // ----- reading the data ---------------------------------------------------------------
 
-fn numbers(t: &Table, col: &str, notes: &mut Vec<String>) -> Result<Vec<(usize, f64)>, TableError> {
+fn numbers(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<(usize, f64)>, TableError> {
     let c = t.column(col)?;
     let nums = c.numbers(t.decimal_comma)?;
     if nums.missing > 0 {
-        notes.push(format!(
-            "{} blank or NA cell{} in column \"{col}\" left out.",
-            nums.missing,
-            groups::plural(nums.missing)
-        ));
+        notes.push(Note::MissingCells {
+            column: col.to_string(),
+            count: nums.missing,
+        });
     }
     Ok(nums.values)
 }
 
 /// Reads yes/no style values as 1/0 for a proportion.
-fn zero_one(t: &Table, col: &str, notes: &mut Vec<String>) -> Result<Vec<f64>, TableError> {
+fn zero_one(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<f64>, TableError> {
     let c = t.column(col)?;
     let mut out = Vec::new();
     let mut missing = 0;
@@ -423,10 +422,10 @@ fn zero_one(t: &Table, col: &str, notes: &mut Vec<String>) -> Result<Vec<f64>, T
         out.push(v);
     }
     if missing > 0 {
-        notes.push(format!(
-            "{missing} blank or NA cell{} in column \"{col}\" left out.",
-            groups::plural(missing)
-        ));
+        notes.push(Note::MissingCells {
+            column: col.to_string(),
+            count: missing,
+        });
     }
     Ok(out)
 }
@@ -450,11 +449,7 @@ enum Prepared {
     },
 }
 
-fn prepare(
-    req: &EstimateRequest,
-    t: &Table,
-    notes: &mut Vec<String>,
-) -> Result<Prepared, RunError> {
+fn prepare(req: &EstimateRequest, t: &Table, notes: &mut Vec<Note>) -> Result<Prepared, RunError> {
     let kind = req.estimate.kind();
     let wrong = |what: &str| {
         RunError::Input(format!(
@@ -518,10 +513,10 @@ fn prepare(
                             "Column \"{sc}\" names only one stratum; drop the strata or choose another column."
                         )));
                     }
-                    notes.push(format!(
-                        "Resampled within each of the {} strata of \"{sc}\", keeping their sizes.",
-                        labels.len()
-                    ));
+                    notes.push(Note::WithinStrata {
+                        column: sc.clone(),
+                        strata: labels.len(),
+                    });
                     Some(groups_)
                 }
             };
@@ -612,7 +607,7 @@ fn prepare(
 
 // ----- running ------------------------------------------------------------------------
 
-fn check(req: &EstimateRequest, notes: &mut Vec<String>) -> Result<u64, RunError> {
+fn check(req: &EstimateRequest, notes: &mut Vec<Note>) -> Result<u64, RunError> {
     if req.format_version != FORMAT_VERSION {
         return Err(RunError::Input(format!(
             "This analysis was saved in format version {}, but this version of Reshuffle reads version {FORMAT_VERSION}.",
@@ -651,16 +646,11 @@ fn check(req: &EstimateRequest, notes: &mut Vec<String>) -> Result<u64, RunError
         MAX_BOOTSTRAP
     };
     if b > cap {
-        notes.push(format!(
-            "{} resamples were asked for; {} were used, the most this page keeps in memory{}.",
-            fmt::count(b),
-            fmt::count(cap),
-            if nested {
-                " with a nested bootstrap"
-            } else {
-                ""
-            }
-        ));
+        notes.push(Note::ResamplesCapped {
+            asked: b,
+            used: cap,
+            nested,
+        });
         b = cap;
     }
     Ok(b)
@@ -739,11 +729,9 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
     } else if let Some(g) = &se_f {
         SeMethod::Formula(g.as_ref())
     } else {
-        notes.push(format!(
-            "The studentized interval uses a nested bootstrap ({} inner resamples per resample) \
-             for the standard error, as this estimate has no simple formula; it is slower.",
-            boot::NESTED
-        ));
+        notes.push(Note::NestedBootstrap {
+            inner: boot::NESTED,
+        });
         SeMethod::Nested(boot::NESTED)
     };
     let f_ref: StatFn = f.as_ref();
@@ -760,12 +748,10 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
         .collect();
     let dropped = values[0].len() - finite.len();
     if dropped > 0 {
-        notes.push(format!(
-            "{} resample{} gave no defined value (for example no spread) and {} left out.",
-            fmt::count(dropped as u64),
-            groups::plural(dropped),
-            if dropped == 1 { "was" } else { "were" }
-        ));
+        notes.push(Note::UndefinedResamples {
+            count: dropped as u64,
+            total: 0,
+        });
     }
     let t_finite: Vec<f64> = tvals[0].iter().copied().filter(|v| v.is_finite()).collect();
     let se_hat = match &se_method {
@@ -795,11 +781,7 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
     let n_min = samples.iter().map(|s| s.n).min().unwrap_or(0);
     if let Some((lo, hi)) = e.bounds() {
         if estimate <= lo || estimate >= hi {
-            notes.push(format!(
-                "The estimate is at the edge of its possible range ({}); bootstrap intervals cannot \
-                 reach beyond the data and are unreliable here.",
-                fmt::sig(estimate)
-            ));
+            notes.push(Note::EstimateAtEdge { estimate });
         }
     }
     if e == Estimate::Quantile {
@@ -808,21 +790,18 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
             let mut distinct = stats::sorted(x);
             distinct.dedup();
             if tail < 5.0 || distinct.len() < 10 {
-                notes.push(format!(
-                    "Only about {} observation{} lie beyond the {} ({} distinct values in all): too \
-                     few for a trustworthy interval of this quantile.",
+                notes.push(Note::FewBeyondQuantile {
                     tail,
-                    if tail == 1.0 { "" } else { "s" },
-                    e.label(q),
-                    distinct.len()
-                ));
+                    q,
+                    distinct: distinct.len(),
+                });
             }
         }
     }
     if e == Estimate::Cv || e == Estimate::MeanRatio || e == Estimate::MedianRatio {
         if let Some(se) = se {
             if se > estimate.abs() {
-                notes.push("The bootstrap SE exceeds the estimate: the denominator is close to zero in some resamples, so this ratio is unstable.".into());
+                notes.push(Note::UnstableRatio);
             }
         }
     }
@@ -867,7 +846,7 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
 /// The t interval for a mean or a mean difference and Clopper–Pearson for a proportion.
 fn classical_interval(e: Estimate, p: &Prepared, level: f64) -> Option<Interval> {
     use statrs::distribution::{ContinuousCDF, StudentsT};
-    let t_iv = |m: f64, se: f64, df: f64, name: &str| -> Option<Interval> {
+    let t_iv = |m: f64, se: f64, df: f64, name: Method| -> Option<Interval> {
         let q = StudentsT::new(0.0, 1.0, df)
             .ok()?
             .inverse_cdf(1.0 - (1.0 - level) / 2.0);
@@ -875,9 +854,9 @@ fn classical_interval(e: Estimate, p: &Prepared, level: f64) -> Option<Interval>
             low: Some(m - q * se),
             high: Some(m + q * se),
             level,
-            method: name.into(),
+            method: name,
             side: Side::TwoSided,
-            note: None,
+            notes: Vec::new(),
         })
     };
     match (e, p) {
@@ -892,7 +871,7 @@ fn classical_interval(e: Estimate, p: &Prepared, level: f64) -> Option<Interval>
                 stats::mean(x),
                 (stats::variance(x) / n).sqrt(),
                 n - 1.0,
-                "one-sample t",
+                Method::OneSampleT,
             )
         }
         (Estimate::Proportion, Prepared::One { x, .. }) => {
@@ -902,9 +881,9 @@ fn classical_interval(e: Estimate, p: &Prepared, level: f64) -> Option<Interval>
                 low: Some(lo),
                 high: Some(hi),
                 level,
-                method: "Clopper–Pearson (exact binomial)".into(),
+                method: Method::ClopperPearson,
                 side: Side::TwoSided,
-                note: None,
+                notes: Vec::new(),
             })
         }
         (
@@ -918,7 +897,7 @@ fn classical_interval(e: Estimate, p: &Prepared, level: f64) -> Option<Interval>
         ) => {
             let w = classical::welch(a, b, Alternative::TwoSided, level);
             Some(Interval {
-                method: "Welch t".into(),
+                method: Method::WelchT,
                 ..w.ci
             })
         }
@@ -934,7 +913,7 @@ fn classical_interval(e: Estimate, p: &Prepared, level: f64) -> Option<Interval>
                 stats::mean(&d),
                 (stats::variance(&d) / n).sqrt(),
                 n - 1.0,
-                "paired t",
+                Method::PairedT,
             )
         }
         _ => None,
@@ -972,8 +951,7 @@ fn finding(r: &EstimateReport) -> String {
         ),
         _ => "no interval could be formed".to_string(),
     };
-    let method =
-        IntervalMethod::from_key(&iv.method).map_or(iv.method.clone(), |m| m.label().to_string());
+    let method = iv.method.bootstrap().map_or("", |m| m.label());
     format!(
         "The {}{who} is {} ({bound}, {method} bootstrap, {} resamples; bootstrap SE {}).",
         r.estimate_label,
@@ -1055,9 +1033,9 @@ mod tests {
             for iv in &rep.intervals {
                 assert!(
                     iv.low.is_some() && iv.high.is_some(),
-                    "{e:?} {}: {:?}",
+                    "{e:?} {:?}: {:?}",
                     iv.method,
-                    iv.note
+                    iv.notes
                 );
                 assert!(iv.low <= iv.high);
             }
@@ -1081,7 +1059,7 @@ mod tests {
                 );
             }
         }
-        assert!(rep.classical.unwrap().method.contains("Clopper"));
+        assert_eq!(rep.classical.unwrap().method, Method::ClopperPearson);
         let bad = run(&one("x\nyes\nmaybe\n", Estimate::Proportion), &mut |_| true)
             .err()
             .unwrap();
@@ -1092,12 +1070,12 @@ mod tests {
     fn degenerate_data_get_notes_not_nans() {
         let rep = run(&one("x\n5\n5\n5\n5\n", Estimate::Mean), &mut |_| true).unwrap();
         let iv = &rep.intervals[0];
-        assert!(iv.low.is_none() && iv.note.as_ref().unwrap().contains("Undefined"));
+        assert!(iv.low.is_none() && iv.notes == vec![Note::NoVariation]);
         let mut r = one("x\n5\n5\n5\n5\n", Estimate::Mean);
         r.methods = vec![IntervalMethod::Percentile];
         let rep = run(&r, &mut |_| true).unwrap();
         assert_eq!(rep.intervals[0].low, Some(5.0));
-        assert!(rep.intervals[0].note.is_some());
+        assert_eq!(rep.intervals[0].notes, vec![Note::ZeroWidth]);
         let r = one("x\n1\n2\n3\n", Estimate::Quantile);
         assert!(run(&r, &mut |_| true)
             .err()
@@ -1108,7 +1086,9 @@ mod tests {
         r.q = Some(0.95);
         let rep = run(&r, &mut |_| true).unwrap();
         assert!(
-            rep.notes.iter().any(|n| n.contains("too few")),
+            rep.notes
+                .iter()
+                .any(|n| matches!(n, Note::FewBeyondQuantile { .. })),
             "{:?}",
             rep.notes
         );
@@ -1135,7 +1115,7 @@ mod tests {
         assert!((rep.estimate - (74.7 - 65.5) / 6.0).abs() < 1e-12);
         // Differences all positive: every resampled mean difference is positive.
         assert!(rep.intervals[1].low.unwrap() > 0.0);
-        assert_eq!(rep.classical.as_ref().unwrap().method, "paired t");
+        assert_eq!(rep.classical.as_ref().unwrap().method, Method::PairedT);
         let mut r = EstimateRequest::new(
             data.into(),
             EstimateLayout::Pairs {

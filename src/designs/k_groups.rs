@@ -86,7 +86,7 @@ pub struct KGroupsReport {
     pub layout: Layout,
     pub value_label: String,
     pub groups: Vec<GroupSummary>,
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
     pub statistic: KStatistic,
     pub statistic_label: String,
     /// The omnibus test (upper tail: larger values mean more spread between groups).
@@ -217,13 +217,10 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
     );
     let infinite = values.iter().filter(|v| !v.is_finite()).count();
     if infinite > 0 {
-        notes.push(format!(
-            "{} relabelling{} left a group with no spread, giving an infinite statistic; {} \
-             counted but not plotted.",
-            fmt::count(infinite as u64),
-            plural(infinite),
-            if infinite == 1 { "it is" } else { "they are" }
-        ));
+        notes.push(Note::InfiniteStatistics {
+            count: infinite as u64,
+            cause: InfiniteCause::NoSpreadInAGroup,
+        });
     }
 
     // Eta squared with a bootstrap interval, each group resampled within itself.

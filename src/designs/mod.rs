@@ -209,27 +209,20 @@ pub fn summarise_bootstrap(
     let mut ci = if estimate.is_finite() {
         boot::interval_by(method, level, Side::TwoSided, &summary, accel)
     } else {
-        Interval {
-            low: None,
-            high: None,
+        Interval::none(
+            method.into(),
             level,
-            method: method.key().into(),
-            side: Side::TwoSided,
-            note: Some("Undefined: the estimate itself is not a finite number.".into()),
-        }
+            Side::TwoSided,
+            Note::EstimateNotFinite,
+        )
     };
     let dropped = values.len() - finite.len();
     if dropped > 0 {
-        let extra = format!(
-            "{} of {} bootstrap resamples gave no finite value and {} left out.",
-            fmt::count(dropped as u64),
-            fmt::count(values.len() as u64),
-            if dropped == 1 { "was" } else { "were" }
-        );
-        ci.note = Some(match ci.note {
-            Some(n) => format!("{n} {extra}"),
-            None => extra,
-        });
+        let extra = Note::UndefinedResamples {
+            count: dropped as u64,
+            total: values.len() as u64,
+        };
+        ci.notes.push(extra);
     }
     let mut marks = vec![estimate];
     marks.extend(ci.low);
@@ -243,13 +236,9 @@ pub fn summarise_bootstrap(
 }
 
 /// The common note on BCa with few resamples.
-pub fn few_resamples_note(settings: &TestSettings, notes: &mut Vec<String>) {
+pub fn few_resamples_note(settings: &TestSettings, notes: &mut Vec<Note>) {
     if settings.bootstrap_resamples < 2000 && settings.interval == IntervalMethod::Bca {
-        notes.push(
-            "BCa limits rest on the outer bootstrap values; 2,000 or more bootstrap resamples \
-             are commonly recommended (common practice)."
-                .into(),
-        );
+        notes.push(Note::FewResamplesForBca);
     }
 }
 

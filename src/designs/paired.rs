@@ -89,7 +89,7 @@ pub struct PairedReport {
     /// What the differences are, e.g. "after − before" or "yield − 4".
     pub difference_label: String,
     pub n: usize,
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
     pub statistic: FlipStatistic,
     pub alternative: Alternative,
     pub two_sided: TwoSidedRule,
@@ -120,7 +120,7 @@ pub struct PairedReport {
 
 fn differences(
     req: &PairedRequest,
-    notes: &mut Vec<String>,
+    notes: &mut Vec<Note>,
 ) -> Result<(Vec<f64>, String, String), RunError> {
     let t = table::parse(&req.data, req.header)?;
     match &req.layout {
@@ -150,20 +150,18 @@ fn differences(
                 }
             }
             if incomplete > 0 {
-                let lengths = if na.values.len() != nb.values.len() {
-                    format!(
-                        " (column \"{first}\" has {} values, \"{second}\" has {})",
+                let lengths = (na.values.len() != nb.values.len()).then(|| {
+                    (
+                        first.clone(),
                         na.values.len(),
-                        nb.values.len()
+                        second.clone(),
+                        nb.values.len(),
                     )
-                } else {
-                    String::new()
-                };
-                notes.push(format!(
-                    "{incomplete} pair{} with a missing member {} left out{lengths}.",
-                    plural(incomplete),
-                    if incomplete == 1 { "was" } else { "were" }
-                ));
+                });
+                notes.push(Note::IncompletePairs {
+                    count: incomplete,
+                    lengths,
+                });
             }
             if na.values.len() != nb.values.len() && incomplete == 0 {
                 // Unreachable in practice (rows align), kept for a clear message.
@@ -261,11 +259,10 @@ fn differences(
                 *slot = Some((v, cell.line));
             }
             if no_unit > 0 {
-                notes.push(format!(
-                    "{no_unit} row{} with no unit in column \"{unit}\" {} left out.",
-                    plural(no_unit),
-                    if no_unit == 1 { "was" } else { "were" }
-                ));
+                notes.push(Note::NoUnit {
+                    column: unit.clone(),
+                    count: no_unit,
+                });
             }
             let mut d = Vec::new();
             let mut incomplete = 0;
@@ -276,11 +273,7 @@ fn differences(
                 }
             }
             if incomplete > 0 {
-                notes.push(format!(
-                    "{incomplete} unit{} with only one of the two measurements {} left out.",
-                    plural(incomplete),
-                    if incomplete == 1 { "was" } else { "were" }
-                ));
+                notes.push(Note::IncompleteUnits { count: incomplete });
             }
             Ok((d, format!("{first} − {second}"), "paired".into()))
         }
@@ -293,11 +286,10 @@ fn differences(
             let c = t.column(value)?;
             let nums = c.numbers(t.decimal_comma)?;
             if nums.missing > 0 {
-                notes.push(format!(
-                    "{} blank or NA cell{} in column \"{value}\" left out.",
-                    nums.missing,
-                    plural(nums.missing)
-                ));
+                notes.push(Note::MissingCells {
+                    column: value.clone(),
+                    count: nums.missing,
+                });
             }
             let d = nums.values.iter().map(|v| v.1 - reference).collect();
             Ok((d, format!("{value} − {reference}"), "one-sample".into()))
@@ -418,14 +410,12 @@ pub fn run(req: &PairedRequest, progress: ProgressFn) -> Result<PairedReport, Ru
                 boot::acceleration(&design_b, &f_dz)
             })
         } else {
-            Interval {
-                low: None,
-                high: None,
-                level: req.confidence,
-                method: dz_method.key().into(),
-                side: Side::TwoSided,
-                note: Some("Undefined: the differences do not vary.".into()),
-            }
+            Interval::none(
+                dz_method.into(),
+                req.confidence,
+                Side::TwoSided,
+                Note::DifferencesConstant,
+            )
         },
     };
     let t_test = t_test(&d, req.alternative, req.confidence);
@@ -613,7 +603,7 @@ mod tests {
         assert_eq!(a.p_value, b.p_value);
         assert_eq!(a.ci, b.ci);
         assert!(
-            b.notes[0].contains("1 unit with only one of the two measurements"),
+            b.notes[0] == Note::IncompleteUnits { count: 1 },
             "{:?}",
             b.notes
         );
@@ -641,7 +631,11 @@ mod tests {
         let rep = run(&r, &mut |_| true).unwrap();
         assert_eq!(rep.n, 4);
         assert!(
-            rep.notes[0].contains("2 pairs with a missing member were left out"),
+            rep.notes[0]
+                == Note::IncompletePairs {
+                    count: 2,
+                    lengths: None
+                },
             "{:?}",
             rep.notes
         );
@@ -650,7 +644,11 @@ mod tests {
         r.data = "a,b\n1,2\n3,4\n5,\n7,\n2,1\n".into();
         let rep = run(&r, &mut |_| true).unwrap();
         assert!(
-            rep.notes[0].contains("column \"a\" has 5 values, \"b\" has 3"),
+            rep.notes[0]
+                == Note::IncompletePairs {
+                    count: 2,
+                    lengths: Some(("a".into(), 5, "b".into(), 3))
+                },
             "{:?}",
             rep.notes
         );

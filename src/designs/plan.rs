@@ -209,7 +209,7 @@ pub struct PlanReport {
     pub relabellings: u64,
     pub seed: u64,
     pub rng: String,
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
     /// Sentences for a proposal.
     pub sentences: Vec<String>,
     /// What was traded for speed.
@@ -709,11 +709,7 @@ pub fn run(req: &PlanRequest, progress: ProgressFn) -> Result<PlanReport, RunErr
     };
     let mut required = None;
     if no_effect {
-        notes.push(
-            "The assumed effect is no effect at all: the power is then the significance level, \
-             whatever the sample size."
-                .into(),
-        );
+        notes.push(Note::NoEffectAssumed);
         eval(min_n.max(10).min(req.max_n), true, &mut curve, progress)?;
     } else {
         let g = guess.unwrap_or(20.0).clamp(min_n as f64, req.max_n as f64);
@@ -770,13 +766,11 @@ pub fn run(req: &PlanRequest, progress: ProgressFn) -> Result<PlanReport, RunErr
             }
         }
         if required.is_none() {
-            notes.push(format!(
-                "Even {} {} did not reach the target power of {}: the assumed effect is too \
-                 small for a study of at most this size.",
-                fmt::count(req.max_n),
-                req.design.per(),
-                fmt::percent(target)
-            ));
+            notes.push(Note::TargetNotReached {
+                max_n: req.max_n,
+                pairs: req.design == PlanDesign::Paired,
+                target,
+            });
         }
     }
     curve.sort_by_key(|p| p.n);
@@ -790,10 +784,11 @@ pub fn run(req: &PlanRequest, progress: ProgressFn) -> Result<PlanReport, RunErr
     let detectable = match req.mde_n {
         Some(n) if n >= min_n => Some(detectable_effect(req, &sim, n, spread, centre, progress)?),
         Some(n) => {
-            notes.push(format!(
-                "A detectable effect needs at least {min_n} {}; {n} is too few.",
-                req.design.per()
-            ));
+            notes.push(Note::TooFewForDetectable {
+                min_n,
+                n,
+                pairs: req.design == PlanDesign::Paired,
+            });
             None
         }
         None => None,

@@ -129,7 +129,7 @@ pub struct StrataReport {
     pub strata: Vec<StratumSummary>,
     /// Strata left out because only one of the two groups is present in them.
     pub left_out: Vec<String>,
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
     pub weights: StrataWeights,
     pub statistic_label: String,
     pub alternative: Alternative,
@@ -162,7 +162,7 @@ struct StratumData {
 /// The two groups' names, the usable strata, and the names of the strata left out.
 type ReadStrata = ([String; 2], Vec<StratumData>, Vec<String>);
 
-fn read(req: &StrataRequest, notes: &mut Vec<String>) -> Result<ReadStrata, RunError> {
+fn read(req: &StrataRequest, notes: &mut Vec<Note>) -> Result<ReadStrata, RunError> {
     let bad = |m: String| Err(RunError::Input(m));
     if req.strata == req.value || req.strata == req.group {
         return bad(format!(
@@ -220,10 +220,16 @@ fn read(req: &StrataRequest, notes: &mut Vec<String>) -> Result<ReadStrata, RunE
         ));
     }
     if levels.len() > 2 {
-        notes.push(format!(
-            "Only \"{}\" and \"{}\" are compared; rows of the other groups were left out.",
-            levels[first], levels[second]
-        ));
+        notes.push(Note::OtherGroupsLeftOut {
+            first: levels[first].clone(),
+            second: levels[second].clone(),
+            others: levels
+                .iter()
+                .enumerate()
+                .filter(|(i, _)| *i != first && *i != second)
+                .map(|(_, l)| l.clone())
+                .collect(),
+        });
     }
     // Strata in order of first appearance.
     let mut strata: Vec<StratumData> = Vec::new();
@@ -256,20 +262,11 @@ fn read(req: &StrataRequest, notes: &mut Vec<String>) -> Result<ReadStrata, RunE
         }
     }
     if !no_stratum.is_empty() {
-        notes.push(format!(
-            "{} row{} with no stratum in column \"{}\" {} left out (line{} {}).",
-            no_stratum.len(),
-            plural(no_stratum.len()),
-            req.strata,
-            if no_stratum.len() == 1 { "was" } else { "were" },
-            plural(no_stratum.len()),
-            no_stratum
-                .iter()
-                .take(5)
-                .map(u64::to_string)
-                .collect::<Vec<_>>()
-                .join(", ")
-        ));
+        notes.push(Note::NoStratum {
+            column: req.strata.clone(),
+            count: no_stratum.len(),
+            lines: no_stratum.iter().take(5).copied().collect(),
+        });
     }
     if strata.len() == 1 {
         return bad(format!(
@@ -284,24 +281,10 @@ fn read(req: &StrataRequest, notes: &mut Vec<String>) -> Result<ReadStrata, RunE
     let left_out: Vec<String> = partial.iter().map(|s| s.name.clone()).collect();
     if !partial.is_empty() {
         let rows: usize = partial.iter().map(|s| s.a.len() + s.b.len()).sum();
-        notes.push(format!(
-            "{} {} with only one of the two groups ({}) {} left out, with {} row{}: a \
-             stratum without both groups says nothing about their difference.",
-            partial.len(),
-            if partial.len() == 1 {
-                "stratum"
-            } else {
-                "strata"
-            },
-            left_out
-                .iter()
-                .map(|n| format!("\"{n}\""))
-                .collect::<Vec<_>>()
-                .join(", "),
-            if partial.len() == 1 { "was" } else { "were" },
+        notes.push(Note::PartialStrata {
+            names: left_out.clone(),
             rows,
-            plural(rows)
-        ));
+        });
     }
     if usable.is_empty() {
         return bad(format!(
@@ -783,9 +766,10 @@ mod tests {
         let rep = run(&r, &mut |_| true).unwrap();
         assert_eq!(rep.left_out, vec!["D".to_string()]);
         assert!(
-            rep.notes
-                .iter()
-                .any(|n| n.contains("\"D\"") && n.contains("2 rows")),
+            rep.notes.contains(&Note::PartialStrata {
+                names: vec!["D".into()],
+                rows: 2
+            }),
             "{:?}",
             rep.notes
         );

@@ -115,7 +115,7 @@ pub struct Report {
     pub value_label: String,
     pub groups: Vec<GroupSummary>,
     /// What was left out or read specially (blank cells, decimal commas, other groups).
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
     pub statistic: Statistic,
     pub statistic_label: String,
     pub alternative: Alternative,
@@ -390,27 +390,19 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
         let mut iv = boot::interval_by(g_method, req.confidence, Side::TwoSided, &gs, &mut g_accel);
         let dropped = boot_g.len() - g_finite.len();
         if dropped > 0 {
-            let extra = format!(
-                "{} bootstrap resample{} had no spread in either group and {} left out.",
-                fmt::count(dropped as u64),
-                groups::plural(dropped),
-                if dropped == 1 { "was" } else { "were" }
-            );
-            iv.note = Some(match iv.note {
-                Some(n) => format!("{n} {extra}"),
-                None => extra,
-            });
+            let extra = Note::NoSpreadResamples {
+                count: dropped as u64,
+            };
+            iv.notes.push(extra);
         }
         iv
     } else {
-        Interval {
-            low: None,
-            high: None,
-            level: req.confidence,
-            method: g_method.key().into(),
-            side: Side::TwoSided,
-            note: Some("Hedges' g is undefined: neither group varies.".into()),
-        }
+        Interval::none(
+            g_method.into(),
+            req.confidence,
+            Side::TwoSided,
+            Note::HedgesUndefined,
+        )
     };
     let welch = classical::welch(a, b, req.alternative, req.confidence);
 
@@ -431,20 +423,13 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
     let bootstrap_histogram = histogram(boot_effect, &bmarks, 48);
     let infinite = null.values.iter().filter(|v| !v.is_finite()).count();
     if infinite > 0 {
-        notes.push(format!(
-            "{} relabelling{} put only identical values in both groups, giving an infinite t; \
-             {} counted but not plotted.",
-            fmt::count(infinite as u64),
-            groups::plural(infinite),
-            if infinite == 1 { "it is" } else { "they are" }
-        ));
+        notes.push(Note::InfiniteStatistics {
+            count: infinite as u64,
+            cause: InfiniteCause::IdenticalValues,
+        });
     }
     if req.bootstrap_resamples < 2000 && req.interval == IntervalMethod::Bca {
-        notes.push(
-            "BCa limits rest on the outer bootstrap values; 2,000 or more bootstrap resamples \
-             are commonly recommended (common practice)."
-                .into(),
-        );
+        notes.push(Note::FewResamplesForBca);
     }
 
     let mut report = Report {
@@ -494,10 +479,9 @@ fn two_group_report(req: &Request, g: TwoGroups, progress: ProgressFn) -> Result
         report.null_values = Some(keep(&null.values));
         report.bootstrap_values = Some(keep(boot_effect));
         if null.values.len() > MAX_KEPT {
-            report.notes.push(format!(
-                "Only the first {} relabelled statistics are kept for download.",
-                fmt::count(MAX_KEPT as u64)
-            ));
+            report.notes.push(Note::KeptValuesCapped {
+                kept: MAX_KEPT as u64,
+            });
         }
     }
     report.finding = sentence(&report);
@@ -783,7 +767,7 @@ mod tests {
         let rep = run(&r, &mut |_| true).unwrap();
         assert_eq!(rep.p_value, 1.0);
         assert!(rep.exact);
-        assert!(rep.ci.note.is_some());
+        assert_eq!(rep.ci.notes, vec![Note::NoVariation]);
         assert!(rep.hedges_g.estimate.is_none());
         assert!(rep.welch.t.is_none());
         assert!(!rep.finding.contains("NaN"));

@@ -20,7 +20,6 @@ use crate::classical::tables::{
     chi_square, classical_measures, hypergeometric, FisherExact, Measure, Table2,
 };
 use crate::classical::ChiSquareTest;
-use crate::input::columns::plural;
 pub use crate::input::counts::{parse_counts, CountGroup};
 use crate::input::table::{self, HeaderChoice};
 use crate::num::normal;
@@ -120,7 +119,7 @@ pub struct YesNoReport {
     pub names: [String; 2],
     pub yes: [u64; 2],
     pub n: [u64; 2],
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
     pub statistic: YesNoStatistic,
     pub statistic_label: String,
     pub alternative: Alternative,
@@ -176,7 +175,7 @@ fn comparable(st: YesNoStatistic, v: f64) -> f64 {
 /// Reads the 2×2 table the request describes.
 fn read(
     req: &YesNoRequest,
-    notes: &mut Vec<String>,
+    notes: &mut Vec<Note>,
 ) -> Result<([String; 2], Table2, String), RunError> {
     match &req.input {
         YesNoInput::Counts { groups } => {
@@ -258,16 +257,17 @@ fn read(
                 counts[li].1 += 1;
             }
             if missing > 0 {
-                notes.push(format!(
-                    "{missing} blank or NA cell{} in column \"{value}\" left out.",
-                    plural(missing)
-                ));
+                notes.push(Note::MissingCells {
+                    column: value.clone(),
+                    count: missing,
+                });
             }
             if unlabelled > 0 {
-                notes.push(format!(
-                    "{unlabelled} row{} with no group in column \"{group}\" left out.",
-                    plural(unlabelled)
-                ));
+                notes.push(Note::Unlabelled {
+                    column: group.clone(),
+                    count: unlabelled,
+                    lines: Vec::new(),
+                });
             }
             let find = |name: &str| {
                 levels.iter().position(|l| l == name).ok_or_else(|| {
@@ -313,10 +313,16 @@ fn read(
                 )));
             }
             if levels.len() > 2 {
-                notes.push(format!(
-                    "Only \"{}\" and \"{}\" are compared; rows of the other groups were left out.",
-                    levels[f], levels[s]
-                ));
+                notes.push(Note::OtherGroupsLeftOut {
+                    first: levels[f].clone(),
+                    second: levels[s].clone(),
+                    others: levels
+                        .iter()
+                        .enumerate()
+                        .filter(|(i, _)| *i != f && *i != s)
+                        .map(|(_, l)| l.clone())
+                        .collect(),
+                });
             }
             Ok((
                 [levels[f].clone(), levels[s].clone()],
@@ -511,11 +517,11 @@ pub fn run(req: &YesNoRequest, progress: ProgressFn) -> Result<YesNoReport, RunE
     let fisher = match st.alternative {
         Alternative::Greater => FisherExact {
             p_value: upper.min(1.0),
-            method: "one-sided (first group more often yes)".into(),
+            alternative: Alternative::Greater,
         },
         Alternative::Less => FisherExact {
             p_value: lower.min(1.0),
-            method: "one-sided (first group less often yes)".into(),
+            alternative: Alternative::Less,
         },
         Alternative::TwoSided => FisherExact {
             p_value: pmf
@@ -523,7 +529,7 @@ pub fn run(req: &YesNoRequest, progress: ProgressFn) -> Result<YesNoReport, RunE
                 .filter(|v| **v <= pmf[obs_i] * (1.0 + 1e-7))
                 .sum::<f64>()
                 .min(1.0),
-            method: "two-sided (tables no more likely than the observed one)".into(),
+            alternative: Alternative::TwoSided,
         },
     };
     // The figure: probabilities of the yes counts near the bulk of the distribution.
@@ -609,12 +615,10 @@ pub fn run(req: &YesNoRequest, progress: ProgressFn) -> Result<YesNoReport, RunE
         (summary.se, summary.histogram)
     };
     if stat.is_ratio() && !observed.is_finite() || observed == 0.0 && stat.is_ratio() {
-        notes.push(format!(
-            "The {} is {} because a group has no yes (or no no) answers; the exact test still \
-             applies, but the ratio and its intervals cannot describe the size of the effect.",
-            stat.label(),
-            fmt::fixed(observed, 2)
-        ));
+        notes.push(Note::RatioAtLimit {
+            statistic: stat.key().to_string(),
+            value: observed,
+        });
     }
     super::few_resamples_note(st, &mut notes);
     let (difference, risk_ratio, odds_ratio) = classical_measures(&t, st.confidence);

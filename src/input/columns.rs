@@ -2,6 +2,8 @@
 
 use serde::{Deserialize, Serialize};
 
+use crate::base::Note;
+
 use crate::input::table::{Column, ColumnKind, Table, TableError};
 
 /// Where the two groups are in the table.
@@ -25,7 +27,7 @@ pub struct TwoGroups {
     pub layout: Layout,
     /// What the values are (the value column's name in long format).
     pub value_label: String,
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
 }
 
 fn err<T>(s: String) -> Result<T, TableError> {
@@ -38,16 +40,6 @@ fn quoted_list(items: &[String]) -> String {
         .map(|s| format!("\"{s}\""))
         .collect::<Vec<_>>()
         .join(", ")
-}
-
-fn lines_list(lines: &[u64]) -> String {
-    let shown: Vec<String> = lines.iter().take(5).map(|l| l.to_string()).collect();
-    let more = if lines.len() > 5 { ", …" } else { "" };
-    format!(
-        "line{} {}{more}",
-        if lines.len() > 1 { "s" } else { "" },
-        shown.join(", ")
-    )
 }
 
 /// Guesses the layout from the column types.
@@ -107,7 +99,7 @@ pub fn labelled_values(
     table: &Table,
     value: &str,
     group: &str,
-    notes: &mut Vec<String>,
+    notes: &mut Vec<Note>,
 ) -> Result<Labelled, TableError> {
     if value == group {
         return err(format!(
@@ -119,21 +111,16 @@ pub fn labelled_values(
     let gcol = table.column(group)?;
     let nums = vcol.numbers(table.decimal_comma)?;
     if nums.missing > 0 {
-        notes.push(format!(
-            "{} blank or NA cell{} in column \"{}\" {} left out.",
-            nums.missing,
-            plural(nums.missing),
-            value,
-            were(nums.missing)
-        ));
+        notes.push(Note::MissingCells {
+            column: value.to_string(),
+            count: nums.missing,
+        });
     }
     if nums.decimal_commas > 0 {
-        notes.push(format!(
-            "{} value{} in column \"{}\" had a decimal comma, read as a decimal point.",
-            nums.decimal_commas,
-            plural(nums.decimal_commas),
-            value
-        ));
+        notes.push(Note::DecimalCommas {
+            column: value.to_string(),
+            count: nums.decimal_commas,
+        });
     }
     let mut levels: Vec<String> = Vec::new();
     let mut unlabelled: Vec<u64> = Vec::new();
@@ -154,14 +141,11 @@ pub fn labelled_values(
         rows.push((i, li, v));
     }
     if !unlabelled.is_empty() {
-        notes.push(format!(
-            "{} value{} with no group label in column \"{}\" {} left out ({}).",
-            unlabelled.len(),
-            plural(unlabelled.len()),
-            group,
-            were(unlabelled.len()),
-            lines_list(&unlabelled)
-        ));
+        notes.push(Note::Unlabelled {
+            column: group.to_string(),
+            count: unlabelled.len(),
+            lines: unlabelled.iter().take(5).copied().collect(),
+        });
     }
     if levels.is_empty() {
         return err(format!(
@@ -176,7 +160,7 @@ pub fn labelled_values(
 pub fn wide_values(
     table: &Table,
     columns: &[String],
-    notes: &mut Vec<String>,
+    notes: &mut Vec<Note>,
 ) -> Result<Vec<Vec<f64>>, TableError> {
     for (i, c) in columns.iter().enumerate() {
         if columns[..i].contains(c) {
@@ -195,21 +179,16 @@ pub fn wide_values(
         let last = nums.values.last().map_or(0, |v| v.0 + 1);
         let inner = nums.missing - (col.cells.len() - last);
         if inner > 0 {
-            notes.push(format!(
-                "{} blank or NA cell{} in column \"{}\" {} left out.",
-                inner,
-                plural(inner),
-                col.name,
-                were(inner)
-            ));
+            notes.push(Note::MissingCells {
+                column: col.name.clone(),
+                count: inner,
+            });
         }
         if nums.decimal_commas > 0 {
-            notes.push(format!(
-                "{} value{} in column \"{}\" had a decimal comma, read as a decimal point.",
-                nums.decimal_commas,
-                plural(nums.decimal_commas),
-                col.name
-            ));
+            notes.push(Note::DecimalCommas {
+                column: col.name.clone(),
+                count: nums.decimal_commas,
+            });
         }
         groups.push(nums.values.into_iter().map(|v| v.1).collect::<Vec<f64>>());
     }
@@ -286,14 +265,11 @@ pub fn two_groups(
                             .filter(|(i, _)| *i != f && *i != s)
                             .map(|(_, l)| l.clone())
                             .collect();
-                        notes.push(format!(
-                            "Only \"{}\" and \"{}\" are compared; the other group{} ({}) {} left out.",
-                            levels[f],
-                            levels[s],
-                            plural(others.len()),
-                            quoted_list(&others),
-                            were(others.len())
-                        ));
+                        notes.push(Note::OtherGroupsLeftOut {
+                            first: levels[f].clone(),
+                            second: levels[s].clone(),
+                            others,
+                        });
                         (f, s)
                     }
                     _ => {
@@ -362,7 +338,7 @@ pub struct KGroups {
     pub values: Vec<Vec<f64>>,
     pub layout: Layout,
     pub value_label: String,
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
 }
 
 /// Extracts every group of a table for a k-group comparison: all labels of the group column
@@ -462,7 +438,7 @@ pub(crate) fn paired_columns(
     t: &Table,
     a: &str,
     b: &str,
-    notes: &mut Vec<String>,
+    notes: &mut Vec<Note>,
 ) -> Result<(Vec<f64>, Vec<f64>), TableError> {
     if a == b {
         return Err(TableError(format!(
@@ -491,11 +467,11 @@ pub(crate) fn paired_columns(
         }
     }
     if incomplete > 0 {
-        notes.push(format!(
-            "{incomplete} row{} with a value in only one of \"{a}\" and \"{b}\" {} left out.",
-            plural(incomplete),
-            if incomplete == 1 { "was" } else { "were" }
-        ));
+        notes.push(Note::IncompleteRows {
+            first: a.to_string(),
+            second: b.to_string(),
+            count: incomplete,
+        });
     }
     if xs.len() < 2 {
         return Err(TableError(format!(
@@ -526,14 +502,19 @@ mod tests {
         assert_eq!(g.a, vec![4.1, 3.9]);
         assert_eq!(g.b, vec![3.0, 2.8]);
         assert!(
-            g.notes
-                .iter()
-                .any(|n| n.contains("1 blank or NA cell in column \"yield\"")),
+            g.notes.contains(&Note::MissingCells {
+                column: "yield".into(),
+                count: 1
+            }),
             "{:?}",
             g.notes
         );
         assert!(
-            g.notes.iter().any(|n| n.contains("line 7")),
+            g.notes.contains(&Note::Unlabelled {
+                column: "schedule".into(),
+                count: 1,
+                lines: vec![7]
+            }),
             "{:?}",
             g.notes
         );
@@ -560,7 +541,14 @@ mod tests {
         r.second = Some("a".into());
         let g = two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref()).unwrap();
         assert_eq!(g.a, vec![5.0, 6.0]);
-        assert!(g.notes[0].contains("\"b\""));
+        assert_eq!(
+            g.notes[0],
+            Note::OtherGroupsLeftOut {
+                first: "c".into(),
+                second: "a".into(),
+                others: vec!["b".into()]
+            }
+        );
     }
 
     #[test]
@@ -602,7 +590,11 @@ mod tests {
         let g = k_groups(&t, &Layout::Detect).unwrap();
         assert_eq!(g.names, vec!["a", "b", "c"]);
         assert_eq!(g.values[2], vec![5.0, 6.0]);
-        assert!(g.notes[0].contains("1 blank or NA cell"), "{:?}", g.notes);
+        assert!(
+            matches!(&g.notes[0], Note::MissingCells { count: 1, .. }),
+            "{:?}",
+            g.notes
+        );
         let t = parse("p,q,r\n1,2,3\n4,5,6\n", HeaderChoice::Detect).unwrap();
         let g = k_groups(&t, &Layout::Detect).unwrap();
         assert_eq!(g.names, vec!["p", "q", "r"]);

@@ -11,6 +11,7 @@ use crate::designs::stratified::{self, StrataReport};
 use crate::designs::yes_no::{self, YesNoReport};
 use crate::render::plot::{self, escape};
 use crate::render::report::{self, interval_line};
+use crate::render::words;
 use crate::wire::AnyReport;
 
 /// A table of a document.
@@ -251,7 +252,7 @@ fn opt_p(p: Option<f64>) -> String {
 }
 
 fn interval_method(iv: &Interval) -> String {
-    IntervalMethod::from_key(&iv.method).map_or(iv.method.clone(), |m| m.label().to_string())
+    words::method(iv.method).to_string()
 }
 
 fn cell_interval(iv: &Interval, d: usize) -> String {
@@ -458,7 +459,7 @@ pub fn kgroups_doc(r: &KGroupsReport, date: &str) -> Doc {
     );
     Doc {
         finding: r.finding.clone(),
-        notes: r.notes.clone(),
+        notes: r.notes.iter().map(words::note).collect(),
         lines,
         tables: vec![groups, comparisons],
         sections: Vec::new(),
@@ -542,7 +543,13 @@ pub fn strata_doc(r: &StrataReport, date: &str) -> Doc {
                         d
                     )
                 ),
-                _ => lm.ci.note.clone().unwrap_or_else(|| "undefined".into()),
+                _ => {
+                    if lm.ci.notes.is_empty() {
+                        "undefined".into()
+                    } else {
+                        words::notes(&lm.ci.notes)
+                    }
+                }
             },
         ),
         (
@@ -616,7 +623,7 @@ pub fn strata_doc(r: &StrataReport, date: &str) -> Doc {
     );
     Doc {
         finding: r.finding.clone(),
-        notes: r.notes.clone(),
+        notes: r.notes.iter().map(words::note).collect(),
         lines,
         tables: vec![table],
         sections: Vec::new(),
@@ -661,12 +668,16 @@ pub fn yesno_doc(r: &YesNoReport, date: &str) -> Doc {
             (Some(l), Some(h)) => format!(
                 "{est}{} ({}: {})",
                 if pct { " points" } else { "" },
-                m.ci.method,
+                words::method(m.ci.method),
                 fmt::ci(m.ci.level, l * scale, h * scale, d)
             ),
             _ => format!(
                 "{est} ({})",
-                m.ci.note.clone().unwrap_or_else(|| "no interval".into())
+                if m.ci.notes.is_empty() {
+                    "no interval".into()
+                } else {
+                    words::notes(&m.ci.notes)
+                }
             ),
         }
     };
@@ -711,7 +722,7 @@ pub fn yesno_doc(r: &YesNoReport, date: &str) -> Doc {
             format!(
                 "{}, {}",
                 fmt::p_value(r.fisher_exact.p_value),
-                r.fisher_exact.method
+                words::fisher_rule(r.fisher_exact.alternative)
             ),
         ),
         ("Chi-square test (cross-check)".into(), chi(&r.chi_square)),
@@ -775,7 +786,7 @@ pub fn yesno_doc(r: &YesNoReport, date: &str) -> Doc {
     );
     Doc {
         finding: r.finding.clone(),
-        notes: r.notes.clone(),
+        notes: r.notes.iter().map(words::note).collect(),
         lines,
         tables: vec![table],
         sections: Vec::new(),
@@ -821,7 +832,7 @@ pub fn plan_doc(r: &crate::designs::plan::PlanReport, date: &str) -> Doc {
     let finding = r.sentences.first().cloned().unwrap_or_else(|| {
         r.notes
             .first()
-            .cloned()
+            .map(words::note)
             .unwrap_or_else(|| "No sample size reached the target power.".into())
     });
     let mut lines = vec![
@@ -921,7 +932,7 @@ pub fn plan_doc(r: &crate::designs::plan::PlanReport, date: &str) -> Doc {
             })
             .collect(),
     };
-    let mut notes = r.notes.clone();
+    let mut notes: Vec<String> = r.notes.iter().map(words::note).collect();
     notes.extend(r.sentences.iter().skip(1).cloned());
     Doc {
         finding,
@@ -1193,10 +1204,10 @@ impl AnyReport {
                     .iter()
                     .map(|iv| {
                         vec![
-                            iv.method.clone(),
+                            words::method_key(iv.method).to_string(),
                             iv.low.map_or(String::new(), |v| format!("{v:?}")),
                             iv.high.map_or(String::new(), |v| format!("{v:?}")),
-                            iv.note.clone().unwrap_or_default(),
+                            words::notes(&iv.notes),
                         ]
                     })
                     .collect();

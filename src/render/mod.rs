@@ -4,3 +4,4 @@
 pub mod doc;
 pub mod plot;
 pub mod report;
+pub mod words;

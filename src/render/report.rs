@@ -8,10 +8,11 @@ use crate::designs::estimate::EstimateReport;
 use crate::designs::two_groups;
 use crate::designs::two_groups::Report;
 use crate::render::plot::{self, escape};
+use crate::render::words;
 
 /// "percentile: 95% CI [0.10, 0.92]" or the reason there is none.
 pub fn interval_line(iv: &Interval, d: usize) -> String {
-    let name = IntervalMethod::from_key(&iv.method).map_or(iv.method.as_str(), |m| m.label());
+    let name = words::method(iv.method);
     let body = match (iv.side, iv.low, iv.high) {
         (Side::TwoSided, Some(l), Some(h)) => fmt::ci(iv.level, l, h, d),
         (Side::Lower, Some(l), _) => format!(
@@ -26,7 +27,7 @@ pub fn interval_line(iv: &Interval, d: usize) -> String {
         ),
         _ => "no interval".to_string(),
     };
-    match &iv.note {
+    match &(!iv.notes.is_empty()).then(|| words::notes(&iv.notes)) {
         Some(n) => format!("{name}: {body} ({n})"),
         None => format!("{name}: {body}"),
     }
@@ -38,7 +39,7 @@ pub fn report_text(r: &Report) -> String {
     let mut s = String::new();
     s.push_str(&r.finding);
     s.push_str("\n\n");
-    for n in &r.notes {
+    for n in r.notes.iter().map(words::note) {
         s.push_str(&format!("Note: {n}\n"));
     }
     if !r.notes.is_empty() {
@@ -90,7 +91,7 @@ pub fn report_text(r: &Report) -> String {
             fmt::fixed(r.effect, d),
             fmt::percent(r.ci.level),
             format_args!("CI [{}, {}]", fmt::fixed(l, d), fmt::fixed(h, d)),
-            r.ci.method,
+            words::method_key(r.ci.method),
             fmt::count(r.bootstrap_resamples)
         )),
         _ => s.push_str(&format!(
@@ -99,7 +100,7 @@ pub fn report_text(r: &Report) -> String {
             fmt::fixed(r.effect, d)
         )),
     }
-    if let Some(n) = &r.ci.note {
+    if let Some(n) = (!r.ci.notes.is_empty()).then(|| words::notes(&r.ci.notes)) {
         s.push_str(&format!("  ({n})\n"));
     }
     if r.intervals.len() > 1 {
@@ -141,7 +142,7 @@ pub fn report_text(r: &Report) -> String {
 pub fn estimate_text(rep: &EstimateReport) -> String {
     let d = estimate_decimals(rep);
     let mut s = format!("{}\n\n", rep.finding);
-    for n in &rep.notes {
+    for n in rep.notes.iter().map(words::note) {
         s.push_str(&format!("Note: {n}\n"));
     }
     s.push_str(&format!(
@@ -226,8 +227,7 @@ pub fn methods_paragraph(r: &Report, date: &str) -> String {
         (Alternative::Greater, _) => format!("one-sided: {} minus {} greater than zero", r.groups[0].name, r.groups[1].name),
         (Alternative::Less, _) => format!("one-sided: {} minus {} less than zero", r.groups[0].name, r.groups[1].name),
     };
-    let method = IntervalMethod::from_key(&r.ci.method)
-        .map_or(r.ci.method.clone(), |m| m.label().to_string());
+    let method = words::method(r.ci.method).to_string();
     format!(
         "Design: two independent groups ({} with n = {}, {} with n = {}). Test statistic: the {} ({} minus {}). \
          Alternative: {alt}. Null distribution: {}; ties with the observed value counted as at least as extreme \
@@ -256,8 +256,8 @@ pub fn methods_paragraph(r: &Report, date: &str) -> String {
 pub fn markdown(r: &Report, date: &str) -> String {
     let d = two_groups::effect_decimals(r);
     let mut s = format!("## Findings\n\n{}\n\n", md_escape(&r.finding));
-    for n in &r.notes {
-        s.push_str(&format!("- Note: {}\n", md_escape(n)));
+    for n in r.notes.iter().map(words::note) {
+        s.push_str(&format!("- Note: {}\n", md_escape(&n)));
     }
     s.push_str("\n| group | n | mean | median | SD |\n| --- | ---: | ---: | ---: | ---: |\n");
     for g in &r.groups {
@@ -346,8 +346,8 @@ pub fn html(r: &Report, date: &str) -> String {
     b.push_str(&format!("<p class=\"headline\">{}</p>", escape(&r.finding)));
     if !r.notes.is_empty() {
         b.push_str("<ul>");
-        for n in &r.notes {
-            b.push_str(&format!("<li>{}</li>", escape(n)));
+        for n in r.notes.iter().map(words::note) {
+            b.push_str(&format!("<li>{}</li>", escape(&n)));
         }
         b.push_str("</ul>");
     }
@@ -404,10 +404,7 @@ pub fn estimate_methods(rep: &EstimateReport, date: &str) -> String {
     let methods = rep
         .intervals
         .iter()
-        .map(|iv| {
-            IntervalMethod::from_key(&iv.method)
-                .map_or(iv.method.clone(), |m| m.label().to_string())
-        })
+        .map(|iv| words::method(iv.method).to_string())
         .collect::<Vec<_>>()
         .join(", ");
     format!(
@@ -431,14 +428,14 @@ pub fn estimate_methods(rep: &EstimateReport, date: &str) -> String {
 pub fn estimate_markdown(rep: &EstimateReport, date: &str) -> String {
     let d = estimate_decimals(rep);
     let mut s = format!("## Estimate\n\n{}\n\n", md_escape(&rep.finding));
-    for n in &rep.notes {
-        s.push_str(&format!("- Note: {}\n", md_escape(n)));
+    for n in rep.notes.iter().map(words::note) {
+        s.push_str(&format!("- Note: {}\n", md_escape(&n)));
     }
     s.push_str("\n| method | interval |\n| --- | --- |\n");
     for iv in rep.intervals.iter().chain(rep.classical.iter()) {
         s.push_str(&format!(
             "| {} | {} |\n",
-            md_escape(&iv.method),
+            md_escape(words::method_key(iv.method)),
             md_escape(&interval_line(iv, d))
         ));
     }
@@ -460,8 +457,8 @@ pub fn estimate_html(rep: &EstimateReport, date: &str) -> String {
     );
     if !rep.notes.is_empty() {
         b.push_str("<ul>");
-        for n in &rep.notes {
-            b.push_str(&format!("<li>{}</li>", escape(n)));
+        for n in rep.notes.iter().map(words::note) {
+            b.push_str(&format!("<li>{}</li>", escape(&n)));
         }
         b.push_str("</ul>");
     }
@@ -548,12 +545,12 @@ pub fn results_csv(r: &Report) -> String {
     rows.push(vec!["test".into(), "mc_se".into(), opt(r.mc_se)]);
     for iv in &r.intervals {
         rows.push(vec![
-            format!("interval:{}", iv.method),
+            format!("interval:{}", words::method_key(iv.method)),
             "low".into(),
             opt(iv.low),
         ]);
         rows.push(vec![
-            format!("interval:{}", iv.method),
+            format!("interval:{}", words::method_key(iv.method)),
             "high".into(),
             opt(iv.high),
         ]);
@@ -611,7 +608,7 @@ pub fn paired_text(r: &crate::designs::paired::PairedReport) -> String {
         _ => 2,
     };
     let mut s = format!("{}\n\n", r.finding);
-    for n in &r.notes {
+    for n in r.notes.iter().map(words::note) {
         s.push_str(&format!("Note: {n}\n"));
     }
     s.push_str(&format!(
@@ -653,11 +650,11 @@ pub fn paired_text(r: &crate::designs::paired::PairedReport) -> String {
         Some(p) => s.push_str(&format!(
             "Wilcoxon signed-rank (cross-check): W+ = {}, p = {p:.5} ({}; {} zero difference{} left out)\n",
             fmt::sig(r.wilcoxon.w_plus),
-            r.wilcoxon.method,
+            words::rank_method(r.wilcoxon.method),
             r.wilcoxon.zeros,
             if r.wilcoxon.zeros == 1 { "" } else { "s" }
         )),
-        None => s.push_str(&format!("Wilcoxon signed-rank: {}\n", r.wilcoxon.method)),
+        None => s.push_str(&format!("Wilcoxon signed-rank: {}\n", words::rank_method(r.wilcoxon.method))),
     }
     if let Some(dz) = r.dz.estimate {
         s.push_str(&format!(
@@ -737,10 +734,10 @@ pub fn paired_methods(r: &crate::designs::paired::PairedReport, date: &str) -> S
         } else {
             format!("{} random sign patterns, p = (b + 1)/(m + 1)", fmt::count(r.resamples))
         },
-        IntervalMethod::from_key(&r.ci.method).map_or(r.ci.method.clone(), |m| m.label().to_string()),
+        words::method(r.ci.method),
         fmt::count(r.bootstrap_resamples),
         if r.design == "paired" { "paired" } else { "one-sample" },
-        r.wilcoxon.method,
+        words::rank_method(r.wilcoxon.method),
         r.rng,
         r.seed,
         r.engine_version
@@ -813,7 +810,7 @@ pub fn assoc_text(r: &crate::designs::association::AssocReport) -> String {
         _ => 3,
     };
     let mut s = format!("{}\n\n", r.finding);
-    for n in &r.notes {
+    for n in r.notes.iter().map(words::note) {
         s.push_str(&format!("Note: {n}\n"));
     }
     s.push_str(&format!(
@@ -920,9 +917,9 @@ pub fn assoc_html(r: &crate::designs::association::AssocReport, date: &str) -> S
     let methods = format!(
         "Permutation test re-pairing y with x ({}); {} bootstrap interval from {} resampled pairs; t-test with n − 2 df and {} as cross-checks. Random numbers: {}, seed {}. Computed with Reshuffle {} on {date}.",
         if r.exact { format!("exact, all {} pairings", fmt::count(r.resamples)) } else { format!("{} random pairings", fmt::count(r.resamples)) },
-        r.ci.method,
+        words::method_key(r.ci.method),
         fmt::count(r.bootstrap_resamples),
-        r.classical_ci.method,
+        words::method(r.classical_ci.method),
         r.rng,
         r.seed,
         r.engine_version

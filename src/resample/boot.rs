@@ -2,7 +2,7 @@
 //! each of two groups, or whole pairs), and percentile, basic, normal, BCa and studentized
 //! intervals read from the resampled statistics.
 
-use crate::base::{Interval, IntervalMethod, Side};
+use crate::base::{Interval, IntervalMethod, Note, Side};
 use crate::base::{Progress, ProgressFn, RunError};
 use crate::num::normal;
 use crate::num::stats;
@@ -333,15 +333,8 @@ pub struct Summary<'a> {
     pub bounds: Option<(f64, f64)>,
 }
 
-fn empty(method: IntervalMethod, level: f64, side: Side, note: &str) -> Interval {
-    Interval {
-        low: None,
-        high: None,
-        level,
-        method: method.key().to_string(),
-        side,
-        note: Some(note.to_string()),
-    }
+fn empty(method: IntervalMethod, level: f64, side: Side, note: Note) -> Interval {
+    Interval::none(method.into(), level, side, note)
 }
 
 /// One interval by one method. `accel` is only called for BCa.
@@ -353,12 +346,7 @@ pub fn interval_by(
     accel: &mut dyn FnMut() -> (Option<f64>, bool),
 ) -> Interval {
     if s.boot.is_empty() {
-        return empty(
-            method,
-            level,
-            side,
-            "No bootstrap resample gave a defined value.",
-        );
+        return empty(method, level, side, Note::NoDefinedResample);
     }
     let sorted = stats::sorted(s.boot);
     let b = sorted.len() as f64;
@@ -373,30 +361,21 @@ pub fn interval_by(
         low: None,
         high: None,
         level,
-        method: method.key().to_string(),
+        method: method.into(),
         side,
-        note: None,
+        notes: Vec::new(),
     };
     if first == last {
         if method == IntervalMethod::Bca || method == IntervalMethod::Studentized {
-            return empty(
-                method,
-                level,
-                side,
-                "Undefined: every bootstrap resample gave the same value (no variation to work with).",
-            );
+            return empty(method, level, side, Note::NoVariation);
         }
         iv.low = pa.map(|_| first);
         iv.high = pb.map(|_| first);
-        iv.note = Some(
-            "Every bootstrap resample gave the same value, so the interval has zero width: the \
-             data show too little variation to express uncertainty this way."
-                .into(),
-        );
+        iv.notes.push(Note::ZeroWidth);
         return iv;
     }
     let q = |p: f64| stats::quantile_sorted(&sorted, p);
-    let mut notes: Vec<String> = Vec::new();
+    let mut notes: Vec<Note> = Vec::new();
     match method {
         IntervalMethod::Percentile => {
             iv.low = pa.map(q);
@@ -418,31 +397,21 @@ pub fn interval_by(
             let equal = sorted.partition_point(|&v| v <= s.estimate) as f64 - below;
             let share = (below + 0.5 * equal) / b;
             if share <= 0.0 || share >= 1.0 {
-                return empty(
-                    method,
-                    level,
-                    side,
-                    "Undefined: every bootstrap value lies on one side of the estimate.",
-                );
+                return empty(method, level, side, Note::AllOnOneSide);
             }
             let z0 = normal::quantile(share);
             let (a, grouped) = accel();
             let a = match a {
                 Some(a) => a,
                 None => {
-                    notes.push(
-                        "The jackknife values did not vary, so the acceleration was taken as 0 \
-                         (a bias-corrected percentile interval)."
-                            .into(),
-                    );
+                    notes.push(Note::AccelerationZero);
                     0.0
                 }
             };
             if grouped {
-                notes.push(format!(
-                    "Acceleration from a grouped jackknife ({JACKKNIFE_GROUPS} groups), as the \
-                     sample is large."
-                ));
+                notes.push(Note::GroupedJackknife {
+                    groups: JACKKNIFE_GROUPS,
+                });
             }
             let adj = |p: f64| {
                 let w = z0 + normal::quantile(p);
@@ -453,29 +422,15 @@ pub fn interval_by(
             iv.high = lb.map(q);
             let tiny = 1.0 / b;
             if la.is_some_and(|p| p < tiny) || lb.is_some_and(|p| p > 1.0 - tiny) {
-                notes.push(
-                    "The BCa limits fell in the outermost bootstrap values; use more resamples \
-                     before relying on this interval."
-                        .into(),
-                );
+                notes.push(Note::BcaAtExtremes);
             }
         }
         IntervalMethod::Studentized => {
             let Some((t, se)) = s.t else {
-                return empty(
-                    method,
-                    level,
-                    side,
-                    "No standard error is available for this estimate.",
-                );
+                return empty(method, level, side, Note::NoStandardError);
             };
             if t.len() < 10 || se.is_nan() || se <= 0.0 {
-                return empty(
-                    method,
-                    level,
-                    side,
-                    "Undefined: too few resamples had a positive standard error.",
-                );
+                return empty(method, level, side, Note::TooFewStandardErrors);
             }
             let ts = stats::sorted(t);
             let qt = |p: f64| stats::quantile_sorted(&ts, p);
@@ -483,11 +438,7 @@ pub fn interval_by(
             iv.high = pa.map(|p| s.estimate - qt(p) * se);
             let dropped = s.boot.len() - t.len();
             if dropped > 0 {
-                notes.push(format!(
-                    "{dropped} resample{} with zero standard error {} left out of the t values.",
-                    if dropped == 1 { "" } else { "s" },
-                    if dropped == 1 { "was" } else { "were" }
-                ));
+                notes.push(Note::ZeroStandardErrors { count: dropped });
             }
         }
     }
@@ -495,18 +446,12 @@ pub fn interval_by(
         let clip = |v: Option<f64>| v.map(|x| x.clamp(lo, hi));
         let (cl, ch) = (clip(iv.low), clip(iv.high));
         if cl != iv.low || ch != iv.high {
-            notes.push(format!(
-                "Clipped to the possible range [{}, {}].",
-                crate::base::format::sig(lo),
-                crate::base::format::sig(hi)
-            ));
+            notes.push(Note::Clipped { low: lo, high: hi });
             iv.low = cl;
             iv.high = ch;
         }
     }
-    if !notes.is_empty() {
-        iv.note = Some(notes.join(" "));
-    }
+    iv.notes.extend(notes);
     iv
 }
 
@@ -612,10 +557,10 @@ mod tests {
             Some(0.0)
         });
         assert_eq!(iv.low, Some(1.0));
-        assert!(iv.note.is_some());
+        assert_eq!(iv.notes, vec![Note::ZeroWidth]);
         let iv = interval(IntervalMethod::Bca, 0.95, 1.0, &[1.0; 50], || Some(0.0));
         assert_eq!(iv.low, None);
-        assert!(iv.note.unwrap().contains("Undefined"));
+        assert_eq!(iv.notes, vec![Note::NoVariation]);
     }
 
     #[test]

@@ -27,6 +27,7 @@ use crate::input::table::{self, ColumnKind, HeaderChoice};
 use crate::render::doc::Doc;
 use crate::render::plot;
 use crate::render::report;
+use crate::render::words;
 use crate::resample::signs::FlipStatistic;
 use crate::web::share;
 use crate::wire::link;
@@ -2263,11 +2264,7 @@ fn Findings(report: Report) -> impl IntoView {
             "[{}, {}] ({}, {} resamples)",
             fmt::fixed(l, d),
             fmt::fixed(h, d),
-            if r.ci.method == "bca" {
-                "BCa"
-            } else {
-                "percentile"
-            },
+            words::method(r.ci.method),
             fmt::count(r.bootstrap_resamples)
         ),
         _ => "not available".into(),
@@ -2290,9 +2287,9 @@ fn Findings(report: Report) -> impl IntoView {
         None => "undefined".into(),
     };
     let level = fmt::percent(r.ci.level);
-    let notes = r.notes.clone();
-    let ci_note = r.ci.note.clone();
-    let g_note = r.hedges_g.ci.note.clone();
+    let notes: Vec<String> = r.notes.iter().map(words::note).collect();
+    let ci_note = (!r.ci.notes.is_empty()).then(|| words::notes(&r.ci.notes));
+    let g_note = (!r.hedges_g.ci.notes.is_empty()).then(|| words::notes(&r.hedges_g.ci.notes));
     let null_caption = plot::null_description(&r);
     let boot_caption = plot::bootstrap_description(&r);
     let groups = r.groups.clone();
@@ -2339,9 +2336,9 @@ fn Findings(report: Report) -> impl IntoView {
                     <thead><tr><th scope="col">"method"</th><th scope="col">"low"</th><th scope="col">"high"</th><th scope="col">"note"</th></tr></thead>
                     <tbody>
                         {r.intervals.iter().map(|iv| {
-                            let name = IntervalMethod::from_key(&iv.method).map_or(iv.method.clone(), |m| m.label().to_string());
+                            let name = words::method(iv.method).to_string();
                             let cell = |v: Option<f64>| v.map_or("—".to_string(), |x| fmt::fixed(x, d));
-                            view! { <tr><th scope="row">{name}</th><td>{cell(iv.low)}</td><td>{cell(iv.high)}</td><td class="note-cell">{iv.note.clone().unwrap_or_default()}</td></tr> }
+                            view! { <tr><th scope="row">{name}</th><td>{cell(iv.low)}</td><td>{cell(iv.high)}</td><td class="note-cell">{words::notes(&iv.notes)}</td></tr> }
                         }).collect_view()}
                     </tbody>
                 </table>
@@ -2373,18 +2370,17 @@ fn EstimateFindings(report: EstimateReport) -> impl IntoView {
         .intervals
         .iter()
         .map(|iv| {
-            let name = IntervalMethod::from_key(&iv.method)
-                .map_or(iv.method.clone(), |m| m.label().to_string());
+            let name = words::method(iv.method).to_string();
             (
                 name,
                 cell(iv.low, "−∞"),
                 cell(iv.high, "∞"),
-                iv.note.clone().unwrap_or_default(),
+                words::notes(&iv.notes),
             )
         })
         .chain(r.classical.iter().map(|c| {
             (
-                format!("{} (classical cross-check)", c.method),
+                format!("{} (classical cross-check)", words::method(c.method)),
                 cell(c.low, "—"),
                 cell(c.high, "—"),
                 String::new(),
@@ -2404,7 +2400,7 @@ fn EstimateFindings(report: EstimateReport) -> impl IntoView {
             data-high=format!("{:?}", headline.high)>
             <p class="headline" id="estimate-finding">{r.finding.clone()}</p>
             {(!r.notes.is_empty()).then(|| view! {
-                <ul class="notes">{r.notes.iter().map(|n| view! { <li>{n.clone()}</li> }).collect_view()}</ul>
+                <ul class="notes">{r.notes.iter().map(|n| view! { <li>{words::note(n)}</li> }).collect_view()}</ul>
             })}
             <div class="plots">
                 <Figure id="est-figure" svg=svg caption=caption/>
@@ -2464,7 +2460,7 @@ fn PairedFindings(report: PairedReport) -> impl IntoView {
         _ => format!(
             "{} (no interval: {})",
             fmt::fixed(r.observed, d),
-            r.ci.note.clone().unwrap_or_default()
+            words::notes(&r.ci.notes)
         ),
     };
     let t_text = match (r.t_test.t, r.t_test.p_value) {
@@ -2476,11 +2472,11 @@ fn PairedFindings(report: PairedReport) -> impl IntoView {
             "W+ = {}, {} ({}; {} zero difference{} left out)",
             fmt::sig(r.wilcoxon.w_plus),
             fmt::p_value(p),
-            r.wilcoxon.method,
+            words::rank_method(r.wilcoxon.method),
             r.wilcoxon.zeros,
             if r.wilcoxon.zeros == 1 { "" } else { "s" }
         ),
-        None => r.wilcoxon.method.clone(),
+        None => words::rank_method(r.wilcoxon.method).to_string(),
     };
     let dz_text = match (r.dz.estimate, r.dz.ci.low, r.dz.ci.high) {
         (Some(g), Some(l), Some(h)) => format!("{g:.2} [{l:.2}, {h:.2}]"),
@@ -2493,7 +2489,7 @@ fn PairedFindings(report: PairedReport) -> impl IntoView {
             data-ci-low=format!("{:?}", r.ci.low) data-ci-high=format!("{:?}", r.ci.high)>
             <p class="headline" id="paired-finding">{r.finding.clone()}</p>
             {(!r.notes.is_empty()).then(|| view! {
-                <ul class="notes">{r.notes.iter().map(|n| view! { <li>{n.clone()}</li> }).collect_view()}</ul>
+                <ul class="notes">{r.notes.iter().map(|n| view! { <li>{words::note(n)}</li> }).collect_view()}</ul>
             })}
             <div class="plots">
                 <Figure id="flip-figure" svg=null_svg caption=null_caption/>
