@@ -15,6 +15,17 @@ fn reshuffle(args: &[&str]) -> (i32, String, String) {
     )
 }
 
+/// The report inside the JSON the command prints: `{"format_version": 2, "engine_version": …,
+/// "design": …, "report": {…}}` (the format README.md documents).
+fn report(out: &str) -> serde_json::Value {
+    let mut v: serde_json::Value =
+        serde_json::from_str(out).unwrap_or_else(|e| panic!("{e}: {out}"));
+    assert_eq!(v["format_version"], 2, "{out}");
+    assert!(v["engine_version"].is_string(), "{out}");
+    assert!(v["design"].is_string(), "{out}");
+    v["report"].take()
+}
+
 #[test]
 fn json_report_has_the_documented_fields() {
     let (code, out, err) = reshuffle(&[
@@ -33,7 +44,7 @@ fn json_report_has_the_documented_fields() {
         "--json",
     ]);
     assert_eq!(code, 0, "{err}");
-    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let v = report(&out);
     for key in [
         "observed",
         "p_value",
@@ -107,7 +118,7 @@ fn wide_format_and_errors() {
         "--json",
     ]);
     assert_eq!(code, 0, "{err}");
-    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let v = report(&out);
     assert_eq!(v["groups"][1]["n"], 17);
     let notes = v["notes"].as_array().unwrap();
     assert!(
@@ -169,16 +180,16 @@ fn share_link_and_saved_file_reproduce_the_json() {
         .collect();
     let (code, link, err) = reshuffle(&link_args);
     assert_eq!(code, 0, "{err}");
-    assert!(link.starts_with("http://127.0.0.1:9/x.html#r1."), "{link}");
+    assert!(link.starts_with("http://127.0.0.1:9/x.html#r2."), "{link}");
     let (code, got, err) = reshuffle(&["analyze", "--link", link.trim(), "--json"]);
     assert_eq!(code, 0, "{err}");
     assert_eq!(got, want);
     // A saved analysis file (the job JSON the page saves) gives the same numbers.
-    let job = reshuffle::wire::link::decode(link.trim()).unwrap();
+    let job = reshuffle::wire::link::decode(link.trim()).unwrap().job;
     let dir = std::env::temp_dir().join(format!("reshuffle-cli-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
     let file = dir.join("analysis.json");
-    std::fs::write(&file, serde_json::to_string(&job).unwrap()).unwrap();
+    std::fs::write(&file, reshuffle::wire::write_job(&job)).unwrap();
     let (code, got, err) = reshuffle(&["analyze", "--request", file.to_str().unwrap(), "--json"]);
     assert_eq!(code, 0, "{err}");
     assert_eq!(got, want);
@@ -198,11 +209,11 @@ fn share_link_and_saved_file_reproduce_the_json() {
     let (code, _, err) = reshuffle(&[
         "analyze",
         "--link",
-        &link.trim().replace("#r1.", "#r1.x"),
+        &link.trim().replace("#r2.", "#r2.x"),
         "--json",
     ]);
     assert_ne!(code, 0);
-    assert!(err.contains("damaged"), "{err}");
+    assert!(err.contains("changed or cut"), "{err}");
 }
 
 #[test]
@@ -223,7 +234,7 @@ fn paired_and_one_sample_designs() {
         "--json",
     ]);
     assert_eq!(code, 0, "{err}");
-    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let v = report(&out);
     assert_eq!(v["exact"], true);
     assert_eq!(v["resamples"], 1024);
     assert!((v["p_value"].as_f64().unwrap() - 4.0 / 1024.0).abs() < 1e-15);
@@ -310,7 +321,7 @@ fn association_design() {
         "--json",
     ]);
     assert_eq!(code, 0, "{err}");
-    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let v = report(&out);
     assert_eq!(v["exact"], true);
     assert_eq!(v["resamples"], 40320);
     assert!((v["p_value"].as_f64().unwrap() - 0.09365079365079365).abs() < 1e-12);
@@ -329,7 +340,7 @@ fn association_design() {
 fn json_of(args: &[&str]) -> serde_json::Value {
     let (code, out, err) = reshuffle(args);
     assert_eq!(code, 0, "{err}");
-    serde_json::from_str(&out).unwrap_or_else(|e| panic!("{e}: {out}"))
+    report(&out)
 }
 
 #[test]
@@ -359,7 +370,6 @@ fn k_groups_design_reports_omnibus_cross_checks_and_adjusted_comparisons() {
         "welch_anova",
         "kruskal_wallis",
         "pairwise",
-        "finding",
         "cautions",
     ] {
         assert!(v.get(key).is_some(), "missing {key}");
@@ -580,7 +590,7 @@ fn plan_command_finds_a_sample_size_and_a_detectable_effect() {
     // 25.5); the simulation's estimate is close to it.
     assert!((20.0..34.0).contains(&n), "{n}");
     assert!(v["detectable"]["effect"].as_f64().unwrap() > 0.5);
-    assert!(!v["tradeoffs"].as_array().unwrap().is_empty());
+
     // A pilot column resampled with a multiplicative effect.
     let v = json_of(&[
         "plan",
@@ -599,7 +609,7 @@ fn plan_command_finds_a_sample_size_and_a_detectable_effect() {
         "--json",
     ]);
     assert!(v["required"]["n"].as_u64().is_some());
-    assert!(v["model_label"].as_str().unwrap().contains("pilot"));
+    assert_eq!(v["model"]["kind"], "pilot", "{v}");
     // Messages.
     let (code, _, err) = reshuffle(&["plan", "--design", "two-groups", "--effect", "0.5"]);
     assert_eq!(code, 2);
@@ -633,4 +643,83 @@ fn plan_command_finds_a_sample_size_and_a_detectable_effect() {
     ]);
     assert_eq!(code, 0);
     assert!(out.contains("What was traded for speed"), "{out}");
+}
+
+/// The command's parser (clap): help for every subcommand, the version, completions, and a
+/// specific message for a value out of range, a repeated option and an unknown option.
+#[test]
+fn help_version_completions_and_option_messages() {
+    for sub in [
+        "analyze",
+        "estimate",
+        "plan",
+        "link",
+        "bench",
+        "completions",
+    ] {
+        for flag in ["--help", "-h"] {
+            let (code, out, err) = reshuffle(&[sub, flag]);
+            assert_eq!(code, 0, "{sub} {flag}: {err}");
+            assert!(out.contains("Usage: reshuffle"), "{sub} {flag}: {out}");
+        }
+    }
+    let (code, out, _) = reshuffle(&["--version"]);
+    assert_eq!(code, 0);
+    assert_eq!(
+        out.trim(),
+        format!("reshuffle {}", env!("CARGO_PKG_VERSION"))
+    );
+    let (code, out, _) = reshuffle(&["completions", "bash"]);
+    assert_eq!(code, 0);
+    assert!(out.contains("_reshuffle()"), "a bash completion function");
+    // A negative number is read as a value, and refused with its range.
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--resamples",
+        "-1000",
+    ]);
+    assert_eq!(code, 2);
+    assert!(
+        err.contains("a whole number from 99 to 10,000,000, not -1000"),
+        "{err}"
+    );
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--seed",
+        "1",
+        "--seed",
+        "2",
+    ]);
+    assert_eq!(code, 2);
+    assert!(
+        err.contains("'--seed <S>' cannot be used multiple times"),
+        "{err}"
+    );
+    let (code, _, err) = reshuffle(&["analyze", "demo-data/tomato-irrigation.csv", "--sead", "1"]);
+    assert_eq!(code, 2);
+    assert!(
+        err.contains("unexpected argument '--sead'") && err.contains("--seed"),
+        "{err}"
+    );
+    // A negative reference value is a value, not an option.
+    let (code, out, err) = reshuffle(&[
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--design",
+        "one-sample",
+        "--value",
+        "yield_kg",
+        "--reference",
+        "-3",
+        "--seed",
+        "1",
+        "--resamples",
+        "999",
+        "--bootstrap",
+        "500",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("7.2"), "{out}");
 }

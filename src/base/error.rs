@@ -1,30 +1,147 @@
-//! Why a run produced no report, and the progress of a long run.
+//! The one error type of the engine, and the progress of a long run.
+//!
+//! An error carries a kind, a message that says what is wrong and what to do, and, where it
+//! applies, the line and the column of the table, so that each face can point at the cell.
 
 use serde::{Deserialize, Serialize};
 
-/// Why a run produced no report.
-#[derive(Clone, Debug, PartialEq)]
-pub enum RunError {
-    /// Something about the data or the settings; the message says what and what to do.
-    Input(String),
+/// What kind of problem stopped a run.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum ErrorKind {
+    /// The text cannot be read as a table (empty, ragged, an unterminated quote).
+    Table,
+    /// A column is missing, or of the wrong kind for its role.
+    Column,
+    /// A cell holds something the analysis cannot use.
+    Value,
+    /// The data do not fit the design (too few values, one group only, no variation).
+    Data,
+    /// A setting is out of range or the settings contradict each other.
+    Settings,
+    /// The request or file is in a format version this build does not read.
+    Version,
+    /// A share link or a saved file is damaged or is not an analysis.
+    Link,
+    /// The work or memory the request needs is more than the bound.
+    Limit,
     /// The caller asked to stop.
     Cancelled,
 }
 
-impl std::fmt::Display for RunError {
-    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        match self {
-            RunError::Input(m) => f.write_str(m),
-            RunError::Cancelled => f.write_str("The analysis was stopped."),
+/// Why a run produced no report.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Error {
+    /// What kind of problem.
+    pub kind: ErrorKind,
+    /// What is wrong and what to do, in a sentence or two.
+    pub message: String,
+    /// The line of the pasted text, where one cell or row is at fault (1-based).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub line: Option<u64>,
+    /// The column, where one column is at fault.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub column: Option<String>,
+}
+
+impl Error {
+    /// An error of this kind with this message.
+    pub fn new(kind: ErrorKind, message: impl Into<String>) -> Error {
+        Error {
+            kind,
+            message: message.into(),
+            line: None,
+            column: None,
         }
     }
+
+    /// A problem with the data.
+    pub fn data(message: impl Into<String>) -> Error {
+        Error::new(ErrorKind::Data, message)
+    }
+
+    /// A problem with the settings.
+    pub fn settings(message: impl Into<String>) -> Error {
+        Error::new(ErrorKind::Settings, message)
+    }
+
+    /// The run was stopped.
+    pub fn cancelled() -> Error {
+        Error::new(ErrorKind::Cancelled, "The analysis was stopped.")
+    }
+
+    /// The same error, pointing at a line of the table.
+    pub fn at_line(mut self, line: u64) -> Error {
+        self.line = Some(line);
+        self
+    }
+
+    /// The same error, pointing at a column of the table.
+    pub fn in_column(mut self, column: impl Into<String>) -> Error {
+        self.column = Some(column.into());
+        self
+    }
+
+    /// Whether the run was stopped rather than failed.
+    pub fn is_cancelled(&self) -> bool {
+        self.kind == ErrorKind::Cancelled
+    }
+}
+
+impl std::fmt::Display for Error {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(&self.message)
+    }
+}
+
+impl std::error::Error for Error {}
+
+/// What a long run is doing.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "stage", rename_all = "kebab-case")]
+pub enum Stage {
+    /// Relabelling the values (two groups, k groups, strata).
+    Relabelling,
+    /// Flipping the signs of differences (paired, one sample).
+    SignPatterns,
+    /// Re-pairing y with x (association).
+    Pairings,
+    /// Summing the exact distribution of a 2×2 table.
+    ExactTest,
+    /// Bootstrap resampling.
+    Bootstrap,
+    /// A follow-up comparison of k groups.
+    Comparison {
+        /// Which one (1-based).
+        index: usize,
+        /// Of how many.
+        of: usize,
+    },
+    /// Simulated studies at one sample size (planning).
+    Simulation {
+        /// The sample size.
+        n: u64,
+        /// Sizes evaluated so far.
+        sizes: usize,
+    },
+    /// Simulated studies while searching for the smallest detectable effect (planning).
+    Detectable {
+        /// The sample size.
+        n: u64,
+        /// The effect tried.
+        effect: f64,
+    },
 }
 
 /// A step of a long run, for progress display.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct Progress {
-    pub stage: String,
+    /// What is being done.
+    #[serde(flatten)]
+    pub stage: Stage,
+    /// How much of it is done.
     pub done: u64,
+    /// How much there is.
     pub total: u64,
 }
 

@@ -2,10 +2,11 @@
 //! how numbers are written in messages and reports.
 
 pub mod error;
+pub mod floats;
 pub mod format;
 pub mod note;
 pub mod vocab;
 
-pub use error::{Progress, ProgressFn, RunError};
+pub use error::{Error, ErrorKind, Progress, ProgressFn, Stage};
 pub use note::{InfiniteCause, Note};
 pub use vocab::*;

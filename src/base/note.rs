@@ -108,7 +108,7 @@ pub enum Note {
         /// The statistic's key ("risk-ratio", "odds-ratio").
         statistic: String,
         /// Its value (0 or infinity).
-        #[serde(with = "super::vocab::float")]
+        #[serde(with = "super::floats::float")]
         value: f64,
     },
     /// Only the first values of a long run are kept for the download.
@@ -197,7 +197,7 @@ pub enum Note {
         /// The lowest possible value.
         low: f64,
         /// The highest possible value.
-        #[serde(with = "super::vocab::float")]
+        #[serde(with = "super::floats::float")]
         high: f64,
     },
     /// Hedges' g is undefined: neither group varies.

@@ -92,7 +92,6 @@ pub fn classical_measures(t: &Table2, level: f64) -> (Measure, Measure, Measure)
     let (l2, u2) = wilson(c, n2, z);
     let delta = p1 - p2;
     let diff = Measure {
-        name: "difference in proportions".into(),
         estimate: delta,
         ci: iv(
             Some(delta - ((p1 - l1).powi(2) + (u2 - p2).powi(2)).sqrt()),
@@ -107,7 +106,6 @@ pub fn classical_measures(t: &Table2, level: f64) -> (Measure, Measure, Measure)
     let risk_ratio = if a > 0.0 && c > 0.0 {
         let se = (1.0 / a - 1.0 / n1 + 1.0 / c - 1.0 / n2).sqrt();
         Measure {
-            name: "risk ratio".into(),
             estimate: rr,
             ci: iv(
                 Some((rr.ln() - z * se).exp()),
@@ -118,7 +116,6 @@ pub fn classical_measures(t: &Table2, level: f64) -> (Measure, Measure, Measure)
         }
     } else {
         Measure {
-            name: "risk ratio".into(),
             estimate: rr,
             ci: iv(None, None, Method::Katz, zero_note()),
         }
@@ -128,7 +125,6 @@ pub fn classical_measures(t: &Table2, level: f64) -> (Measure, Measure, Measure)
     let odds_ratio = if a > 0.0 && b > 0.0 && c > 0.0 && d > 0.0 {
         let se = (1.0 / a + 1.0 / b + 1.0 / c + 1.0 / d).sqrt();
         Measure {
-            name: "odds ratio".into(),
             estimate: or,
             ci: iv(
                 Some((or.ln() - z * se).exp()),
@@ -139,7 +135,6 @@ pub fn classical_measures(t: &Table2, level: f64) -> (Measure, Measure, Measure)
         }
     } else {
         Measure {
-            name: "odds ratio".into(),
             estimate: or,
             ci: iv(None, None, Method::Woolf, zero_note()),
         }
@@ -188,9 +183,10 @@ pub fn chi_square(t: &Table2, yates: bool) -> (ChiSquareTest, f64) {
 /// A measure of the difference with its classical interval.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct Measure {
-    pub name: String,
+    /// The estimate.
     #[serde(with = "float")]
     pub estimate: f64,
+    /// Its classical interval.
     pub ci: Interval,
 }
 

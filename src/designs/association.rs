@@ -6,101 +6,127 @@
 use serde::{Deserialize, Serialize};
 use statrs::distribution::{ContinuousCDF, StudentsT};
 
-use crate::base::format as fmt;
+use super::{Caution, Design, DesignKey, TestOutcome, TestSettings};
 use crate::base::*;
 use crate::designs::estimate::{self, Estimate};
 use crate::input::columns::{self as groups, plural};
 use crate::input::table::{self, HeaderChoice};
 use crate::num::{normal, stats};
-use crate::resample::boot::{Design, SeMethod, Stat};
+use crate::resample::boot::{Design as Resampling, SeMethod, Stat};
 pub use crate::resample::pairings::AssocStatistic;
 use crate::resample::pairings::{factorial, heap_enumerate, kernel_r, random_block, Kernel};
-use crate::resample::rng::RNG_NAME;
-use crate::resample::summary::{histogram, tail_region};
-use crate::resample::tally::{p_value, TIE_TOLERANCE};
+use crate::resample::summary::histogram;
+use crate::resample::tally::TIE_TOLERANCE;
 use crate::resample::{boot, driver};
 
+/// The association design.
+pub struct AssociationDesign;
+
+/// Two numeric columns, the statistic and the settings.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct AssocRequest {
-    pub format_version: u32,
+    /// The table as pasted.
     pub data: String,
+    /// Whether the first row holds column names.
     #[serde(default)]
     pub header: HeaderChoice,
+    /// The x column.
     pub x: String,
+    /// The y column.
     pub y: String,
+    /// Pearson's r, Spearman's rho or the least-squares slope.
     pub statistic: AssocStatistic,
-    pub alternative: Alternative,
-    #[serde(default)]
-    pub two_sided: TwoSidedRule,
-    pub resamples: u64,
-    /// Enumerate all n! pairings when there are at most this many.
-    pub exact_limit: u64,
-    pub bootstrap_resamples: u64,
-    pub confidence: f64,
-    pub interval: IntervalMethod,
-    pub seed: u64,
+    /// The test and interval settings (enumerate all n! pairings up to the limit).
+    pub settings: TestSettings,
 }
 
 impl AssocRequest {
+    /// The defaults the page and the command start from.
     pub fn new(data: String, x: String, y: String, seed: u64) -> AssocRequest {
         AssocRequest {
-            format_version: FORMAT_VERSION,
             data,
             header: HeaderChoice::Detect,
             x,
             y,
             statistic: AssocStatistic::Pearson,
-            alternative: Alternative::TwoSided,
-            two_sided: TwoSidedRule::Absolute,
-            resamples: 100_000,
-            exact_limit: 1_000_000,
-            bootstrap_resamples: 10_000,
-            confidence: 0.95,
-            interval: IntervalMethod::Bca,
-            seed,
+            settings: TestSettings::new(seed),
         }
     }
 }
 
+/// What the association analysis found.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct AssocReport {
-    pub format_version: u32,
-    pub engine_version: String,
+    /// The x column.
     pub x: String,
+    /// The y column.
     pub y: String,
+    /// Complete (x, y) rows.
     pub n: usize,
+    /// What was left out.
     pub notes: Vec<Note>,
+    /// The statistic.
     pub statistic: AssocStatistic,
-    pub statistic_label: String,
+    /// The direction of the test.
     pub alternative: Alternative,
+    /// How the two-sided p-value is defined.
     pub two_sided: TwoSidedRule,
-    pub observed: f64,
-    pub p_value: f64,
-    pub exact: bool,
-    pub resamples: u64,
-    pub extreme_count: u64,
-    pub mc_se: Option<f64>,
-    pub p_interval: Option<PInterval>,
-    pub seed: u64,
-    pub rng: String,
+    /// The re-pairing test.
+    #[serde(flatten)]
+    pub test: TestOutcome,
+    /// The headline bootstrap interval of the statistic.
     pub ci: Interval,
+    /// The headline interval and any further methods.
+    pub intervals: Vec<Interval>,
+    /// Bootstrap resamples.
     pub bootstrap_resamples: u64,
+    /// Bootstrap standard error.
     pub bootstrap_se: Option<f64>,
-    /// The t-test for r (or rho, or the slope): t, df = n − 2, p.
+    /// Mean of the bootstrap values minus the estimate.
+    pub bootstrap_bias: Option<f64>,
+    /// The bootstrap values, binned.
+    pub bootstrap_histogram: Histogram,
+    /// The t-test for r (or rho, or the slope): t, df = n − 2.
     pub t: Option<f64>,
+    /// Its p-value.
     pub t_p_value: Option<f64>,
     /// Fisher z interval for r (or rho), or the t interval for the slope.
     pub classical_ci: Interval,
+    /// Intercept of the least-squares line.
     pub intercept: f64,
+    /// Slope of the least-squares line.
     pub slope: f64,
     /// The data, for the scatter plot.
     pub points: Vec<(f64, f64)>,
-    pub null_histogram: Histogram,
-    pub tail: Tail,
-    pub bootstrap_histogram: Histogram,
-    pub finding: String,
-    pub cautions: Vec<String>,
+    /// What to keep in mind.
+    pub cautions: Vec<Caution>,
+}
+
+impl Design for AssociationDesign {
+    const KEY: DesignKey = DesignKey::Association;
+    type Request = AssocRequest;
+    type Report = AssocReport;
+
+    fn check(req: &AssocRequest) -> Result<(), Error> {
+        req.settings.check("pairings")
+    }
+
+    fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Error> {
+        run(req, progress)
+    }
+
+    fn data(req: &AssocRequest) -> &str {
+        &req.data
+    }
+
+    fn clear_data(req: &mut AssocRequest) {
+        req.data.clear();
+    }
+
+    fn seed(req: &AssocRequest) -> u64 {
+        req.settings.seed
+    }
 }
 
 /// The estimate whose bootstrap the statistic's interval uses.
@@ -112,27 +138,23 @@ fn estimate_of(st: AssocStatistic) -> Estimate {
     }
 }
 
-pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, RunError> {
-    super::check_common(
-        req.format_version,
-        req.confidence,
-        req.resamples,
-        req.bootstrap_resamples,
-        "pairings",
-    )?;
+/// Runs an association request.
+pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Error> {
+    AssociationDesign::check(req)?;
+    let set = &req.settings;
     let t = table::parse(&req.data, req.header)?;
     let mut notes = Vec::new();
     let (x, y) = groups::paired_columns(&t, &req.x, &req.y, &mut notes)?;
     let n = x.len();
     if n < 3 {
-        return Err(RunError::Input(format!(
+        return Err(Error::data(format!(
             "Only {n} complete (x, y) row{}; an association needs at least 3.",
             plural(n)
         )));
     }
     let vary = |v: &[f64]| v.iter().any(|a| *a != v[0]);
     if !vary(&x) || !vary(&y) {
-        return Err(RunError::Input(format!(
+        return Err(Error::data(format!(
             "Column \"{}\" has the same value in every row, so no association can be measured.",
             if vary(&x) { &req.y } else { &req.x }
         )));
@@ -157,27 +179,38 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, RunE
     let pairings = factorial(n);
     let (counts, values, exact) = driver::Relabelling {
         count: pairings,
-        exact_limit: req.exact_limit,
-        resamples: req.resamples,
-        seed: req.seed,
-        stage: "pairings",
+        exact_limit: set.exact_limit,
+        resamples: set.resamples,
+        seed: set.seed,
+        stage: Stage::Pairings,
     }
     .run(
         progress,
         &mut |cb| heap_enumerate(&kernel, observed, tol, cb),
         &mut |s, len| random_block(&kernel, observed, tol, s, len),
     )?;
-    let pr = p_value(&counts, exact, req.alternative, req.two_sided);
+    let mut test = TestOutcome::new(
+        &counts,
+        &values,
+        exact,
+        set.alternative,
+        set.two_sided,
+        observed,
+        set.seed,
+    );
+    // The figure's range is set by the relabelled values and the observed one.
+    test.null_histogram = histogram(&values, &[observed], 48);
 
     // Bootstrap of pairs.
     let f = estimate::estimator(estimate_of(req.statistic), 0.5);
-    let design = Design::Pairs { x: &x, y: &y };
+    let design = Resampling::Pairs { x: &x, y: &y };
     let stat = Stat {
         f: f.as_ref(),
         estimate: observed,
         se: SeMethod::None,
     };
-    let studentize = req.interval == IntervalMethod::Studentized;
+    let methods = set.methods();
+    let studentize = methods.contains(&IntervalMethod::Studentized);
     let se_f = estimate::se_formula(estimate_of(req.statistic), false);
     let stat = if studentize {
         Stat {
@@ -192,12 +225,11 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, RunE
     let (bv, tv) = boot::resample(
         &design,
         &[stat],
-        req.seed,
-        req.bootstrap_resamples,
+        set.seed,
+        set.bootstrap_resamples,
         progress,
     )?;
     let finite: Vec<f64> = bv[0].iter().copied().filter(|v| v.is_finite()).collect();
-    let t_finite: Vec<f64> = tv[0].iter().copied().filter(|v| v.is_finite()).collect();
     let se_hat = match stat.se {
         SeMethod::Formula(g) => g(&mut x.clone(), &mut y.clone()),
         SeMethod::Nested(_) => boot::standard_error(&finite).unwrap_or(f64::NAN),
@@ -207,18 +239,14 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, RunE
         AssocStatistic::Slope => None,
         _ => Some((-1.0, 1.0)),
     };
-    let summary = boot::Summary {
-        estimate: observed,
-        boot: &finite,
-        t: studentize.then_some((&t_finite[..], se_hat)),
-        bounds,
-    };
     let f_ref = f.as_ref();
-    let ci = boot::interval_by(
-        req.interval,
-        req.confidence,
-        Side::TwoSided,
-        &summary,
+    let effect = super::summarise_bootstrap(
+        &methods,
+        set.confidence,
+        observed,
+        &bv[0],
+        studentize.then_some((&tv[0][..], se_hat)),
+        bounds,
         &mut || boot::acceleration(&design, f_ref),
     );
 
@@ -232,7 +260,7 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, RunE
     let (tstat, tp) = if df > 0.0 && r_for_t.abs() < 1.0 {
         let t = r_for_t * (df / (1.0 - r_for_t * r_for_t)).sqrt();
         let d = StudentsT::new(0.0, 1.0, df).ok();
-        let p = d.map(|d| match req.alternative {
+        let p = d.map(|d| match set.alternative {
             Alternative::TwoSided => (2.0 * d.sf(t.abs())).min(1.0),
             Alternative::Greater => d.sf(t),
             Alternative::Less => d.cdf(t),
@@ -244,12 +272,12 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, RunE
     let mut classical_ci = Interval {
         low: None,
         high: None,
-        level: req.confidence,
+        level: set.confidence,
         method: Method::FisherZ,
         side: Side::TwoSided,
         notes: Vec::new(),
     };
-    let zq = normal::quantile(1.0 - (1.0 - req.confidence) / 2.0);
+    let zq = normal::quantile(1.0 - (1.0 - set.confidence) / 2.0);
     match req.statistic {
         AssocStatistic::Slope => {
             classical_ci.method = Method::SlopeT;
@@ -258,7 +286,7 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, RunE
                 StudentsT::new(0.0, 1.0, df),
             ) {
                 let se = g(&mut x.clone(), &mut y.clone());
-                let q = d.inverse_cdf(1.0 - (1.0 - req.confidence) / 2.0);
+                let q = d.inverse_cdf(1.0 - (1.0 - set.confidence) / 2.0);
                 if se.is_finite() {
                     classical_ci.low = Some(observed - q * se);
                     classical_ci.high = Some(observed + q * se);
@@ -283,121 +311,34 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, RunE
         let sxx: f64 = x.iter().map(|a| (a - mx) * (a - mx)).sum();
         sxy / sxx
     };
-    let tail = tail_region(req.alternative, req.two_sided, &counts, observed);
-    let null_histogram = histogram(&values, &[observed], 48);
-    let mut bm = vec![observed];
-    bm.extend(ci.low);
-    bm.extend(ci.high);
-    let bootstrap_histogram = histogram(&finite, &bm, 48);
-    let mut report = AssocReport {
-        format_version: FORMAT_VERSION,
-        engine_version: ENGINE_VERSION.into(),
+    let mut cautions = vec![Caution::Assumptions, Caution::NotCausation];
+    if n < 10 {
+        cautions.push(Caution::SmallSample { smallest: n });
+    }
+    super::closing_cautions(&mut cautions);
+    Ok(AssocReport {
         x: req.x.clone(),
         y: req.y.clone(),
         n,
         notes,
         statistic: req.statistic,
-        statistic_label: req.statistic.label().into(),
-        alternative: req.alternative,
-        two_sided: req.two_sided,
-        observed,
-        p_value: pr.p,
-        exact,
-        resamples: counts.total,
-        extreme_count: pr.extreme,
-        mc_se: pr.mc_se,
-        p_interval: pr.interval,
-        seed: req.seed,
-        rng: RNG_NAME.into(),
-        ci,
-        bootstrap_resamples: req.bootstrap_resamples,
-        bootstrap_se: boot::standard_error(&finite),
+        alternative: set.alternative,
+        two_sided: set.two_sided,
+        test,
+        ci: effect.ci(),
+        intervals: effect.intervals,
+        bootstrap_resamples: set.bootstrap_resamples,
+        bootstrap_se: effect.se,
+        bootstrap_bias: effect.bias,
+        bootstrap_histogram: effect.histogram,
         t: tstat,
         t_p_value: tp,
         classical_ci,
         intercept: my - b * mx,
         slope: b,
         points: x.iter().copied().zip(y.iter().copied()).collect(),
-        null_histogram,
-        tail,
-        bootstrap_histogram,
-        finding: String::new(),
-        cautions: Vec::new(),
-    };
-    report.finding = finding(&report);
-    report.cautions = cautions(&report);
-    Ok(report)
-}
-
-fn finding(r: &AssocReport) -> String {
-    let d = match (r.ci.low, r.ci.high) {
-        (Some(l), Some(h)) if h > l => fmt::decimals_for(h - l),
-        _ => 2,
-    };
-    let mut s = match r.statistic {
-        AssocStatistic::Slope => format!(
-            "{} rose by {} per unit of {} (least-squares slope",
-            r.y,
-            fmt::fixed(r.observed, d),
-            r.x
-        ),
-        _ => format!(
-            "The {} between {} and {} was {}",
-            r.statistic_label,
-            r.x,
-            r.y,
-            fmt::fixed(r.observed, d)
-        ),
-    };
-    if let (Some(l), Some(h)) = (r.ci.low, r.ci.high) {
-        let sep = if r.statistic == AssocStatistic::Slope {
-            "; "
-        } else {
-            " ("
-        };
-        s.push_str(&format!("{sep}{}", fmt::ci(r.ci.level, l, h, d)));
-    }
-    s.push(')');
-    if r.statistic != AssocStatistic::Slope && r.ci.low.is_none() {
-        s.pop();
-    }
-    let how = match (r.alternative, r.two_sided) {
-        (Alternative::TwoSided, TwoSidedRule::Absolute) => {
-            "at least this strong in either direction"
-        }
-        (Alternative::TwoSided, TwoSidedRule::DoubledTail) => {
-            "at least this strong in the observed direction"
-        }
-        (Alternative::Greater, _) => "at least this large",
-        (Alternative::Less, _) => "at least this small",
-    };
-    let kind = if r.exact { "of all" } else { "of" };
-    let which = if r.exact {
-        "possible pairings"
-    } else {
-        "random pairings"
-    };
-    s.push_str(&format!(
-        "; an association {how} arose in {} {kind} {} {which} of the two columns ({}{}).",
-        fmt::count(r.extreme_count),
-        fmt::count(r.resamples),
-        if r.exact { "exact " } else { "" },
-        fmt::p_value(r.p_value)
-    ));
-    s
-}
-
-fn cautions(r: &AssocReport) -> Vec<String> {
-    let mut c = vec![
-        "What the test assumes: the (x, y) rows are independent of each other, and if there were no association every re-pairing of y with x would have been as likely as the observed one.".to_string(),
-        "Correlation is not causation: a third variable, or the way the units were chosen, can produce an association. r and the slope describe only the straight-line part of a relation; look at the scatter plot.".to_string(),
-    ];
-    if r.n < 10 {
-        c.push(format!("Small sample ({} pairs): the estimate is unstable and bootstrap intervals tend to be too narrow (Hesterberg 2015).", r.n));
-    }
-    c.push("A p-value is not the strength of an association; read it with the interval. With several tests on the same data, adjust for their number.".into());
-    c.push("Clinical, safety or regulatory decisions need a qualified statistician and the guidelines that apply to them.".into());
-    c
+        cautions,
+    })
 }
 
 #[cfg(test)]

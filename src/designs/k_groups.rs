@@ -7,18 +7,16 @@
 
 use serde::{Deserialize, Serialize};
 
-use super::two_groups::Request;
-use super::{group_summary, GroupSummary, TestOutcome, TestSettings};
-use crate::base::format as fmt;
+use super::{group_summary, Caution, Design, DesignKey, GroupSummary, TestOutcome, TestSettings};
 use crate::base::*;
 use crate::classical;
 use crate::classical::multiple;
 use crate::classical::{ChiSquareTest, FTest};
 use crate::input::columns::Layout;
-use crate::input::columns::{self as groups, plural};
+use crate::input::columns::{self as groups};
 use crate::input::table::{self, HeaderChoice};
 use crate::num::stats;
-use crate::resample::boot::{Design, SeMethod, Stat};
+use crate::resample::boot::{Design as Resampling, SeMethod, Stat};
 pub use crate::resample::k_groups::KStatistic;
 use crate::resample::k_groups::{labellings, KSetup};
 use crate::resample::tally::p_value;
@@ -26,10 +24,14 @@ use crate::resample::two_groups::Setup;
 use crate::resample::two_groups::{self as perm, Statistic};
 use crate::resample::{boot, driver, rng};
 
+/// The k-group design.
+pub struct KGroupsDesign;
+
+/// Three or more groups: where they are, the statistic, an optional control group and the
+/// settings.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct KGroupsRequest {
-    pub format_version: u32,
     /// The table exactly as pasted or read from the file.
     pub data: String,
     #[serde(default)]
@@ -46,7 +48,6 @@ pub struct KGroupsRequest {
 impl KGroupsRequest {
     pub fn new(data: String, layout: Layout, seed: u64) -> KGroupsRequest {
         KGroupsRequest {
-            format_version: FORMAT_VERSION,
             data,
             header: HeaderChoice::Detect,
             layout,
@@ -78,28 +79,36 @@ pub struct Comparison {
     pub welch_p: Option<f64>,
 }
 
+/// What the k-group analysis found.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct KGroupsReport {
-    pub format_version: u32,
-    pub engine_version: String,
-    pub design: String,
+    /// The layout actually used.
     pub layout: Layout,
+    /// What the values are.
     pub value_label: String,
+    /// The groups.
     pub groups: Vec<GroupSummary>,
+    /// What was left out.
     pub notes: Vec<Note>,
+    /// The omnibus statistic.
     pub statistic: KStatistic,
-    pub statistic_label: String,
     /// The omnibus test (upper tail: larger values mean more spread between groups).
     #[serde(flatten)]
     pub test: TestOutcome,
     /// The effect: eta squared (between-group share of the total sum of squares).
-    pub effect_label: String,
     #[serde(with = "float")]
     pub effect: f64,
+    /// Its headline bootstrap interval.
     pub ci: Interval,
+    /// The headline interval and any further methods.
+    pub intervals: Vec<Interval>,
+    /// Omega squared.
     pub omega_squared: Option<f64>,
+    /// Bootstrap resamples.
     pub bootstrap_resamples: u64,
+    /// Bootstrap standard error of eta squared.
     pub bootstrap_se: Option<f64>,
+    /// The bootstrap values of eta squared, binned.
     pub bootstrap_histogram: Histogram,
     /// One-way ANOVA (classical cross-check).
     pub anova: FTest,
@@ -107,14 +116,42 @@ pub struct KGroupsReport {
     pub welch_anova: FTest,
     /// Kruskal–Wallis test (classical cross-check).
     pub kruskal_wallis: ChiSquareTest,
+    /// The control group, when each group is compared with it.
     pub control: Option<String>,
-    /// What the follow-up comparisons measure, e.g. "difference in means".
-    pub pairwise_label: String,
+    /// The direction of the follow-up comparisons.
     pub alternative: Alternative,
+    /// How their two-sided p-values are defined.
     pub two_sided: TwoSidedRule,
+    /// The follow-up comparisons.
     pub pairwise: Vec<Comparison>,
-    pub finding: String,
-    pub cautions: Vec<String>,
+    /// What to keep in mind.
+    pub cautions: Vec<Caution>,
+}
+
+impl Design for KGroupsDesign {
+    const KEY: DesignKey = DesignKey::KGroups;
+    type Request = KGroupsRequest;
+    type Report = KGroupsReport;
+
+    fn check(req: &KGroupsRequest) -> Result<(), Error> {
+        req.settings.check("relabellings")
+    }
+
+    fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, Error> {
+        run(req, progress)
+    }
+
+    fn data(req: &KGroupsRequest) -> &str {
+        &req.data
+    }
+
+    fn clear_data(req: &mut KGroupsRequest) {
+        req.data.clear();
+    }
+
+    fn seed(req: &KGroupsRequest) -> u64 {
+        req.settings.seed
+    }
 }
 
 /// Eta squared of groups given as values with cell labels (the bootstrap's form).
@@ -158,20 +195,21 @@ fn effect_sizes(groups: &[Vec<f64>]) -> (f64, Option<f64>) {
     (eta, omega.filter(|v| v.is_finite()))
 }
 
-pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, RunError> {
+/// Runs a k-group request.
+pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, Error> {
+    KGroupsDesign::check(req)?;
     let st = &req.settings;
-    st.check(req.format_version, "relabellings")?;
     let t = table::parse(&req.data, req.header)?;
     let g = groups::k_groups(&t, &req.layout)?;
     let k = g.names.len();
     if k > u16::MAX as usize {
-        return Err(RunError::Input(format!(
+        return Err(Error::data(format!(
             "{k} groups are more than this analysis can take; compare fewer groups."
         )));
     }
     let control = match &req.control {
         Some(c) => Some(g.names.iter().position(|n| n == c).ok_or_else(|| {
-            RunError::Input(format!(
+            Error::data(format!(
                 "The control group \"{c}\" is not one of the groups ({}).",
                 g.names
                     .iter()
@@ -183,10 +221,9 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
         None => None,
     };
     if control.is_none() && st.alternative != Alternative::TwoSided {
-        return Err(RunError::Input(
+        return Err(Error::data(
             "One-sided follow-up comparisons need a control group (each group is then compared \
-             with it in the direction chosen). Choose a control group, or ask a two-sided question."
-                .into(),
+             with it in the direction chosen). Choose a control group, or ask a two-sided question.",
         ));
     }
     let mut notes = g.notes.clone();
@@ -199,7 +236,7 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
         exact_limit: st.exact_limit,
         resamples: st.resamples,
         seed: st.seed,
-        stage: "relabelling",
+        stage: Stage::Relabelling,
     }
     .run(
         progress,
@@ -238,7 +275,7 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
         cells.push((at..at + v.len()).collect());
         at += v.len();
     }
-    let cell_design = Design::Cells {
+    let cell_design = Resampling::Cells {
         x: &x,
         labels: &labels,
         cells: &cells,
@@ -257,13 +294,19 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
         progress,
     )?;
     // No standard error formula for eta squared: a studentized choice gives BCa here.
-    let eta_method = if st.interval == IntervalMethod::Studentized {
-        IntervalMethod::Bca
-    } else {
-        st.interval
-    };
+    let mut eta_methods: Vec<IntervalMethod> = Vec::new();
+    for m in st.methods() {
+        let m = if m == IntervalMethod::Studentized {
+            IntervalMethod::Bca
+        } else {
+            m
+        };
+        if !eta_methods.contains(&m) {
+            eta_methods.push(m);
+        }
+    }
     let eta_boot = super::summarise_bootstrap(
-        eta_method,
+        &eta_methods,
         st.confidence,
         eta,
         &bv[0],
@@ -291,10 +334,10 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
     for (idx, &(i, j)) in pairs.iter().enumerate() {
         let (a, b) = (&g.values[i], &g.values[j]);
         let seed = rng::sub_seed(st.seed, 1 + idx as u64);
-        let stage = format!("comparison {} of {total_pairs}", idx + 1);
-        let mut pr_req = Request::new(String::new(), seed);
-        pr_req.resamples = st.resamples;
-        pr_req.exact_limit = st.exact_limit;
+        let stage = Stage::Comparison {
+            index: idx + 1,
+            of: total_pairs,
+        };
         let setup2 = Setup::new(pair_st, a, b);
         let mut relabel_progress = |p: &Progress| {
             progress(&Progress {
@@ -304,9 +347,9 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
         };
         let null = perm::null_distribution(
             &setup2,
-            pr_req.exact_limit,
-            pr_req.resamples,
-            pr_req.seed,
+            st.exact_limit,
+            st.resamples,
+            seed,
             &mut relabel_progress,
         )?;
         let pr = p_value(&null.counts, null.exact, pair_alt, st.two_sided);
@@ -320,13 +363,13 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
         let welch_se = |a: &mut [f64], b: &mut [f64]| {
             (stats::variance(a) / a.len() as f64 + stats::variance(b) / b.len() as f64).sqrt()
         };
-        let studentize = st.interval == IntervalMethod::Studentized;
+        let studentize = st.interval() == IntervalMethod::Studentized;
         let se = match (studentize, effect_st) {
             (false, _) => SeMethod::None,
             (true, Statistic::MedianDifference) => SeMethod::Nested(boot::NESTED),
             (true, _) => SeMethod::Formula(&welch_se),
         };
-        let two = Design::Two { a, b };
+        let two = Resampling::Two { a, b };
         let (bv2, tv2) = boot::resample(
             &two,
             &[Stat {
@@ -344,7 +387,7 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
             SeMethod::None => f64::NAN,
         };
         let summary = super::summarise_bootstrap(
-            st.interval,
+            &[st.interval()],
             st.confidence,
             diff,
             &bv2[0],
@@ -356,7 +399,7 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
             first: g.names[i].clone(),
             second: g.names[j].clone(),
             difference: diff,
-            ci: summary.ci,
+            ci: summary.ci(),
             p_value: pr.p,
             exact: null.exact,
             resamples: null.counts.total,
@@ -376,25 +419,23 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
         c.bh = b;
     }
 
-    let mut report = KGroupsReport {
-        format_version: FORMAT_VERSION,
-        engine_version: ENGINE_VERSION.into(),
-        design: "k-groups".into(),
+    let groups: Vec<GroupSummary> = g
+        .names
+        .iter()
+        .zip(&g.values)
+        .map(|(n, v)| group_summary(n, v))
+        .collect();
+    let cautions = cautions(req.statistic, &groups);
+    Ok(KGroupsReport {
         layout: g.layout.clone(),
         value_label: g.value_label.clone(),
-        groups: g
-            .names
-            .iter()
-            .zip(&g.values)
-            .map(|(n, v)| group_summary(n, v))
-            .collect(),
+        groups,
         notes,
         statistic: req.statistic,
-        statistic_label: req.statistic.label().into(),
         test,
-        effect_label: "eta squared (share of the variation between groups)".into(),
         effect: eta,
-        ci: eta_boot.ci,
+        ci: eta_boot.ci(),
+        intervals: eta_boot.intervals,
         omega_squared: omega,
         bootstrap_resamples: st.bootstrap_resamples,
         bootstrap_se: eta_boot.se,
@@ -403,120 +444,28 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
         welch_anova: classical::welch_anova(&g.values),
         kruskal_wallis: classical::kruskal_wallis(&g.values),
         control: control.map(|c| g.names[c].clone()),
-        pairwise_label: pair_st.effect().label().into(),
         alternative: pair_alt,
         two_sided: st.two_sided,
         pairwise,
-        finding: String::new(),
-        cautions: Vec::new(),
-    };
-    report.finding = finding(&report);
-    report.cautions = cautions(&report);
-    Ok(report)
+        cautions,
+    })
 }
 
-/// The plain-language finding.
-pub fn finding(r: &KGroupsReport) -> String {
-    let n: usize = r.groups.iter().map(|g| g.n).sum();
-    let what = match r.statistic {
-        KStatistic::MedianSpread => "group medians",
-        _ => "group means",
-    };
-    let how = if r.test.exact {
-        format!("all {} possible relabellings", fmt::count(r.test.resamples))
-    } else {
-        format!("{} random relabellings", fmt::count(r.test.resamples))
-    };
-    let share = r.test.extreme_count as f64 / r.test.resamples.max(1) as f64;
-    let mut s = format!(
-        "Across {} groups ({} values), the {what} were spread apart at least as much as \
-         observed in {} of {how} ({}, {})",
-        r.groups.len(),
-        n,
-        fmt::percent_share(share),
-        fmt::p_value(r.test.p_value),
-        match r.statistic {
-            KStatistic::MedianSpread => format!("median spread {}", fmt::sig(r.test.observed)),
-            KStatistic::F => format!("F = {}", fmt::fixed(r.test.observed, 2)),
-            KStatistic::WelchF => format!("Welch F = {}", fmt::fixed(r.test.observed, 2)),
-        }
-    );
-    s.push_str(if r.test.p_value < 0.05 {
-        ": so differences this large would be unusual if all groups were alike."
-    } else {
-        ": differences this large arise often when all groups are alike."
-    });
-    s.push_str(&format!(
-        " The groups account for {} of the variation (eta squared",
-        fmt::percent_share(r.effect)
-    ));
-    if let (Some(l), Some(h)) = (r.ci.low, r.ci.high) {
-        s.push_str(&format!(", {}", fmt::ci(r.ci.level, l, h, 2)));
-    }
-    s.push_str(").");
-    if !r.pairwise.is_empty() {
-        let below: Vec<String> = r
-            .pairwise
-            .iter()
-            .filter(|c| c.holm < 0.05)
-            .map(|c| format!("{} vs {}", c.first, c.second))
-            .collect();
-        s.push_str(&format!(
-            " {} of {} follow-up comparison{} {} below .05 after Holm's adjustment{}",
-            below.len(),
-            r.pairwise.len(),
-            plural(r.pairwise.len()),
-            if below.len() == 1 { "stays" } else { "stay" },
-            if below.is_empty() {
-                ".".to_string()
-            } else {
-                format!(" ({}).", below.join("; "))
-            }
-        ));
-    }
-    s
-}
-
-fn cautions(r: &KGroupsReport) -> Vec<String> {
-    let mut c = vec![
-        "What the test assumes: if the groups did not differ, every relabelling of the values \
-         across the groups would have been as likely as the one observed (exchangeability, as \
-         under random assignment), and the observations are independent of each other."
-            .to_string(),
-        "The omnibus test says whether the groups differ somewhere, not where; the follow-up \
-         comparisons say where. Holm's adjustment keeps the chance of any false positive among \
-         them at 5% (family-wise error); Benjamini–Hochberg keeps the expected share of false \
-         positives among the comparisons called significant at 5% (false discovery rate), and \
-         finds more when many comparisons are made. Decide which comparisons you planned \
-         before looking at the data: picking comparisons after seeing the results needs \
-         adjustment over every comparison you could have made."
-            .to_string(),
-    ];
-    let smallest = r.groups.iter().map(|g| g.n).min().unwrap_or(0);
+/// Which cautions apply.
+fn cautions(statistic: KStatistic, groups: &[GroupSummary]) -> Vec<Caution> {
+    let mut c = vec![Caution::Assumptions, Caution::FollowUps];
+    let smallest = groups.iter().map(|g| g.n).min().unwrap_or(0);
     if smallest < 10 {
-        c.push(format!(
-            "Small groups: the smallest has {smallest} values. A permutation test then has \
-             little power, and bootstrap intervals tend to be too narrow (Hesterberg 2015)."
-        ));
+        c.push(Caution::SmallSample { smallest });
     }
-    let sds: Vec<f64> = r.groups.iter().map(|g| g.sd).collect();
-    let (lo, hi) = sds
-        .iter()
-        .fold((f64::INFINITY, 0.0f64), |(l, h), s| (l.min(*s), h.max(*s)));
-    let sizes_differ = r.groups.iter().any(|g| g.n != r.groups[0].n);
-    if r.statistic == KStatistic::F && lo > 0.0 && hi / lo > 2.0 && sizes_differ {
-        c.push(format!(
-            "The spreads differ (largest SD {} times the smallest) and the groups have \
-             different sizes: relabelling the F statistic then also reacts to the unequal \
-             spread. The Welch F statistic is the safer choice here.",
-            fmt::sig(hi / lo)
-        ));
+    let (lo, hi) = groups.iter().fold((f64::INFINITY, 0.0f64), |(l, h), g| {
+        (l.min(g.sd), h.max(g.sd))
+    });
+    let sizes_differ = groups.iter().any(|g| g.n != groups[0].n);
+    if statistic == KStatistic::F && lo > 0.0 && hi / lo > 2.0 && sizes_differ {
+        c.push(Caution::UnequalSpreads { ratio: hi / lo });
     }
-    c.push(
-        "Eta squared from a sample overstates the share of variation in the population, most \
-         for small groups; omega squared corrects for this."
-            .to_string(),
-    );
+    c.push(Caution::EtaOverstates);
     super::closing_cautions(&mut c);
     c
 }
@@ -587,7 +536,6 @@ mod tests {
             ex.test.p_value
         );
         assert_eq!(mc, run(&r, &mut |_| true).unwrap());
-        assert!(!mc.finding.contains("NaN"), "{}", mc.finding);
     }
 
     #[test]
@@ -623,7 +571,6 @@ mod tests {
             let rep = run(&r, &mut |_| true).unwrap();
             assert_eq!(rep.test.p_value, 1.0, "{st:?}");
             assert!(rep.anova.f.is_none());
-            assert!(!rep.finding.contains("NaN"), "{}", rep.finding);
         }
     }
 }

@@ -1,17 +1,21 @@
-//! The designs: one module per design, each with its request, its validation, its run and
-//! its report. This module holds what they share: the settings block of a permutation test,
-//! the outcome of a test (p-value, Monte Carlo error, the null histogram and the tail counted
-//! toward p), the summary of a bootstrap run, group summaries and the common checks.
+//! The designs: one module per design, each implementing one contract ([`Design`]): its
+//! request, its validation before any work starts, its run and its report. This module holds
+//! the contract, the registry of design keys, and what the designs share: the settings block
+//! of a permutation test, the outcome of a test (p-value, Monte Carlo error, the null
+//! histogram and the tail counted toward p), the summary of a bootstrap run, group summaries,
+//! and the cautions as typed codes.
 
 pub mod association;
 pub mod estimate;
 pub mod k_groups;
+pub mod one_sample;
 pub mod paired;
 pub mod plan;
 pub mod stratified;
 pub mod two_groups;
 pub mod yes_no;
 
+use serde::de::DeserializeOwned;
 use serde::{Deserialize, Serialize};
 
 use crate::base::format as fmt;
@@ -22,46 +26,155 @@ use crate::resample::rng::RNG_NAME;
 use crate::resample::summary::{histogram, tail_region};
 use crate::resample::tally::{p_value, Counts};
 
-/// Upper limits that keep a run inside a browser tab's memory.
+/// What every design provides. Each design is a unit struct implementing this; the wire
+/// layer registers it (one line), the renderer words its report (one module of the same
+/// name), and the page gives it a form.
+pub trait Design {
+    /// The design's key in requests, reports, links and the command.
+    const KEY: DesignKey;
+    /// What the user asks: the data, the columns and the choices.
+    type Request: Clone + std::fmt::Debug + PartialEq + Serialize + DeserializeOwned;
+    /// What the run finds: numbers and typed codes, no words.
+    type Report: Clone + std::fmt::Debug + PartialEq + Serialize + DeserializeOwned;
+    /// Checks the request before any work starts: every setting in range, the work bounded.
+    fn check(request: &Self::Request) -> Result<(), Error>;
+    /// Runs the request (after [`Design::check`]), reporting progress; false from the
+    /// callback stops it.
+    fn run(request: &Self::Request, progress: ProgressFn) -> Result<Self::Report, Error>;
+    /// The pasted table the request reads ("" when it reads none).
+    fn data(request: &Self::Request) -> &str;
+    /// Removes the data (and typed counts), keeping the settings: for a settings-only link.
+    fn clear_data(request: &mut Self::Request);
+    /// Whether the request carries what it analyses (a settings-only link does not).
+    fn has_data(request: &Self::Request) -> bool {
+        !Self::data(request).trim().is_empty()
+    }
+    /// The seed of the request's random streams.
+    fn seed(request: &Self::Request) -> u64;
+}
+
+/// The designs, as requests, reports, links and the command name them.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum DesignKey {
+    /// Two independent groups.
+    TwoGroups,
+    /// Paired measurements: each unit measured twice.
+    Paired,
+    /// One sample against a reference value.
+    OneSample,
+    /// An association between two numeric columns.
+    Association,
+    /// Three or more independent groups.
+    KGroups,
+    /// Two groups compared within strata.
+    Stratified,
+    /// Yes/no outcomes in two groups.
+    YesNo,
+    /// Bootstrap intervals for an estimate, without a test.
+    Estimate,
+    /// Planning a study: power and sample size by simulation.
+    Plan,
+}
+
+impl DesignKey {
+    /// Every design, in the order the page offers them.
+    pub const ALL: [DesignKey; 9] = [
+        DesignKey::TwoGroups,
+        DesignKey::Paired,
+        DesignKey::OneSample,
+        DesignKey::Association,
+        DesignKey::KGroups,
+        DesignKey::Stratified,
+        DesignKey::YesNo,
+        DesignKey::Estimate,
+        DesignKey::Plan,
+    ];
+
+    /// The key as written in requests and on the command line.
+    pub fn key(self) -> &'static str {
+        match self {
+            DesignKey::TwoGroups => "two-groups",
+            DesignKey::Paired => "paired",
+            DesignKey::OneSample => "one-sample",
+            DesignKey::Association => "association",
+            DesignKey::KGroups => "k-groups",
+            DesignKey::Stratified => "stratified",
+            DesignKey::YesNo => "yes-no",
+            DesignKey::Estimate => "estimate",
+            DesignKey::Plan => "plan",
+        }
+    }
+
+    /// The design with this key.
+    pub fn from_key(s: &str) -> Option<DesignKey> {
+        DesignKey::ALL.into_iter().find(|d| d.key() == s)
+    }
+}
+
+/// Upper limit of random relabellings, keeping a run inside a browser tab's memory.
 pub const MAX_RESAMPLES: u64 = 10_000_000;
+/// Upper limit of the exact-enumeration threshold.
 pub const MAX_EXACT_LIMIT: u64 = 10_000_000;
+/// Upper limit of bootstrap resamples.
 pub const MAX_BOOTSTRAP: u64 = 1_000_000;
 
+/// Size, centre and spread of one group.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct GroupSummary {
+    /// The group's name (its label, or its column).
     pub name: String,
+    /// Number of values.
     pub n: usize,
+    /// Mean.
     pub mean: f64,
+    /// Median.
     pub median: f64,
+    /// Standard deviation (n − 1).
     pub sd: f64,
+    /// 20% trimmed mean.
     pub trimmed_mean: f64,
+    /// Smallest value.
     pub min: f64,
+    /// Largest value.
     pub max: f64,
 }
 
+/// A standardized effect size with its bootstrap interval (None when undefined).
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct EffectSize {
-    pub name: String,
+    /// The estimate, if defined.
     pub estimate: Option<f64>,
+    /// Its bootstrap interval.
     pub ci: Interval,
 }
 
-/// Settings of a permutation test with a bootstrap interval.
+/// Settings of a permutation test with a bootstrap interval, shared by every test design.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct TestSettings {
+    /// The direction of the test.
     pub alternative: Alternative,
+    /// How a two-sided p-value is defined.
     #[serde(default)]
     pub two_sided: TwoSidedRule,
     /// Random relabellings when enumeration is not feasible.
     pub resamples: u64,
     /// Enumerate every relabelling when there are at most this many.
     pub exact_limit: u64,
+    /// Bootstrap resamples.
     pub bootstrap_resamples: u64,
+    /// The confidence level of the intervals.
     pub confidence: f64,
-    /// The method of the reported intervals.
-    pub interval: IntervalMethod,
+    /// Interval methods of the effect: the first is the headline, the others are reported
+    /// beside it.
+    pub intervals: Vec<IntervalMethod>,
+    /// The seed of every random stream of the run.
     pub seed: u64,
+    /// Return every relabelled and bootstrap statistic (for a CSV download); up to
+    /// [`crate::resample::driver::MAX_KEPT`] of each.
+    #[serde(default)]
+    pub keep_resamples: bool,
 }
 
 impl TestSettings {
@@ -74,37 +187,157 @@ impl TestSettings {
             exact_limit: 1_000_000,
             bootstrap_resamples: 10_000,
             confidence: 0.95,
-            interval: IntervalMethod::Bca,
+            intervals: vec![IntervalMethod::Bca],
             seed,
+            keep_resamples: false,
         }
     }
 
-    /// Checks the format version and the numbers; `unit` names a random resample.
-    pub fn check(&self, version: u32, unit: &str) -> Result<(), RunError> {
-        check_common(
-            version,
-            self.confidence,
-            self.resamples,
-            self.bootstrap_resamples,
-            unit,
-        )?;
+    /// The headline interval method.
+    pub fn interval(&self) -> IntervalMethod {
+        self.intervals
+            .first()
+            .copied()
+            .unwrap_or(IntervalMethod::Bca)
+    }
+
+    /// Checks the numbers; `unit` names a random resample ("relabellings").
+    pub fn check(&self, unit: &str) -> Result<(), Error> {
+        check_confidence(self.confidence)?;
+        if !(99..=MAX_RESAMPLES).contains(&self.resamples)
+            || !(200..=MAX_BOOTSTRAP).contains(&self.bootstrap_resamples)
+        {
+            return Err(Error::settings(format!(
+                "Use 99 to {} random {unit} and 200 to {} bootstrap resamples.",
+                fmt::count(MAX_RESAMPLES),
+                fmt::count(MAX_BOOTSTRAP)
+            )));
+        }
         if self.exact_limit > MAX_EXACT_LIMIT {
-            return Err(RunError::Input(format!(
+            return Err(Error::settings(format!(
                 "The limit for exact enumeration can be at most {} (it is {}).",
                 fmt::count(MAX_EXACT_LIMIT),
                 fmt::count(self.exact_limit)
             )));
         }
+        if self.intervals.is_empty() {
+            return Err(Error::settings(
+                "Choose at least one interval method (for example BCa).",
+            ));
+        }
         Ok(())
+    }
+
+    /// The interval methods without repeats, headline first.
+    pub fn methods(&self) -> Vec<IntervalMethod> {
+        let mut out: Vec<IntervalMethod> = Vec::new();
+        for m in &self.intervals {
+            if !out.contains(m) {
+                out.push(*m);
+            }
+        }
+        if out.is_empty() {
+            out.push(IntervalMethod::Bca);
+        }
+        out
     }
 }
 
-/// The outcome of a permutation test, as every design reports it.
+/// The confidence level must be in (0.5, 0.9999].
+pub fn check_confidence(confidence: f64) -> Result<(), Error> {
+    if !(confidence > 0.5 && confidence <= 0.9999) {
+        return Err(Error::settings(format!(
+            "The confidence level must be between 0.5 and 0.9999, for example 0.95 (it is \
+             {confidence})."
+        )));
+    }
+    Ok(())
+}
+
+/// A caution that comes with a report, as a typed code; `render::words` words it.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "code", rename_all = "kebab-case")]
+pub enum Caution {
+    /// What the test assumes (worded for the design).
+    Assumptions,
+    /// A small sample: little power, intervals too narrow.
+    SmallSample {
+        /// The size of the smallest group (or the number of pairs).
+        smallest: usize,
+    },
+    /// Unequal spreads with unequal group sizes: the relabelling test of a mean reacts to
+    /// the spread; Welch's statistic is safer.
+    UnequalSpreads {
+        /// Largest SD over smallest.
+        ratio: f64,
+    },
+    /// Correlation is not causation.
+    NotCausation,
+    /// The omnibus test says whether, the follow-ups say where; Holm against BH.
+    FollowUps,
+    /// Eta squared overstates the population share.
+    EtaOverstates,
+    /// Why the strata matter (Simpson's paradox).
+    StrataMatter,
+    /// The weighting of the stratum differences.
+    StrataWeighting {
+        /// The weights used.
+        weights: stratified::StrataWeights,
+    },
+    /// Strata with few values in a group.
+    SmallStrata {
+        /// The fewest values of a group in a stratum.
+        smallest: usize,
+    },
+    /// A small expected count makes the chi-square p-value unreliable.
+    SmallExpected {
+        /// The smallest expected count.
+        smallest: f64,
+    },
+    /// Small groups for proportions.
+    SmallGroupsForProportions {
+        /// The smaller group's size.
+        smallest: u64,
+    },
+    /// Difference, risk ratio and odds ratio answer different questions.
+    MeasuresDiffer,
+    /// Several intervals read together do not all hold at once.
+    SimultaneousIntervals,
+    /// A p-value is not the size of an effect.
+    PValueNotEffect,
+    /// Several tests on the same data need adjustment.
+    Multiplicity,
+    /// Clinical, safety or regulatory decisions need a statistician.
+    Decisions,
+    /// Planning: a pilot's values are noisy guesses.
+    PilotIsNoisy,
+    /// Planning: the plan rests on the assumed effect and spread.
+    AssumedEffect,
+    /// Planning: the study must be run as planned.
+    RunAsPlanned,
+    /// Planning: several primary outcomes lower the power of each.
+    PlanMultiplicity,
+    /// Planning: sample sizes of regulated studies need a statistician.
+    PlanDecisions,
+}
+
+/// The cautions that close every test design's list.
+pub fn closing_cautions(c: &mut Vec<Caution>) {
+    c.push(Caution::PValueNotEffect);
+    c.push(Caution::Multiplicity);
+    c.push(Caution::Decisions);
+}
+
+/// The outcome of a permutation test, as every test design reports it (flattened into the
+/// report, so `observed`, `p_value`, `exact`, … are top-level fields).
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct TestOutcome {
+    /// The observed statistic.
     #[serde(with = "float")]
     pub observed: f64,
+    /// The p-value.
     pub p_value: f64,
+    /// Whether every relabelling was enumerated.
     pub exact: bool,
     /// Relabellings drawn (Monte Carlo) or enumerated (exact).
     pub resamples: u64,
@@ -114,8 +347,11 @@ pub struct TestOutcome {
     pub mc_se: Option<f64>,
     /// 99% Clopper–Pearson interval for the p-value unlimited relabellings would give.
     pub p_interval: Option<PInterval>,
+    /// The seed.
     pub seed: u64,
+    /// The generator.
     pub rng: String,
+    /// The relabelled statistics, binned.
     pub null_histogram: Histogram,
     /// The part of the null distribution counted toward the p-value.
     pub tail: Tail,
@@ -151,45 +387,33 @@ impl TestOutcome {
             tail,
         }
     }
-
-    /// How the p-value was found, in a few words: "exact, all 34,650 relabellings" or
-    /// "Monte Carlo, 100,000 random relabellings, standard error 0.0012".
-    pub fn how(&self, unit: &str) -> String {
-        if self.exact {
-            format!("exact, all {} {unit}", fmt::count(self.resamples))
-        } else {
-            let pi = self
-                .p_interval
-                .as_ref()
-                .map(|p| format!("; 99% interval {:.4} to {:.4}", p.low, p.high))
-                .unwrap_or_default();
-            format!(
-                "Monte Carlo, {} random {unit}, p = (b + 1)/(m + 1), standard error {:.4}{pi}",
-                fmt::count(self.resamples),
-                self.mc_se.unwrap_or(0.0)
-            )
-        }
-    }
-
-    /// "p = .012 (exact, …)" for reports.
-    pub fn p_line(&self, unit: &str) -> String {
-        format!("{} ({})", fmt::p_value(self.p_value), self.how(unit))
-    }
 }
 
 /// The summary of a bootstrap run for one estimate.
 pub struct BootSummary {
-    pub ci: Interval,
+    /// One interval per method asked for, the headline first.
+    pub intervals: Vec<Interval>,
+    /// Bootstrap standard error.
     pub se: Option<f64>,
+    /// Mean of the bootstrap values minus the estimate.
     pub bias: Option<f64>,
+    /// The bootstrap values, binned.
     pub histogram: Histogram,
 }
 
-/// Interval, standard error, bias and histogram from the bootstrap values of an estimate.
-/// Non-finite values are left out (and counted in the interval's note). `t` holds the
-/// studentized values and the standard error of the estimate, when the method needs them.
+impl BootSummary {
+    /// The headline interval.
+    pub fn ci(&self) -> Interval {
+        self.intervals[0].clone()
+    }
+}
+
+/// Intervals (one per method, the headline first), standard error, bias and histogram from
+/// the bootstrap values of an estimate. Non-finite values are left out (and counted in each
+/// interval's notes). `t` holds the studentized values and the standard error of the
+/// estimate, when a method needs them. The acceleration is computed at most once.
 pub fn summarise_bootstrap(
-    method: IntervalMethod,
+    methods: &[IntervalMethod],
     level: f64,
     estimate: f64,
     values: &[f64],
@@ -206,83 +430,47 @@ pub fn summarise_bootstrap(
         t: t_finite.as_ref().map(|(tv, se)| (&tv[..], *se)),
         bounds,
     };
-    let mut ci = if estimate.is_finite() {
-        boot::interval_by(method, level, Side::TwoSided, &summary, accel)
-    } else {
-        Interval::none(
-            method.into(),
-            level,
-            Side::TwoSided,
-            Note::EstimateNotFinite,
-        )
-    };
+    let mut cached: Option<(Option<f64>, bool)> = None;
+    let mut once = || *cached.get_or_insert_with(&mut *accel);
     let dropped = values.len() - finite.len();
-    if dropped > 0 {
-        let extra = Note::UndefinedResamples {
-            count: dropped as u64,
-            total: values.len() as u64,
-        };
-        ci.notes.push(extra);
-    }
+    let intervals: Vec<Interval> = methods
+        .iter()
+        .map(|&method| {
+            let mut ci = if estimate.is_finite() {
+                boot::interval_by(method, level, Side::TwoSided, &summary, &mut once)
+            } else {
+                Interval::none(
+                    method.into(),
+                    level,
+                    Side::TwoSided,
+                    Note::EstimateNotFinite,
+                )
+            };
+            if dropped > 0 {
+                ci.notes.push(Note::UndefinedResamples {
+                    count: dropped as u64,
+                    total: values.len() as u64,
+                });
+            }
+            ci
+        })
+        .collect();
     let mut marks = vec![estimate];
-    marks.extend(ci.low);
-    marks.extend(ci.high);
+    marks.extend(intervals[0].low);
+    marks.extend(intervals[0].high);
     BootSummary {
         se: boot::standard_error(&finite),
         bias: (!finite.is_empty() && estimate.is_finite()).then(|| stats::mean(&finite) - estimate),
         histogram: histogram(&finite, &marks, 48),
-        ci,
+        intervals,
     }
 }
 
 /// The common note on BCa with few resamples.
 pub fn few_resamples_note(settings: &TestSettings, notes: &mut Vec<Note>) {
-    if settings.bootstrap_resamples < 2000 && settings.interval == IntervalMethod::Bca {
+    if settings.bootstrap_resamples < 2000 && settings.interval() == IntervalMethod::Bca {
         notes.push(Note::FewResamplesForBca);
     }
-}
-
-/// The closing cautions every design shares.
-pub fn closing_cautions(c: &mut Vec<String>) {
-    c.push(
-        "A p-value says how unusual the observed result would be if there were no effect; it \
-         is not the size or the importance of the effect. Read it together with the interval."
-            .into(),
-    );
-    c.push(
-        "Clinical, safety or regulatory decisions need a qualified statistician and the \
-         guidelines that apply to them; this result alone is not enough."
-            .into(),
-    );
-}
-
-/// Settings every permutation design checks: format version, confidence level, and the
-/// numbers of random resamples (called `unit`, e.g. "sign patterns") and bootstrap resamples.
-pub fn check_common(
-    version: u32,
-    confidence: f64,
-    resamples: u64,
-    bootstrap: u64,
-    unit: &str,
-) -> Result<(), RunError> {
-    if version != FORMAT_VERSION {
-        return Err(RunError::Input(format!(
-            "Format version {version} cannot be read by this version (reads {FORMAT_VERSION})."
-        )));
-    }
-    if !(confidence > 0.5 && confidence <= 0.9999) {
-        return Err(RunError::Input(format!(
-            "The confidence level must be between 0.5 and 0.9999 (it is {confidence})."
-        )));
-    }
-    if !(99..=MAX_RESAMPLES).contains(&resamples) || !(200..=MAX_BOOTSTRAP).contains(&bootstrap) {
-        return Err(RunError::Input(format!(
-            "Use 99 to {} random {unit} and 200 to {} bootstrap resamples.",
-            fmt::count(MAX_RESAMPLES),
-            fmt::count(MAX_BOOTSTRAP)
-        )));
-    }
-    Ok(())
 }
 
 /// Size, centre and spread of one group (at least one value).

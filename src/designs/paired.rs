@@ -1,132 +1,205 @@
-//! Paired (before–after) and one-sample designs: a sign-flip permutation test of the
-//! differences (or of the values minus a reference), a bootstrap interval for the mean or
-//! median difference, d_z with its interval, and the paired (or one-sample) t-test and the
-//! Wilcoxon signed-rank test as classical cross-checks.
+//! Paired measurements (each unit measured twice): a sign-flip permutation test of the
+//! differences, a bootstrap interval for their mean or median, d_z with its interval, and
+//! the paired t-test and the Wilcoxon signed-rank test as classical cross-checks. The
+//! one-sample design (module `one_sample`) runs the same analysis on values minus a
+//! reference value.
 
 use serde::{Deserialize, Serialize};
 
-use super::EffectSize;
-use crate::base::format as fmt;
+use super::{closing_cautions, Caution, Design, DesignKey, EffectSize, TestOutcome, TestSettings};
 use crate::base::*;
 use crate::classical::ranks::{signed_rank, SignedRank};
 use crate::classical::{t_test, TTest};
 use crate::input::columns::plural;
 use crate::input::table::{self, HeaderChoice};
 use crate::num::stats;
-use crate::resample::boot::{Design, SeMethod, Stat};
-use crate::resample::rng::RNG_NAME;
+use crate::resample::boot::{self, Design as Resampling, SeMethod, Stat};
 use crate::resample::signs::FlipSetup;
 pub use crate::resample::signs::FlipStatistic;
-use crate::resample::summary::{histogram, tail_region};
-use crate::resample::tally::p_value;
-use crate::resample::{boot, driver, rng};
+use crate::resample::summary::histogram;
+use crate::resample::{driver, rng};
 
+/// The paired design.
+pub struct PairedDesign;
+
+/// Where the two measurements of each unit are.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(tag = "kind", rename_all = "kebab-case")]
 pub enum PairedLayout {
-    /// Two columns measured on the same units; the difference is first − second.
-    Paired { first: String, second: String },
-    /// One column compared with a reference value; the difference is value − reference.
-    OneSample { value: String, reference: f64 },
+    /// Two columns measured on the same units (one row per unit); the difference is
+    /// first − second.
+    Columns {
+        /// The first measurement's column.
+        first: String,
+        /// The second measurement's column.
+        second: String,
+    },
     /// Long format: a value column, a column naming the measurement (e.g. before/after) and
     /// a column naming the unit; the difference is the `first` measurement minus the
     /// `second` of each unit.
     Long {
+        /// The values.
         value: String,
+        /// The column naming each row's measurement.
         group: String,
+        /// The column naming each row's unit.
         unit: String,
+        /// The measurement that comes first (empty: the first of two, in order).
         first: String,
+        /// The measurement that comes second.
         second: String,
     },
 }
 
+/// Paired measurements: the layout, the statistic of the differences and the settings.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct PairedRequest {
-    pub format_version: u32,
+    /// The table as pasted.
     pub data: String,
+    /// Whether the first row holds column names.
     #[serde(default)]
     pub header: HeaderChoice,
+    /// Where the measurements are.
     pub layout: PairedLayout,
+    /// Mean or median of the differences.
     pub statistic: FlipStatistic,
-    pub alternative: Alternative,
-    #[serde(default)]
-    pub two_sided: TwoSidedRule,
-    pub resamples: u64,
-    /// Enumerate all 2^n sign patterns when there are at most this many.
-    pub exact_limit: u64,
-    pub bootstrap_resamples: u64,
-    pub confidence: f64,
-    pub interval: IntervalMethod,
-    pub seed: u64,
+    /// The test and interval settings (enumerate all 2^n sign patterns up to the limit).
+    pub settings: TestSettings,
 }
 
 impl PairedRequest {
+    /// The defaults the page and the command start from.
     pub fn new(data: String, layout: PairedLayout, seed: u64) -> PairedRequest {
         PairedRequest {
-            format_version: FORMAT_VERSION,
             data,
             header: HeaderChoice::Detect,
             layout,
             statistic: FlipStatistic::Mean,
-            alternative: Alternative::TwoSided,
-            two_sided: TwoSidedRule::Absolute,
-            resamples: 100_000,
-            exact_limit: 1 << 20,
-            bootstrap_resamples: 10_000,
-            confidence: 0.95,
-            interval: IntervalMethod::Bca,
-            seed,
+            settings: sign_flip_settings(seed),
         }
     }
 }
 
+/// The settings a sign-flip design starts from: every sign pattern enumerated up to 2^20.
+pub fn sign_flip_settings(seed: u64) -> TestSettings {
+    TestSettings {
+        exact_limit: 1 << 20,
+        ..TestSettings::new(seed)
+    }
+}
+
+/// What the differences are.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
-pub struct PairedReport {
-    pub format_version: u32,
-    pub engine_version: String,
-    pub design: String,
-    /// What the differences are, e.g. "after − before" or "yield − 4".
-    pub difference_label: String,
+#[serde(tag = "kind", rename_all = "kebab-case")]
+pub enum Differences {
+    /// The first measurement minus the second, unit by unit.
+    Pairs {
+        /// The first measurement.
+        first: String,
+        /// The second measurement.
+        second: String,
+    },
+    /// Each value minus a reference value.
+    Reference {
+        /// The values' column.
+        value: String,
+        /// The reference value.
+        reference: f64,
+    },
+}
+
+/// What a sign-flip analysis (paired or one sample) found.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct SignFlipReport {
+    /// What the differences are.
+    pub differences: Differences,
+    /// Number of differences.
     pub n: usize,
+    /// What was left out.
     pub notes: Vec<Note>,
+    /// Mean or median of the differences.
     pub statistic: FlipStatistic,
+    /// The direction of the test.
     pub alternative: Alternative,
+    /// How the two-sided p-value is defined.
     pub two_sided: TwoSidedRule,
-    pub observed: f64,
-    pub p_value: f64,
-    pub exact: bool,
-    pub resamples: u64,
-    pub extreme_count: u64,
-    pub mc_se: Option<f64>,
-    pub p_interval: Option<PInterval>,
-    pub seed: u64,
-    pub rng: String,
-    pub effect_label: String,
+    /// The sign-flip test.
+    #[serde(flatten)]
+    pub test: TestOutcome,
+    /// The headline interval of the mean (or median) difference.
     pub ci: Interval,
+    /// The headline interval and any further methods, side by side.
+    pub intervals: Vec<Interval>,
+    /// Bootstrap resamples.
     pub bootstrap_resamples: u64,
+    /// Bootstrap standard error.
     pub bootstrap_se: Option<f64>,
-    /// Paired or one-sample t-test.
+    /// Mean of the bootstrap values minus the estimate.
+    pub bootstrap_bias: Option<f64>,
+    /// The bootstrap values, binned.
+    pub bootstrap_histogram: Histogram,
+    /// The paired (or one-sample) t-test.
     pub t_test: TTest,
+    /// The Wilcoxon signed-rank test.
     pub wilcoxon: SignedRank,
     /// Mean difference over the SD of the differences, with a bootstrap interval.
     pub dz: EffectSize,
-    pub null_histogram: Histogram,
-    pub tail: Tail,
-    pub bootstrap_histogram: Histogram,
-    pub finding: String,
-    pub cautions: Vec<String>,
+    /// What to keep in mind.
+    pub cautions: Vec<Caution>,
 }
 
+impl Design for PairedDesign {
+    const KEY: DesignKey = DesignKey::Paired;
+    type Request = PairedRequest;
+    type Report = SignFlipReport;
+
+    fn check(req: &PairedRequest) -> Result<(), Error> {
+        req.settings.check("sign patterns")
+    }
+
+    fn run(req: &PairedRequest, progress: ProgressFn) -> Result<SignFlipReport, Error> {
+        Self::check(req)?;
+        let mut notes = Vec::new();
+        let (d, first, second) = differences(req, &mut notes)?;
+        sign_flip(
+            &d,
+            Differences::Pairs { first, second },
+            notes,
+            req.statistic,
+            &req.settings,
+            progress,
+        )
+    }
+
+    fn data(req: &PairedRequest) -> &str {
+        &req.data
+    }
+
+    fn clear_data(req: &mut PairedRequest) {
+        req.data.clear();
+    }
+
+    fn seed(req: &PairedRequest) -> u64 {
+        req.settings.seed
+    }
+}
+
+/// Runs a paired request.
+pub fn run(req: &PairedRequest, progress: ProgressFn) -> Result<SignFlipReport, Error> {
+    PairedDesign::run(req, progress)
+}
+
+/// The differences first − second of each unit, and the names of the two measurements.
 fn differences(
     req: &PairedRequest,
     notes: &mut Vec<Note>,
-) -> Result<(Vec<f64>, String, String), RunError> {
+) -> Result<(Vec<f64>, String, String), Error> {
     let t = table::parse(&req.data, req.header)?;
     match &req.layout {
-        PairedLayout::Paired { first, second } => {
+        PairedLayout::Columns { first, second } => {
             if first == second {
-                return Err(RunError::Input(format!(
+                return Err(Error::data(format!(
                     "The same column (\"{first}\") was chosen twice."
                 )));
             }
@@ -165,13 +238,13 @@ fn differences(
             }
             if na.values.len() != nb.values.len() && incomplete == 0 {
                 // Unreachable in practice (rows align), kept for a clear message.
-                return Err(RunError::Input(format!(
+                return Err(Error::data(format!(
                     "Column \"{first}\" has {} values and \"{second}\" has {}; paired data need one of each per row.",
                     na.values.len(),
                     nb.values.len()
                 )));
             }
-            Ok((d, format!("{first} − {second}"), "paired".into()))
+            Ok((d, first.clone(), second.clone()))
         }
         PairedLayout::Long {
             value,
@@ -181,7 +254,7 @@ fn differences(
             second,
         } => {
             if unit == value || unit == group {
-                return Err(RunError::Input(format!(
+                return Err(Error::data(format!(
                     "The column \"{unit}\" was chosen both for the units and for the {}; \
                      choose the column that names each unit (plant, patient, machine).",
                     if unit == value {
@@ -196,7 +269,7 @@ fn differences(
             let (first, second) = match (first.is_empty() && second.is_empty(), &lab.levels[..]) {
                 (true, [a, b]) => (a, b),
                 (true, _) => {
-                    return Err(RunError::Input(format!(
+                    return Err(Error::data(format!(
                         "Column \"{group}\" holds {} measurements; say which two to compare \
                          (first minus second).",
                         lab.levels.len()
@@ -205,13 +278,13 @@ fn differences(
                 (false, _) => (first, second),
             };
             if first == second {
-                return Err(RunError::Input(format!(
+                return Err(Error::data(format!(
                     "\"{first}\" was chosen as both measurements; choose two different ones."
                 )));
             }
             let level = |name: &str| {
                 lab.levels.iter().position(|l| l == name).ok_or_else(|| {
-                    RunError::Input(format!(
+                    Error::data(format!(
                         "There is no measurement \"{name}\" in column \"{group}\"; it holds {}.",
                         lab.levels
                             .iter()
@@ -250,7 +323,7 @@ fn differences(
                     &mut units[i].2
                 };
                 if let Some((_, line)) = slot {
-                    return Err(RunError::Input(format!(
+                    return Err(Error::data(format!(
                         "Unit \"{id}\" has two \"{}\" measurements (lines {line} and {}); each \
                          unit needs one of each. Correct the unit column or remove the repeat.",
                         lab.levels[l], cell.line
@@ -275,80 +348,73 @@ fn differences(
             if incomplete > 0 {
                 notes.push(Note::IncompleteUnits { count: incomplete });
             }
-            Ok((d, format!("{first} − {second}"), "paired".into()))
-        }
-        PairedLayout::OneSample { value, reference } => {
-            if !reference.is_finite() {
-                return Err(RunError::Input(
-                    "The reference value must be a number.".into(),
-                ));
-            }
-            let c = t.column(value)?;
-            let nums = c.numbers(t.decimal_comma)?;
-            if nums.missing > 0 {
-                notes.push(Note::MissingCells {
-                    column: value.clone(),
-                    count: nums.missing,
-                });
-            }
-            let d = nums.values.iter().map(|v| v.1 - reference).collect();
-            Ok((d, format!("{value} − {reference}"), "one-sample".into()))
+            Ok((d, first.clone(), second.clone()))
         }
     }
 }
 
-pub fn run(req: &PairedRequest, progress: ProgressFn) -> Result<PairedReport, RunError> {
-    super::check_common(
-        req.format_version,
-        req.confidence,
-        req.resamples,
-        req.bootstrap_resamples,
-        "sign patterns",
-    )?;
-    let mut notes = Vec::new();
-    let (d, label, design) = differences(req, &mut notes)?;
+/// The sign-flip analysis of differences `d`: the test (exact over all 2^n sign patterns up
+/// to the limit, otherwise random patterns), the bootstrap of the differences as one sample,
+/// d_z, the t-test and the signed-rank test.
+pub(crate) fn sign_flip(
+    d: &[f64],
+    differences: Differences,
+    notes: Vec<Note>,
+    statistic: FlipStatistic,
+    set: &TestSettings,
+    progress: ProgressFn,
+) -> Result<SignFlipReport, Error> {
     let n = d.len();
     if n < 2 {
-        return Err(RunError::Input(format!(
-            "Only {n} complete pair{}; at least 2 are needed (and 6 or more for a sign-flip test to be able to reach p < .05).",
+        return Err(Error::data(format!(
+            "Only {n} complete pair{}; at least 2 are needed (and 6 or more for a sign-flip \
+             test to be able to reach p < .05).",
             plural(n)
         )));
     }
-    let setup = FlipSetup::new(req.statistic, &d);
+    let setup = FlipSetup::new(statistic, d);
     let patterns: u64 = if n < 63 { 1u64 << n } else { u64::MAX };
     let (counts, values, exact) = driver::Relabelling {
         count: patterns,
-        exact_limit: req.exact_limit,
-        resamples: req.resamples,
-        seed: req.seed,
-        stage: "sign patterns",
+        exact_limit: set.exact_limit,
+        resamples: set.resamples,
+        seed: set.seed,
+        stage: Stage::SignPatterns,
     }
     .run(
         progress,
         &mut |cb| setup.enumerate(rng::BLOCK, cb),
         &mut |s, len| setup.random_block(s, len),
     )?;
-    let pr = p_value(&counts, exact, req.alternative, req.two_sided);
     let observed = setup.observed;
+    let mut test = TestOutcome::new(
+        &counts,
+        &values,
+        exact,
+        set.alternative,
+        set.two_sided,
+        observed,
+        set.seed,
+    );
+    // The figure's range is set by the relabelled values and the observed one.
+    test.null_histogram = histogram(&values, &[observed], 48);
 
     // Bootstrap the differences as one sample.
-    let f_effect: boot::BoxedStat = match req.statistic {
+    let f_effect: boot::BoxedStat = match statistic {
         FlipStatistic::Mean => Box::new(|x, _| stats::mean(x)),
         FlipStatistic::Median => Box::new(|x, _| stats::median_select(x)),
     };
     let f_dz = |x: &mut [f64], _: &mut [f64]| stats::mean(x) / stats::sd(x);
     let se_mean = |x: &mut [f64], _: &mut [f64]| stats::sd(x) / (x.len() as f64).sqrt();
-    let studentize = req.interval == IntervalMethod::Studentized;
-    let se = match (studentize, req.statistic) {
+    let methods = set.methods();
+    let studentize = methods.contains(&IntervalMethod::Studentized);
+    let se = match (studentize, statistic) {
         (false, _) => SeMethod::None,
         (true, FlipStatistic::Mean) => SeMethod::Formula(&se_mean),
         (true, FlipStatistic::Median) => SeMethod::Nested(boot::NESTED),
     };
-    let dz_est = f_dz(&mut d.clone(), &mut []);
-    let design_b = Design::One {
-        x: &d,
-        strata: None,
-    };
+    let dz_est = f_dz(&mut d.to_vec(), &mut []);
+    let design_b = Resampling::One { x: d, strata: None };
     let stats_ = [
         Stat {
             f: f_effect.as_ref(),
@@ -364,40 +430,35 @@ pub fn run(req: &PairedRequest, progress: ProgressFn) -> Result<PairedReport, Ru
     let (bvals, tvals) = boot::resample(
         &design_b,
         &stats_,
-        req.seed,
-        req.bootstrap_resamples,
+        set.seed,
+        set.bootstrap_resamples,
         progress,
     )?;
-    let finite: Vec<f64> = bvals[0].iter().copied().filter(|v| v.is_finite()).collect();
-    let t_finite: Vec<f64> = tvals[0].iter().copied().filter(|v| v.is_finite()).collect();
     let se_hat = match se {
-        SeMethod::Formula(g) => g(&mut d.clone(), &mut []),
-        SeMethod::Nested(_) => boot::standard_error(&finite).unwrap_or(f64::NAN),
+        SeMethod::Formula(g) => g(&mut d.to_vec(), &mut []),
+        SeMethod::Nested(_) => {
+            let finite: Vec<f64> = bvals[0].iter().copied().filter(|v| v.is_finite()).collect();
+            boot::standard_error(&finite).unwrap_or(f64::NAN)
+        }
         SeMethod::None => f64::NAN,
     };
-    let summary = boot::Summary {
-        estimate: observed,
-        boot: &finite,
-        t: studentize.then_some((&t_finite[..], se_hat)),
-        bounds: None,
-    };
     let f_ref = f_effect.as_ref();
-    let mut accel = || boot::acceleration(&design_b, f_ref);
-    let ci = boot::interval_by(
-        req.interval,
-        req.confidence,
-        Side::TwoSided,
-        &summary,
-        &mut accel,
+    let effect = super::summarise_bootstrap(
+        &methods,
+        set.confidence,
+        observed,
+        &bvals[0],
+        studentize.then_some((&tvals[0][..], se_hat)),
+        None,
+        &mut || boot::acceleration(&design_b, f_ref),
     );
     let dz_finite: Vec<f64> = bvals[1].iter().copied().filter(|v| v.is_finite()).collect();
-    let dz_method = if studentize {
+    let dz_method = if set.interval() == IntervalMethod::Studentized {
         IntervalMethod::Bca
     } else {
-        req.interval
+        set.interval()
     };
     let dz = EffectSize {
-        name: "d_z (mean difference / SD of differences)".into(),
         estimate: dz_est.is_finite().then_some(dz_est),
         ci: if dz_est.is_finite() {
             let s = boot::Summary {
@@ -406,136 +467,42 @@ pub fn run(req: &PairedRequest, progress: ProgressFn) -> Result<PairedReport, Ru
                 t: None,
                 bounds: None,
             };
-            boot::interval_by(dz_method, req.confidence, Side::TwoSided, &s, &mut || {
+            boot::interval_by(dz_method, set.confidence, Side::TwoSided, &s, &mut || {
                 boot::acceleration(&design_b, &f_dz)
             })
         } else {
             Interval::none(
                 dz_method.into(),
-                req.confidence,
+                set.confidence,
                 Side::TwoSided,
                 Note::DifferencesConstant,
             )
         },
     };
-    let t_test = t_test(&d, req.alternative, req.confidence);
-    let wilcoxon = signed_rank(&d, req.alternative);
-    let tail = tail_region(req.alternative, req.two_sided, &counts, observed);
-    let null_histogram = histogram(&values, &[observed], 48);
-    let mut bm = vec![observed];
-    bm.extend(ci.low);
-    bm.extend(ci.high);
-    let bootstrap_histogram = histogram(&finite, &bm, 48);
-    let what = match req.statistic {
-        FlipStatistic::Mean => "mean",
-        FlipStatistic::Median => "median",
-    };
-    let effect_label = format!("{what} of the differences ({label})");
-    let mut report = PairedReport {
-        format_version: FORMAT_VERSION,
-        engine_version: ENGINE_VERSION.into(),
-        design,
-        difference_label: label,
+    let mut cautions = vec![Caution::Assumptions];
+    if n < 10 {
+        cautions.push(Caution::SmallSample { smallest: n });
+    }
+    closing_cautions(&mut cautions);
+    Ok(SignFlipReport {
+        differences,
         n,
         notes,
-        statistic: req.statistic,
-        alternative: req.alternative,
-        two_sided: req.two_sided,
-        observed,
-        p_value: pr.p,
-        exact,
-        resamples: counts.total,
-        extreme_count: pr.extreme,
-        mc_se: pr.mc_se,
-        p_interval: pr.interval,
-        seed: req.seed,
-        rng: RNG_NAME.into(),
-        effect_label,
-        ci,
-        bootstrap_resamples: req.bootstrap_resamples,
-        bootstrap_se: boot::standard_error(&finite),
-        t_test,
-        wilcoxon,
+        statistic,
+        alternative: set.alternative,
+        two_sided: set.two_sided,
+        test,
+        ci: effect.ci(),
+        intervals: effect.intervals,
+        bootstrap_resamples: set.bootstrap_resamples,
+        bootstrap_se: effect.se,
+        bootstrap_bias: effect.bias,
+        bootstrap_histogram: effect.histogram,
+        t_test: t_test(d, set.alternative, set.confidence),
+        wilcoxon: signed_rank(d, set.alternative),
         dz,
-        null_histogram,
-        tail,
-        bootstrap_histogram,
-        finding: String::new(),
-        cautions: Vec::new(),
-    };
-    report.finding = finding(&report);
-    report.cautions = cautions(&report);
-    Ok(report)
-}
-
-fn finding(r: &PairedReport) -> String {
-    let d = match (r.ci.low, r.ci.high) {
-        (Some(l), Some(h)) if h > l => fmt::decimals_for(h - l),
-        _ => 2,
-    };
-    let mut s = format!("The {} was {}", r.effect_label, fmt::fixed(r.observed, d));
-    if let (Some(l), Some(h)) = (r.ci.low, r.ci.high) {
-        s.push_str(&format!(" ({})", fmt::ci(r.ci.level, l, h, d)));
-    }
-    let what = if r.statistic == FlipStatistic::Mean {
-        "a mean difference"
-    } else {
-        "a median difference"
-    };
-    let how = match (r.alternative, r.two_sided) {
-        (Alternative::TwoSided, TwoSidedRule::Absolute) => {
-            "at least this far from zero in either direction"
-        }
-        (Alternative::TwoSided, TwoSidedRule::DoubledTail) => {
-            "at least this far from zero in the observed direction"
-        }
-        (Alternative::Greater, _) => "at least this large",
-        (Alternative::Less, _) => "at least this small",
-    };
-    if r.exact {
-        s.push_str(&format!(
-            "; {what} {how} arose in {} of all {} sign patterns (exact {}).",
-            fmt::count(r.extreme_count),
-            fmt::count(r.resamples),
-            fmt::p_value(r.p_value)
-        ));
-    } else {
-        s.push_str(&format!(
-            "; {what} {how} arose in {} of {} random sign patterns ({}).",
-            fmt::count(r.extreme_count),
-            fmt::count(r.resamples),
-            fmt::p_value(r.p_value)
-        ));
-    }
-    s
-}
-
-fn cautions(r: &PairedReport) -> Vec<String> {
-    let mut c = vec![if r.design == "paired" {
-        "What the test assumes: the pairs are independent of each other, and if there were no \
-         effect each difference would be as likely positive as negative (the two measurements \
-         of a unit are exchangeable)."
-            .to_string()
-    } else {
-        "What the test assumes: the values are independent, and if the true centre were the \
-         reference value their distribution would be symmetric about it. Skewed data can make \
-         a sign-flip test mislead; the bootstrap interval does not need symmetry."
-            .to_string()
-    }];
-    if r.n < 10 {
-        c.push(format!(
-            "Small sample ({} differences): the test has little power, and bootstrap intervals \
-             tend to be too narrow for samples this small (Hesterberg 2015).",
-            r.n
-        ));
-    }
-    c.push("A p-value is not the size of an effect; read it with the interval.".into());
-    c.push(
-        "Several tests on the same data: adjust for their number (for example Holm's method)."
-            .into(),
-    );
-    c.push("Clinical, safety or regulatory decisions need a qualified statistician and the guidelines that apply to them.".into());
-    c
+        cautions,
+    })
 }
 
 #[cfg(test)]
@@ -546,21 +513,20 @@ mod tests {
     fn zero_differences_and_tiny_samples() {
         let mut r = PairedRequest::new(
             "a,b\n1,1\n2,2\n".into(),
-            PairedLayout::Paired {
+            PairedLayout::Columns {
                 first: "a".into(),
                 second: "b".into(),
             },
             1,
         );
-        r.bootstrap_resamples = 200;
+        r.settings.bootstrap_resamples = 200;
         let rep = run(&r, &mut |_| true).unwrap();
-        assert_eq!(rep.p_value, 1.0);
+        assert_eq!(rep.test.p_value, 1.0);
         assert!(rep.t_test.t.is_none());
         assert!(rep.wilcoxon.p_value.is_none());
-        assert!(!rep.finding.contains("NaN"));
         let r1 = PairedRequest::new(
             "a,b\n1,2\n".into(),
-            PairedLayout::Paired {
+            PairedLayout::Columns {
                 first: "a".into(),
                 second: "b".into(),
             },
@@ -580,13 +546,13 @@ mod tests {
                     5.0,after,p5\n7.0,before,p6\n";
         let mut w = PairedRequest::new(
             wide.into(),
-            PairedLayout::Paired {
+            PairedLayout::Columns {
                 first: "after".into(),
                 second: "before".into(),
             },
             4,
         );
-        w.bootstrap_resamples = 300;
+        w.settings.bootstrap_resamples = 300;
         let mut l = w.clone();
         l.data = long.into();
         l.layout = PairedLayout::Long {
@@ -600,7 +566,7 @@ mod tests {
             run(&w, &mut |_| true).unwrap(),
             run(&l, &mut |_| true).unwrap(),
         );
-        assert_eq!(a.p_value, b.p_value);
+        assert_eq!(a.test.p_value, b.test.p_value);
         assert_eq!(a.ci, b.ci);
         assert!(
             b.notes[0] == Note::IncompleteUnits { count: 1 },
@@ -621,13 +587,13 @@ mod tests {
         let data = "a,b\n1,2\n3,\n4,5.5\n2,1\n6,4\n,3\n";
         let mut r = PairedRequest::new(
             data.into(),
-            PairedLayout::Paired {
+            PairedLayout::Columns {
                 first: "a".into(),
                 second: "b".into(),
             },
             1,
         );
-        r.bootstrap_resamples = 200;
+        r.settings.bootstrap_resamples = 200;
         let rep = run(&r, &mut |_| true).unwrap();
         assert_eq!(rep.n, 4);
         assert!(

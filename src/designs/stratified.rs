@@ -9,8 +9,7 @@
 
 use serde::{Deserialize, Serialize};
 
-use super::{EffectSize, TestOutcome, TestSettings};
-use crate::base::format as fmt;
+use super::{Caution, Design, DesignKey, EffectSize, TestOutcome, TestSettings};
 use crate::base::*;
 use crate::classical;
 use crate::classical::linear::{linear_model, LinearModelCheck};
@@ -18,7 +17,7 @@ use crate::classical::Welch;
 use crate::input::columns::{self as groups, plural};
 use crate::input::table::{self, HeaderChoice};
 use crate::num::stats;
-use crate::resample::boot::{Design, SeMethod, Stat};
+use crate::resample::boot::{Design as Resampling, SeMethod, Stat};
 use crate::resample::combin::choose;
 use crate::resample::strata::{SSetup, Stratum};
 use crate::resample::tally::TIE_TOLERANCE;
@@ -38,24 +37,21 @@ pub enum StrataWeights {
 }
 
 impl StrataWeights {
+    /// The key in requests and on the command line.
     pub fn key(self) -> &'static str {
         match self {
             StrataWeights::Size => "size",
             StrataWeights::Precision => "precision",
         }
     }
+    /// The weights with this key.
     pub fn from_key(s: &str) -> Option<StrataWeights> {
         [StrataWeights::Size, StrataWeights::Precision]
             .into_iter()
             .find(|w| w.key() == s)
     }
-    pub fn describe(self) -> &'static str {
-        match self {
-            StrataWeights::Size => "weighted by stratum size",
-            StrataWeights::Precision => "weighted by n1·n2/(n1 + n2) in each stratum",
-        }
-    }
-    fn weight(self, n1: f64, n2: f64) -> f64 {
+    /// The weight of a stratum with these group sizes (before normalising).
+    pub fn weight(self, n1: f64, n2: f64) -> f64 {
         match self {
             StrataWeights::Size => n1 + n2,
             StrataWeights::Precision => n1 * n2 / (n1 + n2),
@@ -63,11 +59,17 @@ impl StrataWeights {
     }
 }
 
+/// The stratified design.
+pub struct StratifiedDesign;
+
+/// Two groups within strata: the columns, which group comes first, the weights and the
+/// settings.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct StrataRequest {
-    pub format_version: u32,
+    /// The table as pasted.
     pub data: String,
+    /// Whether the first row holds column names.
     #[serde(default)]
     pub header: HeaderChoice,
     /// The numeric column.
@@ -80,17 +82,20 @@ pub struct StrataRequest {
     /// two labels, `first` and `second` pick the two to compare.
     #[serde(default)]
     pub first: Option<String>,
+    /// The second group, when the label column names more than two.
     #[serde(default)]
     pub second: Option<String>,
+    /// How the stratum differences are averaged.
     #[serde(default)]
     pub weights: StrataWeights,
+    /// The test and interval settings.
     pub settings: TestSettings,
 }
 
 impl StrataRequest {
+    /// The defaults the page and the command start from.
     pub fn new(data: String, value: String, group: String, strata: String, seed: u64) -> Self {
         StrataRequest {
-            format_version: FORMAT_VERSION,
             data,
             header: HeaderChoice::Detect,
             value,
@@ -104,12 +109,18 @@ impl StrataRequest {
     }
 }
 
+/// One stratum of the comparison.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct StratumSummary {
+    /// The stratum's name.
     pub name: String,
+    /// Values of the first group.
     pub n1: usize,
+    /// Values of the second group.
     pub n2: usize,
+    /// Mean of the first group.
     pub mean1: f64,
+    /// Mean of the second group.
     pub mean2: f64,
     /// mean1 − mean2
     pub difference: f64,
@@ -117,39 +128,77 @@ pub struct StratumSummary {
     pub weight: f64,
 }
 
+/// What the stratified analysis found.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct StrataReport {
-    pub format_version: u32,
-    pub engine_version: String,
-    pub design: String,
+    /// The values' column.
     pub value_label: String,
+    /// The strata's column.
     pub strata_label: String,
     /// The two groups, first and second.
     pub names: [String; 2],
+    /// The usable strata.
     pub strata: Vec<StratumSummary>,
     /// Strata left out because only one of the two groups is present in them.
     pub left_out: Vec<String>,
+    /// What was left out or read specially.
     pub notes: Vec<Note>,
+    /// How the stratum differences were averaged.
     pub weights: StrataWeights,
-    pub statistic_label: String,
+    /// The direction of the test.
     pub alternative: Alternative,
+    /// How the two-sided p-value is defined.
     pub two_sided: TwoSidedRule,
+    /// The within-strata relabelling test.
     #[serde(flatten)]
     pub test: TestOutcome,
-    pub effect_label: String,
+    /// The weighted difference in means, first minus second.
     #[serde(with = "float")]
     pub effect: f64,
+    /// Its headline bootstrap interval.
     pub ci: Interval,
+    /// The headline interval and any further methods.
+    pub intervals: Vec<Interval>,
+    /// Bootstrap resamples.
     pub bootstrap_resamples: u64,
+    /// Bootstrap standard error.
     pub bootstrap_se: Option<f64>,
+    /// The bootstrap values, binned.
     pub bootstrap_histogram: Histogram,
     /// The weighted difference over the pooled within-cell standard deviation.
     pub standardized: EffectSize,
+    /// The linear model y ~ group + stratum (cross-check).
     pub linear_model: LinearModelCheck,
     /// The same two groups with the strata ignored, for contrast.
     pub unstratified: Welch,
-    pub finding: String,
-    pub cautions: Vec<String>,
+    /// What to keep in mind.
+    pub cautions: Vec<Caution>,
+}
+
+impl Design for StratifiedDesign {
+    const KEY: DesignKey = DesignKey::Stratified;
+    type Request = StrataRequest;
+    type Report = StrataReport;
+
+    fn check(req: &StrataRequest) -> Result<(), Error> {
+        req.settings.check("relabellings")
+    }
+
+    fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Error> {
+        run(req, progress)
+    }
+
+    fn data(req: &StrataRequest) -> &str {
+        &req.data
+    }
+
+    fn clear_data(req: &mut StrataRequest) {
+        req.data.clear();
+    }
+
+    fn seed(req: &StrataRequest) -> u64 {
+        req.settings.seed
+    }
 }
 
 /// The data of one usable stratum.
@@ -162,8 +211,8 @@ struct StratumData {
 /// The two groups' names, the usable strata, and the names of the strata left out.
 type ReadStrata = ([String; 2], Vec<StratumData>, Vec<String>);
 
-fn read(req: &StrataRequest, notes: &mut Vec<Note>) -> Result<ReadStrata, RunError> {
-    let bad = |m: String| Err(RunError::Input(m));
+fn read(req: &StrataRequest, notes: &mut Vec<Note>) -> Result<ReadStrata, Error> {
+    let bad = |m: String| Err(Error::data(m));
     if req.strata == req.value || req.strata == req.group {
         return bad(format!(
             "The column \"{}\" was chosen both for the strata and for the {}. Choose a \
@@ -182,7 +231,7 @@ fn read(req: &StrataRequest, notes: &mut Vec<Note>) -> Result<ReadStrata, RunErr
     let levels = &lab.levels;
     let find = |name: &str| {
         levels.iter().position(|l| l == name).ok_or_else(|| {
-            RunError::Input(format!(
+            Error::data(format!(
                 "There is no group \"{name}\" in column \"{}\"; its groups are {}.",
                 req.group,
                 levels
@@ -356,9 +405,10 @@ fn weighted_from_cells(
     diff / (ss / df).sqrt()
 }
 
-pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, RunError> {
+/// Runs a stratified request.
+pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Error> {
+    StratifiedDesign::check(req)?;
     let st = &req.settings;
-    st.check(req.format_version, "relabellings")?;
     let mut notes = Vec::new();
     let (names, data, left_out) = read(req, &mut notes)?;
     let wraw: Vec<f64> = data
@@ -404,7 +454,7 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Ru
         exact_limit: st.exact_limit,
         resamples: st.resamples,
         seed: st.seed,
-        stage: "relabelling within strata",
+        stage: Stage::Relabelling,
     }
     .run(
         progress,
@@ -467,8 +517,9 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Ru
         }
         v.sqrt()
     };
-    let studentize = st.interval == IntervalMethod::Studentized;
-    let cell_design = Design::Cells {
+    let methods = st.methods();
+    let studentize = methods.contains(&IntervalMethod::Studentized);
+    let cell_design = Resampling::Cells {
         x: &x,
         labels: &labels,
         cells: &cells,
@@ -498,7 +549,7 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Ru
     )?;
     let se_hat = se_formula(&mut x.clone(), &mut labels.clone());
     let main = super::summarise_bootstrap(
-        st.interval,
+        &methods,
         st.confidence,
         effect,
         &bv[0],
@@ -506,13 +557,13 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Ru
         None,
         &mut || boot::acceleration(&cell_design, &f_effect),
     );
-    let std_method = if studentize {
+    let std_method = if st.interval() == IntervalMethod::Studentized {
         IntervalMethod::Bca
     } else {
-        st.interval
+        st.interval()
     };
     let std_boot = super::summarise_bootstrap(
-        std_method,
+        &[std_method],
         st.confidence,
         std_effect,
         &bv[1],
@@ -524,7 +575,7 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Ru
 
     let all_a: Vec<f64> = data.iter().flat_map(|s| s.a.iter().copied()).collect();
     let all_b: Vec<f64> = data.iter().flat_map(|s| s.b.iter().copied()).collect();
-    let summaries = data
+    let summaries: Vec<StratumSummary> = data
         .iter()
         .zip(&wraw)
         .map(|(s, w)| {
@@ -540,10 +591,17 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Ru
             }
         })
         .collect();
-    let mut report = StrataReport {
-        format_version: FORMAT_VERSION,
-        engine_version: ENGINE_VERSION.into(),
-        design: "stratified".into(),
+    let mut cautions = vec![
+        Caution::Assumptions,
+        Caution::StrataMatter,
+        Caution::StrataWeighting { weights },
+    ];
+    let smallest = summaries.iter().map(|s| s.n1.min(s.n2)).min().unwrap_or(0);
+    if smallest < 3 {
+        cautions.push(Caution::SmallStrata { smallest });
+    }
+    super::closing_cautions(&mut cautions);
+    Ok(StrataReport {
         value_label: req.value.clone(),
         strata_label: req.strata.clone(),
         names,
@@ -551,20 +609,18 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Ru
         left_out,
         notes,
         weights,
-        statistic_label: format!("difference in means within strata, {}", weights.describe()),
         alternative: st.alternative,
         two_sided: st.two_sided,
         test,
-        effect_label: "difference in means within strata".into(),
         effect,
-        ci: main.ci,
+        ci: main.ci(),
+        intervals: main.intervals,
         bootstrap_resamples: st.bootstrap_resamples,
         bootstrap_se: main.se,
         bootstrap_histogram: main.histogram,
         standardized: EffectSize {
-            name: "standardized difference (over the pooled within-cell SD)".into(),
             estimate: std_effect.is_finite().then_some(std_effect),
-            ci: std_boot.ci,
+            ci: std_boot.ci(),
         },
         linear_model: linear_model(
             &data
@@ -575,109 +631,11 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Ru
             st.confidence,
         ),
         unstratified: classical::welch(&all_a, &all_b, st.alternative, st.confidence),
-        finding: String::new(),
-        cautions: Vec::new(),
-    };
-    report.finding = finding(&report);
-    report.cautions = cautions(&report);
-    Ok(report)
+        cautions,
+    })
 }
 
 /// Decimals for the differences of a report.
-pub fn decimals(r: &StrataReport) -> usize {
-    match (r.ci.low, r.ci.high) {
-        (Some(l), Some(h)) if h > l => fmt::decimals_for(h - l),
-        _ => 2,
-    }
-}
-
-pub fn finding(r: &StrataReport) -> String {
-    let d = decimals(r);
-    let [a, b] = &r.names;
-    let dir = if r.effect >= 0.0 { "higher" } else { "lower" };
-    let mut s = format!(
-        "Within strata of {}, the mean {} was {} {dir} in {a} than in {b} (average of {} \
-         stratum differences, {}",
-        r.strata_label,
-        r.value_label,
-        fmt::fixed(r.effect.abs(), d),
-        r.strata.len(),
-        r.weights.describe()
-    );
-    if let (Some(l), Some(h)) = (r.ci.low, r.ci.high) {
-        s.push_str(&format!("; {}", fmt::ci(r.ci.level, l, h, d)));
-    }
-    let how = match (r.alternative, r.two_sided) {
-        (Alternative::TwoSided, TwoSidedRule::Absolute) => {
-            "at least this far from zero in either direction"
-        }
-        (Alternative::TwoSided, TwoSidedRule::DoubledTail) => {
-            "at least this far from zero in the observed direction"
-        }
-        (Alternative::Greater, _) => "at least this large",
-        (Alternative::Less, _) => "at least this small",
-    };
-    let pool = if r.test.exact {
-        format!(
-            "all {} relabellings within strata",
-            fmt::count(r.test.resamples)
-        )
-    } else {
-        format!(
-            "{} random relabellings within strata",
-            fmt::count(r.test.resamples)
-        )
-    };
-    s.push_str(&format!(
-        "). A difference {how} arose in {} of {} ({}).",
-        fmt::count(r.test.extreme_count),
-        pool,
-        fmt::p_value(r.test.p_value)
-    ));
-    let naive = r.unstratified.mean_difference;
-    s.push_str(&format!(
-        " With the strata ignored, the difference would be {}.",
-        fmt::fixed(naive, d)
-    ));
-    s
-}
-
-fn cautions(r: &StrataReport) -> Vec<String> {
-    let mut c = vec![
-        "What the test assumes: within each stratum, if the groups did not differ, every \
-         relabelling of that stratum's values would have been as likely as the one observed \
-         (as when units are randomised within each site, batch or day), and the observations \
-         are independent of each other."
-            .to_string(),
-        "Why the strata matter: when the strata differ in level and the groups are spread \
-         unevenly over them, a comparison that ignores the strata mixes the difference between \
-         the groups with the difference between the strata, and can even reverse its sign \
-         (Simpson's paradox). Comparing within strata removes the strata's own effect."
-            .to_string(),
-        format!(
-            "The stratum differences are averaged {}; the other weighting answers a slightly \
-             different question when the difference varies between strata. Look at the \
-             per-stratum differences: if they point in different directions, one average \
-             hides that.",
-            r.weights.describe()
-        ),
-    ];
-    let smallest = r.strata.iter().map(|s| s.n1.min(s.n2)).min().unwrap_or(0);
-    if smallest < 3 {
-        c.push(format!(
-            "Small strata: some stratum has only {smallest} value{} in a group. Such strata \
-             contribute little information, and bootstrap intervals can be too narrow.",
-            plural(smallest)
-        ));
-    }
-    c.push(
-        "Several tests on the same data: adjust for their number (for example Holm's method)."
-            .into(),
-    );
-    super::closing_cautions(&mut c);
-    c
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -777,8 +735,7 @@ mod tests {
         // The unstratified difference points the other way here (Simpson's paradox).
         assert!(
             rep.effect > 0.0 && rep.unstratified.mean_difference < 0.0,
-            "{}",
-            rep.finding
+            "{rep:?}"
         );
     }
 

@@ -4,7 +4,8 @@ use serde::{Deserialize, Serialize};
 
 use crate::base::Note;
 
-use crate::input::table::{Column, ColumnKind, Table, TableError};
+use crate::base::{Error, ErrorKind};
+use crate::input::table::{Column, ColumnKind, Table};
 
 /// Where the two groups are in the table.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
@@ -30,8 +31,8 @@ pub struct TwoGroups {
     pub notes: Vec<Note>,
 }
 
-fn err<T>(s: String) -> Result<T, TableError> {
-    Err(TableError(s))
+fn err<T>(s: String) -> Result<T, Error> {
+    Err(Error::data(s))
 }
 
 fn quoted_list(items: &[String]) -> String {
@@ -43,7 +44,7 @@ fn quoted_list(items: &[String]) -> String {
 }
 
 /// Guesses the layout from the column types.
-pub fn detect_layout(table: &Table) -> Result<Layout, TableError> {
+pub fn detect_layout(table: &Table) -> Result<Layout, Error> {
     let numeric: Vec<&Column> = table
         .columns
         .iter()
@@ -100,7 +101,7 @@ pub fn labelled_values(
     value: &str,
     group: &str,
     notes: &mut Vec<Note>,
-) -> Result<Labelled, TableError> {
+) -> Result<Labelled, Error> {
     if value == group {
         return err(format!(
             "The same column (\"{value}\") was chosen for the values and the groups. \
@@ -161,7 +162,7 @@ pub fn wide_values(
     table: &Table,
     columns: &[String],
     notes: &mut Vec<Note>,
-) -> Result<Vec<Vec<f64>>, TableError> {
+) -> Result<Vec<Vec<f64>>, Error> {
     for (i, c) in columns.iter().enumerate() {
         if columns[..i].contains(c) {
             return err(format!(
@@ -196,7 +197,7 @@ pub fn wide_values(
 }
 
 /// Every group needs at least 2 values.
-fn check_sizes(names: &[String], groups: &[Vec<f64>]) -> Result<(), TableError> {
+fn check_sizes(names: &[String], groups: &[Vec<f64>]) -> Result<(), Error> {
     for (name, g) in names.iter().zip(groups) {
         if g.len() < 2 {
             return err(format!(
@@ -216,7 +217,7 @@ pub fn two_groups(
     layout: &Layout,
     first: Option<&str>,
     second: Option<&str>,
-) -> Result<TwoGroups, TableError> {
+) -> Result<TwoGroups, Error> {
     let layout = match layout {
         Layout::Detect => detect_layout(table)?,
         l => l.clone(),
@@ -344,7 +345,7 @@ pub struct KGroups {
 /// Extracts every group of a table for a k-group comparison: all labels of the group column
 /// (long format) or every chosen column (wide format). With `Layout::Detect`, a label column
 /// beside a numeric one means long format, otherwise every numeric column is a group.
-pub fn k_groups(table: &Table, layout: &Layout) -> Result<KGroups, TableError> {
+pub fn k_groups(table: &Table, layout: &Layout) -> Result<KGroups, Error> {
     let layout = match layout {
         Layout::Detect => match detect_layout(table)? {
             Layout::Wide { .. } => Layout::Wide {
@@ -408,12 +409,15 @@ pub fn k_groups(table: &Table, layout: &Layout) -> Result<KGroups, TableError> {
     })
 }
 
-fn find_level(levels: &[String], wanted: &str, group: &str) -> Result<usize, TableError> {
+fn find_level(levels: &[String], wanted: &str, group: &str) -> Result<usize, Error> {
     levels.iter().position(|l| l == wanted).ok_or_else(|| {
-        TableError(format!(
-            "There is no group \"{wanted}\" in column \"{group}\"; its groups are {}.",
-            quoted_list(levels)
-        ))
+        Error::new(
+            ErrorKind::Data,
+            format!(
+                "There is no group \"{wanted}\" in column \"{group}\"; its groups are {}.",
+                quoted_list(levels)
+            ),
+        )
     })
 }
 
@@ -439,9 +443,9 @@ pub(crate) fn paired_columns(
     a: &str,
     b: &str,
     notes: &mut Vec<Note>,
-) -> Result<(Vec<f64>, Vec<f64>), TableError> {
+) -> Result<(Vec<f64>, Vec<f64>), Error> {
     if a == b {
-        return Err(TableError(format!(
+        return Err(Error::data(format!(
             "The same column (\"{a}\") was chosen twice."
         )));
     }
@@ -474,7 +478,7 @@ pub(crate) fn paired_columns(
         });
     }
     if xs.len() < 2 {
-        return Err(TableError(format!(
+        return Err(Error::data(format!(
             "Fewer than 2 rows have values in both \"{a}\" and \"{b}\"."
         )));
     }
@@ -484,13 +488,23 @@ pub(crate) fn paired_columns(
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::designs::two_groups::Request;
     use crate::input::table::{parse, HeaderChoice};
 
-    fn req(text: &str) -> (Table, Request) {
+    /// What the two-group design asks of a table when the user picked nothing.
+    struct Ask {
+        layout: Layout,
+        first: Option<String>,
+        second: Option<String>,
+    }
+
+    fn req(text: &str) -> (Table, Ask) {
         (
             parse(text, HeaderChoice::Detect).unwrap(),
-            Request::new(text.to_string(), 1),
+            Ask {
+                layout: Layout::Detect,
+                first: None,
+                second: None,
+            },
         )
     }
 
@@ -536,7 +550,7 @@ mod tests {
         let e = two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref())
             .err()
             .unwrap();
-        assert!(e.0.contains("3 groups (\"a\", \"b\", \"c\")"), "{e}");
+        assert!(e.message.contains("3 groups (\"a\", \"b\", \"c\")"), "{e}");
         r.first = Some("c".into());
         r.second = Some("a".into());
         let g = two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref()).unwrap();
@@ -558,14 +572,14 @@ mod tests {
             two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref())
                 .err()
                 .unwrap()
-                .0
+                .message
                 .contains("only one group (\"a\")")
         );
         let (t, r) = req("y,g\n1,a\n2,a\n3,b\n");
         let e = two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref())
             .err()
             .unwrap();
-        assert!(e.0.contains("Group \"b\" has 1 value;"), "{e}");
+        assert!(e.message.contains("Group \"b\" has 1 value;"), "{e}");
     }
 
     #[test]
@@ -575,7 +589,7 @@ mod tests {
             two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref())
                 .err()
                 .unwrap()
-                .0
+                .message
                 .contains("Only one column of numbers (\"y\")")
         );
     }
@@ -606,7 +620,10 @@ mod tests {
         )
         .err()
         .unwrap();
-        assert!(e.0.contains("2 columns were chosen (\"p\", \"q\")"), "{e}");
+        assert!(
+            e.message.contains("2 columns were chosen (\"p\", \"q\")"),
+            "{e}"
+        );
         let e = k_groups(
             &t,
             &Layout::Wide {
@@ -616,13 +633,14 @@ mod tests {
         .err()
         .unwrap();
         assert!(
-            e.0.contains("The same column (\"p\") was chosen for two groups"),
+            e.message
+                .contains("The same column (\"p\") was chosen for two groups"),
             "{e}"
         );
         let t = parse("y,g\n1,a\n2,a\n3,b\n4,b\n", HeaderChoice::Detect).unwrap();
         let e = k_groups(&t, &Layout::Detect).err().unwrap();
-        assert!(e.0.contains("names 2 groups"), "{e}");
-        assert!(e.0.contains("two-groups design"), "{e}");
+        assert!(e.message.contains("names 2 groups"), "{e}");
+        assert!(e.message.contains("two-groups design"), "{e}");
     }
 
     #[test]
@@ -632,6 +650,6 @@ mod tests {
         let e = two_groups(&t, &r.layout, r.first.as_deref(), r.second.as_deref())
             .err()
             .unwrap();
-        assert!(e.0.contains("no group \"z\""), "{e}");
+        assert!(e.message.contains("no group \"z\""), "{e}");
     }
 }

@@ -5,3 +5,4 @@ pub mod columns;
 pub mod counts;
 pub mod suggest;
 pub mod table;
+pub mod text;

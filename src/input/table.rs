@@ -3,6 +3,8 @@
 
 use serde::{Deserialize, Serialize};
 
+use crate::base::{Error, ErrorKind};
+
 /// The kind of values a column holds.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(rename_all = "kebab-case")]
@@ -123,23 +125,7 @@ pub fn is_yes_no(col: &Column) -> bool {
     any
 }
 
-/// Why a table could not be read.
-#[derive(Clone, Debug, PartialEq)]
-pub struct TableError(pub String);
-
-impl std::fmt::Display for TableError {
-    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        f.write_str(&self.0)
-    }
-}
-
-impl From<TableError> for crate::base::RunError {
-    fn from(e: TableError) -> Self {
-        crate::base::RunError::Input(e.0)
-    }
-}
-
-fn records(text: &str, delimiter: u8) -> Result<Vec<(u64, Vec<String>)>, TableError> {
+fn records(text: &str, delimiter: u8) -> Result<Vec<(u64, Vec<String>)>, Error> {
     let blanked: String;
     let text = if text.lines().any(|l| l.trim_start().starts_with('#')) {
         blanked = text
@@ -172,9 +158,13 @@ fn records(text: &str, delimiter: u8) -> Result<Vec<(u64, Vec<String>)>, TableEr
             let line = e
                 .position()
                 .map_or(0, |p| line_of(text, p.byte() as usize, &mut cursor));
-            TableError(format!(
-                "Line {line} could not be read as a table row ({e}). Check for a stray quote mark."
-            ))
+            Error::new(
+                ErrorKind::Table,
+                format!(
+                    "Line {line} could not be read as a table row ({e}). Check for a stray quote mark."
+                ),
+            )
+            .at_line(line)
         })?;
         let line = rec
             .position()
@@ -244,18 +234,22 @@ pub fn delimiter_name(d: u8) -> &'static str {
 }
 
 /// Parses pasted or dropped text into a table.
-pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, TableError> {
+pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, Error> {
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     if text.trim().is_empty() {
-        return Err(TableError(
-            "The data box is empty. Paste a table (for example from a spreadsheet), drop a file, or pick an example.".into(),
+        return Err(Error::new(
+            ErrorKind::Table,
+            "The data box is empty. Paste a table (for example from a spreadsheet), drop a file, or pick an example.",
         ));
     }
     let delimiter = detect_delimiter(text);
     let decimal_comma = delimiter != b',';
     let recs = records(text, delimiter)?;
     if recs.is_empty() {
-        return Err(TableError("No rows were found in the data.".into()));
+        return Err(Error::new(
+            ErrorKind::Table,
+            "No rows were found in the data.",
+        ));
     }
     let is_num = |s: &str| matches!(read_value(s, decimal_comma), Value::Number(_));
     let has_header = match header {
@@ -277,10 +271,14 @@ pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, TableError> {
         for (line, r) in body {
             let filled = r.iter().rposition(|c| !c.is_empty()).map_or(0, |i| i + 1);
             if filled > width {
-                return Err(TableError(format!(
-                    "Line {line} has {filled} fields but the first row names only {width} columns. \
-                     Remove the extra fields or add a name for each column."
-                )));
+                return Err(Error::new(
+                    ErrorKind::Table,
+                    format!(
+                        "Line {line} has {filled} fields but the first row names only {width} \
+                         columns. Remove the extra fields or add a name for each column."
+                    ),
+                )
+                .at_line(*line));
             }
         }
     }
@@ -349,17 +347,20 @@ pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, TableError> {
 }
 
 impl Table {
-    pub fn column(&self, name: &str) -> Result<&Column, TableError> {
+    pub fn column(&self, name: &str) -> Result<&Column, Error> {
         self.columns.iter().find(|c| c.name == name).ok_or_else(|| {
             let names: Vec<String> = self
                 .columns
                 .iter()
                 .map(|c| format!("\"{}\"", c.name))
                 .collect();
-            TableError(format!(
-                "There is no column named \"{name}\". The columns are: {}.",
-                names.join(", ")
-            ))
+            Error::new(
+                ErrorKind::Column,
+                format!(
+                    "There is no column named \"{name}\". The columns are: {}.",
+                    names.join(", ")
+                ),
+            )
         })
     }
 }
@@ -374,7 +375,7 @@ pub struct NumericColumn {
 
 impl Column {
     /// Reads every cell as a number; a cell holding text is an error that names it.
-    pub fn numbers(&self, decimal_comma: bool) -> Result<NumericColumn, TableError> {
+    pub fn numbers(&self, decimal_comma: bool) -> Result<NumericColumn, Error> {
         let mut values = Vec::with_capacity(self.cells.len());
         let mut missing = 0;
         let mut decimal_commas = 0;
@@ -411,11 +412,16 @@ impl Column {
             } else {
                 String::new()
             };
-            return Err(TableError(format!(
-                "Line {} of column \"{}\" holds \"{}\", which is not a number. Correct it, or \
-                 clear the cell to leave it out.{more}",
-                first.line, self.name, first.text
-            )));
+            return Err(Error::new(
+                ErrorKind::Value,
+                format!(
+                    "Line {} of column \"{}\" holds \"{}\", which is not a number. Correct it, or \
+                     clear the cell to leave it out.{more}",
+                    first.line, self.name, first.text
+                ),
+            )
+            .at_line(first.line)
+            .in_column(self.name.clone()));
         }
         Ok(NumericColumn {
             values,
@@ -475,9 +481,9 @@ mod tests {
         let t = parse("x,g\n1,a\n2,a\n3,b\n4.l,b\n5,b\n", HeaderChoice::Detect).unwrap();
         assert_eq!(t.columns[0].kind, ColumnKind::NumberWithText);
         let err = t.columns[0].numbers(t.decimal_comma).err().unwrap();
-        assert!(err.0.contains("Line 5"), "{err}");
-        assert!(err.0.contains("\"4.l\""), "{err}");
-        assert!(err.0.contains("\"x\""), "{err}");
+        assert!(err.message.contains("Line 5"), "{err}");
+        assert!(err.message.contains("\"4.l\""), "{err}");
+        assert!(err.message.contains("\"x\""), "{err}");
     }
 
     #[test]
@@ -493,7 +499,7 @@ mod tests {
         let err = parse("a,b\n1,2\n3,4,5\n", HeaderChoice::Detect)
             .err()
             .unwrap();
-        assert!(err.0.contains("Line 3"), "{err}");
+        assert!(err.message.contains("Line 3"), "{err}");
     }
 
     #[test]
@@ -508,7 +514,7 @@ mod tests {
         assert!(parse("  \n", HeaderChoice::Detect)
             .err()
             .unwrap()
-            .0
+            .message
             .contains("empty"));
     }
 }

@@ -380,3 +380,353 @@ pub fn fisher_rule(a: crate::base::Alternative) -> &'static str {
         }
     }
 }
+
+/// What a caution says, for the design it comes with.
+pub fn caution(c: &crate::designs::Caution, design: crate::designs::DesignKey) -> String {
+    use crate::designs::{Caution, DesignKey};
+    match c {
+        Caution::Assumptions => match design {
+            DesignKey::TwoGroups => "What the test assumes: if the groups did not differ, every \
+                 relabelling of the values would have been as likely as the one observed \
+                 (exchangeability, as under random assignment), and the observations are \
+                 independent of each other (no repeated measurements of the same unit, no \
+                 clusters)."
+                .into(),
+            DesignKey::Paired => "What the test assumes: the pairs are independent of each \
+                 other, and if there were no effect each difference would be as likely positive \
+                 as negative (the two measurements of a unit are exchangeable)."
+                .into(),
+            DesignKey::OneSample => "What the test assumes: the values are independent, and if \
+                 the true centre were the reference value their distribution would be symmetric \
+                 about it. Skewed data can make a sign-flip test mislead; the bootstrap interval \
+                 does not need symmetry."
+                .into(),
+            DesignKey::Association => "What the test assumes: the (x, y) rows are independent of \
+                 each other, and if there were no association every re-pairing of y with x would \
+                 have been as likely as the observed one."
+                .into(),
+            DesignKey::KGroups => "What the test assumes: if the groups did not differ, every \
+                 relabelling of the values across the groups would have been as likely as the \
+                 one observed (exchangeability, as under random assignment), and the \
+                 observations are independent of each other."
+                .into(),
+            DesignKey::Stratified => "What the test assumes: within each stratum, if the groups \
+                 did not differ, every relabelling of that stratum's values would have been as \
+                 likely as the one observed (as when units are randomised within each site, \
+                 batch or day), and the observations are independent of each other."
+                .into(),
+            DesignKey::YesNo => "What the test assumes: each unit contributes one yes/no \
+                 outcome, the units are independent of each other (no repeated visits by the \
+                 same person counted twice, no clusters), and if the groups did not differ, any \
+                 relabelling of the units would have been as likely as the one observed (as \
+                 under random assignment). The test holds the total number of yes answers fixed \
+                 (Fisher's exact test), which makes it somewhat conservative."
+                .into(),
+            DesignKey::Estimate | DesignKey::Plan => "The bootstrap treats the observations as \
+                 independent draws from the population of interest (pairs as units for paired \
+                 data and associations, each stratum on its own where strata are given); it \
+                 cannot correct for a biased or clustered sample."
+                .into(),
+        },
+        Caution::SmallSample { smallest } => match design {
+            DesignKey::TwoGroups => format!(
+                "Small sample: the smallest group has {smallest} values. Bootstrap intervals \
+                 tend to be too narrow for samples this small (percentile intervals most of all; \
+                 Hesterberg 2015), and a permutation test has little power."
+            ),
+            DesignKey::Paired | DesignKey::OneSample => format!(
+                "Small sample ({smallest} differences): the test has little power, and \
+                 bootstrap intervals tend to be too narrow for samples this small (Hesterberg \
+                 2015)."
+            ),
+            DesignKey::Association => format!(
+                "Small sample ({smallest} pairs): the estimate is unstable and bootstrap \
+                 intervals tend to be too narrow (Hesterberg 2015)."
+            ),
+            DesignKey::KGroups => format!(
+                "Small groups: the smallest has {smallest} values. A permutation test then has \
+                 little power, and bootstrap intervals tend to be too narrow (Hesterberg 2015)."
+            ),
+            _ => format!(
+                "Small sample ({smallest}): bootstrap intervals tend to be too narrow for \
+                 samples this small — the percentile interval most of all (Hesterberg 2015); \
+                 prefer BCa or studentized and read the interval as rough."
+            ),
+        },
+        Caution::UnequalSpreads { ratio } => match design {
+            DesignKey::KGroups => format!(
+                "The spreads differ (largest SD {} times the smallest) and the groups have \
+                 different sizes: relabelling the F statistic then also reacts to the unequal \
+                 spread. The Welch F statistic is the safer choice here.",
+                fmt::sig(*ratio)
+            ),
+            _ => format!(
+                "The spreads differ (SD ratio {}) and the groups have different sizes: a \
+                 relabelling test of a difference in means then also reacts to the unequal \
+                 spread. The Welch t statistic is the safer choice here (Chung & Romano 2013).",
+                fmt::sig(*ratio)
+            ),
+        },
+        Caution::NotCausation => match design {
+            DesignKey::Estimate => "Correlation is not causation, and r and the slope describe \
+                 only the straight-line part of an association."
+                .into(),
+            _ => "Correlation is not causation: a third variable, or the way the units were \
+                 chosen, can produce an association. r and the slope describe only the \
+                 straight-line part of a relation; look at the scatter plot."
+                .into(),
+        },
+        Caution::FollowUps => "The omnibus test says whether the groups differ somewhere, not \
+             where; the follow-up comparisons say where. Holm's adjustment keeps the chance of \
+             any false positive among them at 5% (family-wise error); Benjamini–Hochberg keeps \
+             the expected share of false positives among the comparisons called significant at \
+             5% (false discovery rate), and finds more when many comparisons are made. Decide \
+             which comparisons you planned before looking at the data: picking comparisons \
+             after seeing the results needs adjustment over every comparison you could have \
+             made."
+            .into(),
+        Caution::EtaOverstates => "Eta squared from a sample overstates the share of variation \
+             in the population, most for small groups; omega squared corrects for this."
+            .into(),
+        Caution::StrataMatter => "Why the strata matter: when the strata differ in level and \
+             the groups are spread unevenly over them, a comparison that ignores the strata \
+             mixes the difference between the groups with the difference between the strata, \
+             and can even reverse its sign (Simpson's paradox). Comparing within strata removes \
+             the strata's own effect."
+            .into(),
+        Caution::StrataWeighting { weights } => format!(
+            "The stratum differences are averaged {}; the other weighting answers a slightly \
+             different question when the difference varies between strata. Look at the \
+             per-stratum differences: if they point in different directions, one average hides \
+             that.",
+            strata_weights(*weights)
+        ),
+        Caution::SmallStrata { smallest } => format!(
+            "Small strata: some stratum has only {smallest} value{} in a group. Such strata \
+             contribute little information, and bootstrap intervals can be too narrow.",
+            plural(*smallest)
+        ),
+        Caution::SmallExpected { smallest } => format!(
+            "The smallest expected count is {}, below 5: the chi-square test's p-value is not \
+             reliable here (common practice); rely on the exact test.",
+            fmt::sig(*smallest)
+        ),
+        Caution::SmallGroupsForProportions { smallest } => format!(
+            "Small groups (the smaller has {smallest} units): intervals for proportions are wide \
+             and bootstrap intervals can be too narrow; the Newcombe interval behaves better."
+        ),
+        Caution::MeasuresDiffer => "The difference in proportions, the risk ratio and the odds \
+             ratio answer different questions; the odds ratio is far from the risk ratio when \
+             yes answers are common. Report the one that fits the decision, with the group \
+             proportions."
+            .into(),
+        Caution::SimultaneousIntervals => "Several intervals on the same data do not all hold at \
+             once with the stated confidence; adjust the level if they are read together."
+            .into(),
+        Caution::PValueNotEffect => "A p-value says how unusual the observed result would be if \
+             there were no effect; it is not the size or the importance of the effect. Read it \
+             together with the interval."
+            .into(),
+        Caution::Multiplicity => "Several tests on the same data: some small p-values arise by \
+             chance alone. If this is one of several comparisons, adjust for their number (for \
+             example Holm's method)."
+            .into(),
+        Caution::Decisions => "Clinical, safety or regulatory decisions need a qualified \
+             statistician and the guidelines that apply to them; this result alone is not \
+             enough."
+            .into(),
+        Caution::PilotIsNoisy => "A pilot's spread and any effect read from a pilot are noisy \
+             guesses from a small sample; planning on them often overstates power. Consider a \
+             smaller effect that would still matter, and plan for that."
+            .into(),
+        Caution::AssumedEffect => "The plan is only as good as the assumed effect and spread: \
+             take them from earlier studies or from the smallest effect that would matter, not \
+             from the hoped-for result."
+            .into(),
+        Caution::RunAsPlanned => "The plan holds only if the study is run as assumed: the same \
+             design, test and significance level, independent units, and no losses. Add units \
+             for expected dropout or missing outcomes."
+            .into(),
+        Caution::PlanMultiplicity => "Several primary outcomes or comparisons need adjustment \
+             for multiple testing, which lowers the power of each; plan for the adjusted level."
+            .into(),
+        Caution::PlanDecisions => "Sample sizes for clinical, safety or regulatory studies must \
+             be set with a qualified statistician and the guidelines that apply to them."
+            .into(),
+    }
+}
+
+/// Every caution of a report, worded for its design.
+pub fn cautions(cs: &[crate::designs::Caution], design: crate::designs::DesignKey) -> Vec<String> {
+    cs.iter().map(|c| caution(c, design)).collect()
+}
+
+/// How stratum differences are weighted, in words.
+pub fn strata_weights(w: crate::designs::stratified::StrataWeights) -> &'static str {
+    use crate::designs::stratified::StrataWeights;
+    match w {
+        StrataWeights::Size => "weighted by stratum size",
+        StrataWeights::Precision => "weighted by n1·n2/(n1 + n2) in each stratum",
+    }
+}
+
+/// An error with where it points, as every face shows it: "… [line 4, column \"dose\"]".
+pub fn error(e: &crate::base::Error) -> String {
+    let place = match (&e.line, &e.column) {
+        (Some(l), Some(c)) => format!(" [line {l}, column \"{c}\"]"),
+        (Some(l), None) => format!(" [line {l}]"),
+        (None, Some(c)) => format!(" [column \"{c}\"]"),
+        (None, None) => String::new(),
+    };
+    format!("{}{place}", e.message)
+}
+
+/// What a long run is doing, for the progress display.
+pub fn stage(s: &crate::base::Stage) -> String {
+    use crate::base::Stage;
+    match s {
+        Stage::Relabelling => "Relabellings".into(),
+        Stage::SignPatterns => "Sign patterns".into(),
+        Stage::Pairings => "Pairings".into(),
+        Stage::ExactTest => "Exact test".into(),
+        Stage::Bootstrap => "Bootstrap resamples".into(),
+        Stage::Comparison { index, of } => format!("Follow-up comparison {index} of {of}"),
+        Stage::Simulation { n, sizes } => {
+            format!("Simulating studies of n = {n} ({sizes} sizes so far)")
+        }
+        Stage::Detectable { n, effect } => {
+            format!("Detectable effect at n = {n}: trying {}", fmt::sig(*effect))
+        }
+    }
+}
+
+/// How a test's p-value was found: "exact, all 34,650 relabellings" or "Monte Carlo, 100,000
+/// random relabellings, p = (b + 1)/(m + 1) = 0.01201, standard error 0.00034, 99% interval …".
+pub fn how(t: &crate::designs::TestOutcome, unit: &str) -> String {
+    if t.exact {
+        format!("exact, all {} {unit}", fmt::count(t.resamples))
+    } else {
+        let pi = t
+            .p_interval
+            .as_ref()
+            .map(|p| format!(", 99% interval {} to {}", small(p.low), small(p.high)))
+            .unwrap_or_default();
+        format!(
+            "Monte Carlo, {} random {unit}, p = (b + 1)/(m + 1) = {}, standard error {}{pi}",
+            fmt::count(t.resamples),
+            small(t.p_value),
+            small(t.mc_se.unwrap_or(0.0))
+        )
+    }
+}
+
+/// A probability or its error to five decimals, or in scientific notation when that would
+/// show only zeros.
+fn small(x: f64) -> String {
+    if x == 0.0 || x >= 1e-4 {
+        format!("{x:.5}")
+    } else {
+        format!("{x:.2e}")
+    }
+}
+
+/// "p = .012 (exact, …)".
+pub fn p_line(t: &crate::designs::TestOutcome, unit: &str) -> String {
+    format!("{} ({})", fmt::p_value(t.p_value), how(t, unit))
+}
+
+/// The direction of a test in words, for a methods paragraph.
+pub fn alternative(
+    alt: crate::base::Alternative,
+    rule: crate::base::TwoSidedRule,
+    first_minus_second: &str,
+) -> String {
+    use crate::base::{Alternative, TwoSidedRule};
+    match (alt, rule) {
+        (Alternative::TwoSided, TwoSidedRule::Absolute) => {
+            "two-sided, counting relabellings at least as far from no difference as the \
+             observed one"
+                .into()
+        }
+        (Alternative::TwoSided, TwoSidedRule::DoubledTail) => {
+            "two-sided, as twice the smaller one-sided p-value".into()
+        }
+        (Alternative::Greater, _) => format!("one-sided: {first_minus_second} greater"),
+        (Alternative::Less, _) => format!("one-sided: {first_minus_second} smaller"),
+    }
+}
+
+/// "percentile: 95% CI [0.10, 0.92]" or the reason there is none.
+pub fn interval_line(iv: &crate::base::Interval, d: usize) -> String {
+    use crate::base::Side;
+    let name = method(iv.method);
+    let body = match (iv.side, iv.low, iv.high) {
+        (Side::TwoSided, Some(l), Some(h)) => fmt::ci(iv.level, l, h, d),
+        (Side::Lower, Some(l), _) => format!(
+            "{} lower bound {}",
+            fmt::percent(iv.level),
+            fmt::fixed(l, d)
+        ),
+        (Side::Upper, _, Some(h)) => format!(
+            "{} upper bound {}",
+            fmt::percent(iv.level),
+            fmt::fixed(h, d)
+        ),
+        _ => "no interval".to_string(),
+    };
+    if iv.notes.is_empty() {
+        format!("{name}: {body}")
+    } else {
+        format!("{name}: {body} ({})", notes(&iv.notes))
+    }
+}
+
+/// "[0.10, 0.92]" or "—".
+pub fn cell_interval(iv: &crate::base::Interval, d: usize) -> String {
+    match (iv.low, iv.high) {
+        (Some(l), Some(h)) => format!("[{}, {}]", fmt::fixed(l, d), fmt::fixed(h, d)),
+        _ => "—".into(),
+    }
+}
+
+/// Degrees of freedom: whole numbers as such, others with one decimal.
+pub fn df(v: f64) -> String {
+    if (v - v.round()).abs() < 1e-9 {
+        format!("{}", v.round() as i64)
+    } else {
+        fmt::fixed(v, 1)
+    }
+}
+
+/// A p-value, or "undefined".
+pub fn opt_p(p: Option<f64>) -> String {
+    p.map_or("undefined".into(), fmt::p_value)
+}
+
+/// Decimals for an estimate from its interval's width (or a fallback scale).
+pub fn decimals(iv: &crate::base::Interval, fallback: f64) -> usize {
+    match (iv.low, iv.high) {
+        (Some(l), Some(h)) if h > l => fmt::decimals_for(h - l),
+        _ => fmt::decimals_for(if fallback > 0.0 && fallback.is_finite() {
+            fallback
+        } else {
+            1.0
+        }),
+    }
+}
+
+/// The full name of a design, as the page and the reports name it.
+pub fn design_name(d: crate::designs::DesignKey) -> &'static str {
+    use crate::designs::DesignKey;
+    match d {
+        DesignKey::TwoGroups => "two independent groups",
+        DesignKey::Paired => "paired measurements",
+        DesignKey::OneSample => "one sample against a reference value",
+        DesignKey::Association => "association between two numeric columns",
+        DesignKey::KGroups => "three or more groups",
+        DesignKey::Stratified => "two groups within strata",
+        DesignKey::YesNo => "yes/no outcomes in two groups",
+        DesignKey::Estimate => "an estimate with bootstrap intervals",
+        DesignKey::Plan => "planning a study",
+    }
+}

@@ -2,8 +2,8 @@
 //! each of two groups, or whole pairs), and percentile, basic, normal, BCa and studentized
 //! intervals read from the resampled statistics.
 
+use crate::base::{Error, Progress, ProgressFn, Stage};
 use crate::base::{Interval, IntervalMethod, Note, Side};
-use crate::base::{Progress, ProgressFn, RunError};
 use crate::num::normal;
 use crate::num::stats;
 use crate::resample::rng::{self, Stream};
@@ -491,7 +491,7 @@ pub fn resample(
     seed: u64,
     total: u64,
     progress: ProgressFn,
-) -> Result<Resampled, RunError> {
+) -> Result<Resampled, Error> {
     let mut values: Vec<Vec<f64>> = stats_
         .iter()
         .map(|_| Vec::with_capacity(total as usize))
@@ -507,12 +507,12 @@ pub fn resample(
         }
         done += rng::block_len(total, blk);
         let p = Progress {
-            stage: "bootstrap".into(),
+            stage: Stage::Bootstrap,
             done,
             total,
         };
         if !progress(&p) {
-            return Err(RunError::Cancelled);
+            return Err(Error::cancelled());
         }
     }
     Ok((values, tvals))

@@ -1,7 +1,7 @@
 //! The one driver for exact-or-random null distributions: every relabelling when there are
 //! few enough, otherwise random ones in blocks of the seed's streams.
 
-use crate::base::{Progress, ProgressFn, RunError};
+use crate::base::{Error, Progress, ProgressFn, Stage};
 use crate::resample::rng::{self, Stream};
 use crate::resample::tally::Counts;
 
@@ -13,10 +13,10 @@ pub const MAX_KEPT: usize = 1_000_000;
 pub fn random_null(
     seed: u64,
     total: u64,
-    stage: &str,
+    stage: Stage,
     progress: ProgressFn,
     block: &mut dyn FnMut(Stream, u64) -> (Counts, Vec<f64>),
-) -> Result<(Counts, Vec<f64>), RunError> {
+) -> Result<(Counts, Vec<f64>), Error> {
     let mut counts = Counts::default();
     let mut values = Vec::with_capacity(total.min(MAX_KEPT as u64) as usize);
     let streams = rng::Streams::new(seed, rng::Purpose::Permutation, 0);
@@ -25,11 +25,11 @@ pub fn random_null(
         counts.add(&c);
         values.extend(v);
         if !progress(&Progress {
-            stage: stage.into(),
+            stage: stage.clone(),
             done: counts.total,
             total,
         }) {
-            return Err(RunError::Cancelled);
+            return Err(Error::cancelled());
         }
     }
     Ok((counts, values))
@@ -37,13 +37,13 @@ pub fn random_null(
 
 /// How a design's null distribution is made: every relabelling when there are `count` of
 /// them and that is at most `exact_limit`, otherwise `resamples` random ones from `seed`.
-pub struct Relabelling<'a> {
+pub struct Relabelling {
     pub count: u64,
     pub exact_limit: u64,
     pub resamples: u64,
     pub seed: u64,
-    /// What the progress display calls the work, e.g. "relabelling" or "sign patterns".
-    pub stage: &'a str,
+    /// What the progress display calls the work.
+    pub stage: Stage,
 }
 
 /// Enumerates every relabelling, calling its argument with the number done now and then
@@ -51,26 +51,32 @@ pub struct Relabelling<'a> {
 pub type Enumerate<'a> =
     &'a mut dyn FnMut(&mut dyn FnMut(u64) -> bool) -> Option<(Counts, Vec<f64>)>;
 
-impl Relabelling<'_> {
+impl Relabelling {
     /// The counts and statistics of the relabellings, and whether they are all of them.
     pub fn run(
         &self,
         progress: ProgressFn,
         enumerate: Enumerate,
         random: &mut dyn FnMut(Stream, u64) -> (Counts, Vec<f64>),
-    ) -> Result<(Counts, Vec<f64>, bool), RunError> {
+    ) -> Result<(Counts, Vec<f64>, bool), Error> {
         if self.count <= self.exact_limit {
             let mut cb = |done: u64| {
                 progress(&Progress {
-                    stage: self.stage.into(),
+                    stage: self.stage.clone(),
                     done,
                     total: self.count,
                 })
             };
-            let (c, v) = enumerate(&mut cb).ok_or(RunError::Cancelled)?;
+            let (c, v) = enumerate(&mut cb).ok_or(Error::cancelled())?;
             Ok((c, v, true))
         } else {
-            let (c, v) = random_null(self.seed, self.resamples, self.stage, progress, random)?;
+            let (c, v) = random_null(
+                self.seed,
+                self.resamples,
+                self.stage.clone(),
+                progress,
+                random,
+            )?;
             Ok((c, v, false))
         }
     }

@@ -10,8 +10,16 @@
 //!
 //! Integers in a range are drawn with Lemire's multiply-and-reject method written here, so
 //! no library's range-sampling algorithm (which may change between versions) is involved.
+//!
+//! A [`Stream`] is a generator on rand's traits (`rand::Rng`, the trait that rand 0.10
+//! calls what earlier versions called `RngCore`, and `rand::SeedableRng`), so any rand-based
+//! code can draw from it; the engine itself uses only [`Stream::below`] and [`Stream::unit`],
+//! whose outputs `tests/fixtures/streams.json` pins for ever. Fresh seeds come from the
+//! operating system or the browser through getrandom ([`fresh_seed`]).
 
-use rand_xoshiro::rand_core::{Rng, SeedableRng};
+use std::convert::Infallible;
+
+use rand::{Rng, SeedableRng, TryRng};
 use rand_xoshiro::Xoshiro256PlusPlus;
 
 /// Resamples per block.
@@ -28,8 +36,44 @@ pub enum Purpose {
 }
 
 /// A stream of random numbers for one block.
+#[derive(Clone, Debug)]
 pub struct Stream {
     rng: Xoshiro256PlusPlus,
+}
+
+impl TryRng for Stream {
+    type Error = Infallible;
+
+    #[inline]
+    fn try_next_u32(&mut self) -> Result<u32, Infallible> {
+        Ok((self.rng.next_u64() >> 32) as u32)
+    }
+
+    #[inline]
+    fn try_next_u64(&mut self) -> Result<u64, Infallible> {
+        Ok(self.rng.next_u64())
+    }
+
+    fn try_fill_bytes(&mut self, dst: &mut [u8]) -> Result<(), Infallible> {
+        self.rng.fill_bytes(dst);
+        Ok(())
+    }
+}
+
+impl SeedableRng for Stream {
+    type Seed = [u8; 32];
+
+    /// The xoshiro256++ state itself (four little-endian words).
+    fn from_seed(seed: [u8; 32]) -> Stream {
+        Stream {
+            rng: Xoshiro256PlusPlus::from_seed(seed),
+        }
+    }
+
+    /// The first permutation block of `seed`, as [`Stream::new`] makes it.
+    fn seed_from_u64(seed: u64) -> Stream {
+        Stream::new(seed, Purpose::Permutation, 0)
+    }
 }
 
 impl Stream {
@@ -125,6 +169,27 @@ pub fn seed_from_entropy(entropy: u64) -> u64 {
     s.next_u64() >> 11
 }
 
+/// A fresh seed from the operating system's (or the browser's) secure randomness, below
+/// 2^53.
+pub fn fresh_seed() -> u64 {
+    // getrandom reads the operating system's generator (crypto.getRandomValues in a
+    // browser). Should it ever fail, a clock (natively) or a per-session counter (in a
+    // browser, where the standard clock is missing) still gives distinct seeds.
+    static CALLS: std::sync::atomic::AtomicU64 = std::sync::atomic::AtomicU64::new(0);
+    let entropy = getrandom::u64().unwrap_or_else(|_| {
+        let n = CALLS.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+        #[cfg(not(target_arch = "wasm32"))]
+        let t = std::time::SystemTime::now()
+            .duration_since(std::time::UNIX_EPOCH)
+            .map(|d| d.as_nanos() as u64)
+            .unwrap_or(0x5EED);
+        #[cfg(target_arch = "wasm32")]
+        let t = 0x5EED_u64;
+        t ^ n.wrapping_mul(0x9E37_79B9_7F4A_7C15)
+    });
+    seed_from_entropy(entropy)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -182,6 +247,22 @@ mod tests {
         assert_eq!(d.len(), 50);
         assert_eq!(sub_seed(42, 3), s[3]);
         assert_ne!(sub_seed(43, 3), s[3]);
+    }
+
+    #[test]
+    fn a_stream_serves_rand_s_traits_with_the_same_numbers() {
+        // Through rand's `Rng` (formerly `RngCore`) the stream gives the words it gives
+        // directly; `seed_from_u64` is the seed's first permutation block.
+        let mut a = Stream::new(9, Purpose::Permutation, 0);
+        let mut b = <Stream as SeedableRng>::seed_from_u64(9);
+        let direct: Vec<u64> = (0..4).map(|_| a.next_u64()).collect();
+        let via: Vec<u64> = (0..4).map(|_| Rng::next_u64(&mut b)).collect();
+        assert_eq!(direct, via);
+        let mut bytes = [0u8; 8];
+        let mut c = Stream::new(9, Purpose::Permutation, 0);
+        c.fill_bytes(&mut bytes);
+        assert_eq!(u64::from_le_bytes(bytes), direct[0]);
+        assert!(fresh_seed() < 1 << 53);
     }
 
     #[test]

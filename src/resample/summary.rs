@@ -81,3 +81,18 @@ pub fn tail_region(alt: Alternative, rule: TwoSidedRule, counts: &Counts, observ
         }
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn histogram_puts_the_observed_value_on_an_edge() {
+        let values: Vec<f64> = (0..1000).map(|i| (i as f64 * 0.37).sin()).collect();
+        let h = histogram(&values, &[0.4321], 40);
+        assert!(h.edges.iter().any(|e| (e - 0.4321).abs() < 1e-12));
+        assert_eq!(h.counts.iter().sum::<u64>(), 1000);
+        assert_eq!(h.edges.len(), h.counts.len() + 1);
+        assert!(h.edges[0] <= -1.0 + 1e-9 && *h.edges.last().unwrap() >= 1.0 - 1e-9);
+    }
+}

@@ -10,7 +10,7 @@
 
 use serde::{Deserialize, Serialize};
 
-use crate::base::{Progress, ProgressFn, RunError};
+use crate::base::{Error, Progress, ProgressFn, Stage};
 use crate::num::stats;
 use crate::resample::combin::{choose, RevolvingDoor};
 #[cfg(test)]
@@ -357,7 +357,7 @@ pub fn random_blocks(
     total: u64,
     blocks: std::ops::Range<u64>,
     progress: ProgressFn,
-) -> Result<(Counts, Vec<f64>), RunError> {
+) -> Result<(Counts, Vec<f64>), Error> {
     let mut counts = Counts::default();
     let mut values = Vec::new();
     let streams = rng::Streams::new(seed, rng::Purpose::Permutation, blocks.start);
@@ -366,12 +366,12 @@ pub fn random_blocks(
         counts.add(&c);
         values.extend_from_slice(&v);
         let p = Progress {
-            stage: "relabelling".into(),
+            stage: Stage::Relabelling,
             done: counts.total,
             total,
         };
         if !progress(&p) {
-            return Err(RunError::Cancelled);
+            return Err(Error::cancelled());
         }
     }
     Ok((counts, values))
@@ -385,20 +385,20 @@ pub fn null_distribution(
     resamples: u64,
     seed: u64,
     progress: ProgressFn,
-) -> Result<NullDistribution, RunError> {
+) -> Result<NullDistribution, Error> {
     let n = (setup.n1 + setup.n2) as u64;
     let splits = choose(n, setup.k as u64);
     if splits <= exact_limit {
         let mut cb = |done: u64| {
             progress(&Progress {
-                stage: "relabelling".into(),
+                stage: Stage::Relabelling,
                 done,
                 total: splits,
             })
         };
         let (counts, values) = setup
             .enumerate(rng::BLOCK, &mut cb)
-            .ok_or(RunError::Cancelled)?;
+            .ok_or(Error::cancelled())?;
         Ok(NullDistribution {
             counts,
             values,

@@ -1,7 +1,14 @@
-//! Browser layers (wasm only): the page and the web worker. Both are thin: the page builds
-//! a [`crate::base::Request`], the worker runs [`crate::engine::run`] on it and
-//! posts back progress and the [`crate::base::Report`].
+//! Browser faces (wasm only): the page and the web worker. Both are thin: the page builds a
+//! [`crate::wire::Job`] from its form, the worker runs it and posts back progress and the
+//! [`crate::wire::Report`], and the page shows it through [`crate::render::document`].
 
 pub mod app;
+pub mod data_step;
+pub mod findings;
+pub mod form;
+pub mod plan_step;
+pub mod question;
+mod restore;
+pub mod runner;
 pub mod share;
 pub mod worker;

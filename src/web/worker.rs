@@ -1,33 +1,28 @@
-//! The web worker: receives a request as JSON text, runs the engine, posts progress at most
-//! every 100 ms and then the report (or a message saying what went wrong).
+//! The web worker: receives a job as saved-file JSON, runs the engine, posts progress at most
+//! every 100 ms and then the report (or the error, with its line and column).
 
 use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
 use web_sys::{DedicatedWorkerGlobalScope, MessageEvent};
 
-use crate::base::{Progress, RunError};
-use crate::wire::{Job, WorkerMessage};
+use crate::base::{Error, Progress};
+use crate::wire::{self, WorkerMessage};
 
 fn post(scope: &DedicatedWorkerGlobalScope, msg: &WorkerMessage) {
     let text = serde_json::to_string(msg).unwrap_or_else(|e| {
-        format!(r#"{{"type":"failed","message":"The result could not be encoded: {e}"}}"#)
+        let failed = WorkerMessage::Failed {
+            error: Error::settings(format!("The result could not be encoded: {e}")),
+        };
+        serde_json::to_string(&failed).unwrap_or_default()
     });
     let _ = scope.post_message(&JsValue::from_str(&text));
 }
 
-/// Handles one request text.
+/// Handles one job.
 fn handle(scope: &DedicatedWorkerGlobalScope, text: &str) {
-    let job: Job = match serde_json::from_str(text) {
-        Ok(r) => r,
-        Err(e) => {
-            post(
-                scope,
-                &WorkerMessage::Failed {
-                    message: format!("The analysis settings could not be read ({e})."),
-                },
-            );
-            return;
-        }
+    let job = match wire::read_job(text) {
+        Ok(r) => r.job,
+        Err(error) => return post(scope, &WorkerMessage::Failed { error }),
     };
     let mut last = js_sys::Date::now();
     let mut progress = |p: &Progress| {
@@ -38,15 +33,11 @@ fn handle(scope: &DedicatedWorkerGlobalScope, text: &str) {
         }
         true
     };
-    let result = job.run(&mut progress).map(|report| WorkerMessage::Done {
-        report: Box::new(report),
-    });
-    let msg = match result {
-        Ok(m) => m,
-        Err(RunError::Input(message)) => WorkerMessage::Failed { message },
-        Err(RunError::Cancelled) => WorkerMessage::Failed {
-            message: "The analysis was stopped.".into(),
+    let msg = match job.run(&mut progress) {
+        Ok(report) => WorkerMessage::Done {
+            report: Box::new(report),
         },
+        Err(error) => WorkerMessage::Failed { error },
     };
     post(scope, &msg);
 }
@@ -62,6 +53,6 @@ pub fn start() {
     });
     scope.set_onmessage(Some(onmessage.as_ref().unchecked_ref()));
     onmessage.forget();
-    // Tell the page the worker is ready to take requests.
+    // Tell the page the worker is ready to take jobs.
     post(&scope, &WorkerMessage::Ready);
 }

@@ -1,144 +1,225 @@
 //! The wire protocol: the jobs the page, the web worker and the command exchange, the report
-//! of any job, and the messages of the worker. Share links are in [`link`].
+//! of any job, the messages of the worker, and the format versions of saved analyses and
+//! share links ([`link`]; version 1 is read by [`v1`]).
+//!
+//! A saved analysis (format version 2) is one JSON object:
+//! `{"format_version": 2, "design": "two-groups", "request": {…}}`; a report as the command
+//! prints it: `{"format_version": 2, "engine_version": "…", "design": "…", "report": {…}}`.
 
 use serde::{Deserialize, Serialize};
+use serde_json::Value;
 
-use crate::base::{Progress, ProgressFn, RunError};
-use crate::designs;
+use crate::base::{Error, ErrorKind, Progress, ProgressFn};
+use crate::designs::{self, Design, DesignKey};
 
 pub mod link;
+pub mod v1;
 
-/// A unit of work for the worker (and the command's `--request` files).
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
-#[serde(tag = "job", content = "request", rename_all = "kebab-case")]
-pub enum Job {
-    Compare(designs::two_groups::Request),
-    Estimate(crate::designs::estimate::EstimateRequest),
-    Paired(crate::designs::paired::PairedRequest),
-    Association(crate::designs::association::AssocRequest),
-    KGroups(crate::designs::k_groups::KGroupsRequest),
-    Stratified(crate::designs::stratified::StrataRequest),
-    YesNo(crate::designs::yes_no::YesNoRequest),
-    Plan(crate::designs::plan::PlanRequest),
+/// Version of the saved-analysis, link and report format this build writes.
+pub const FORMAT_VERSION: u32 = 2;
+
+/// Engine version, reported with every result.
+pub const ENGINE_VERSION: &str = env!("CARGO_PKG_VERSION");
+
+/// Declares the jobs and reports of the registered designs: one line per design.
+macro_rules! registry {
+    ($($variant:ident => $design:ty),* $(,)?) => {
+        /// A unit of work: one design's request.
+        #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+        #[serde(tag = "design", content = "request", rename_all = "kebab-case")]
+        pub enum Job {
+            $(
+                #[allow(missing_docs)]
+                $variant(<$design as Design>::Request),
+            )*
+        }
+
+        /// The report of any job.
+        #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+        #[serde(tag = "design", content = "report", rename_all = "kebab-case")]
+        pub enum Report {
+            $(
+                #[allow(missing_docs)]
+                $variant(<$design as Design>::Report),
+            )*
+        }
+
+        impl Job {
+            /// The design of the job.
+            pub fn key(&self) -> DesignKey {
+                match self {
+                    $(Job::$variant(_) => <$design as Design>::KEY,)*
+                }
+            }
+
+            /// Checks the job before any work starts.
+            pub fn check(&self) -> Result<(), Error> {
+                match self {
+                    $(Job::$variant(r) => <$design as Design>::check(r),)*
+                }
+            }
+
+            /// Runs the job.
+            pub fn run(&self, progress: ProgressFn) -> Result<Report, Error> {
+                Ok(match self {
+                    $(Job::$variant(r) => Report::$variant(<$design as Design>::run(r, progress)?),)*
+                })
+            }
+
+            /// The pasted table the job reads ("" when it reads none).
+            pub fn data(&self) -> &str {
+                match self {
+                    $(Job::$variant(r) => <$design as Design>::data(r),)*
+                }
+            }
+
+            /// Removes the data (and typed counts), keeping the settings.
+            pub fn clear_data(&mut self) {
+                match self {
+                    $(Job::$variant(r) => <$design as Design>::clear_data(r),)*
+                }
+            }
+
+            /// Whether the job carries what it analyses (a settings-only link does not).
+            pub fn has_data(&self) -> bool {
+                match self {
+                    $(Job::$variant(r) => <$design as Design>::has_data(r),)*
+                }
+            }
+
+            /// The seed of the job's random streams.
+            pub fn seed(&self) -> u64 {
+                match self {
+                    $(Job::$variant(r) => <$design as Design>::seed(r),)*
+                }
+            }
+        }
+
+        impl Report {
+            /// The design of the report.
+            pub fn key(&self) -> DesignKey {
+                match self {
+                    $(Report::$variant(_) => <$design as Design>::KEY,)*
+                }
+            }
+        }
+    };
 }
 
-/// The report of any job.
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
-#[serde(tag = "job", content = "report", rename_all = "kebab-case")]
-pub enum AnyReport {
-    Compare(designs::two_groups::Report),
-    Estimate(crate::designs::estimate::EstimateReport),
-    Paired(crate::designs::paired::PairedReport),
-    Association(crate::designs::association::AssocReport),
-    KGroups(crate::designs::k_groups::KGroupsReport),
-    Stratified(crate::designs::stratified::StrataReport),
-    YesNo(crate::designs::yes_no::YesNoReport),
-    Plan(crate::designs::plan::PlanReport),
+registry! {
+    TwoGroups => designs::two_groups::TwoGroupsDesign,
+    Paired => designs::paired::PairedDesign,
+    OneSample => designs::one_sample::OneSampleDesign,
+    Association => designs::association::AssociationDesign,
+    KGroups => designs::k_groups::KGroupsDesign,
+    Stratified => designs::stratified::StratifiedDesign,
+    YesNo => designs::yes_no::YesNoDesign,
+    Estimate => designs::estimate::EstimateDesign,
+    Plan => designs::plan::PlanningDesign,
 }
 
-impl Job {
-    /// Runs the job with the engine.
-    pub fn run(&self, progress: ProgressFn) -> Result<AnyReport, RunError> {
-        Ok(match self {
-            Job::Compare(r) => AnyReport::Compare(crate::designs::two_groups::run(r, progress)?),
-            Job::Estimate(r) => AnyReport::Estimate(crate::designs::estimate::run(r, progress)?),
-            Job::Paired(r) => AnyReport::Paired(crate::designs::paired::run(r, progress)?),
-            Job::Association(r) => {
-                AnyReport::Association(crate::designs::association::run(r, progress)?)
-            }
-            Job::KGroups(r) => AnyReport::KGroups(crate::designs::k_groups::run(r, progress)?),
-            Job::Stratified(r) => {
-                AnyReport::Stratified(crate::designs::stratified::run(r, progress)?)
-            }
-            Job::YesNo(r) => AnyReport::YesNo(crate::designs::yes_no::run(r, progress)?),
-            Job::Plan(r) => AnyReport::Plan(crate::designs::plan::run(r, progress)?),
-        })
-    }
+/// A job as saved and linked: the format version beside the design and its request.
+#[derive(Serialize)]
+struct SavedRef<'a> {
+    format_version: u32,
+    #[serde(flatten)]
+    job: &'a Job,
+}
 
-    pub fn format_version(&self) -> u32 {
-        match self {
-            Job::Compare(r) => r.format_version,
-            Job::Estimate(r) => r.format_version,
-            Job::Paired(r) => r.format_version,
-            Job::Association(r) => r.format_version,
-            Job::KGroups(r) => r.format_version,
-            Job::Stratified(r) => r.format_version,
-            Job::YesNo(r) => r.format_version,
-            Job::Plan(r) => r.format_version,
-        }
-    }
+/// The job as a saved analysis (compact JSON).
+pub fn write_job(job: &Job) -> String {
+    serde_json::to_string(&SavedRef {
+        format_version: FORMAT_VERSION,
+        job,
+    })
+    .unwrap_or_default()
+}
 
-    pub fn seed(&self) -> u64 {
-        match self {
-            Job::Compare(r) => r.seed,
-            Job::Estimate(r) => r.seed,
-            Job::Paired(r) => r.seed,
-            Job::Association(r) => r.seed,
-            Job::KGroups(r) => r.settings.seed,
-            Job::Stratified(r) => r.settings.seed,
-            Job::YesNo(r) => r.settings.seed,
-            Job::Plan(r) => r.seed,
-        }
-    }
+/// The job as a saved analysis file (indented JSON).
+pub fn write_job_pretty(job: &Job) -> String {
+    serde_json::to_string_pretty(&SavedRef {
+        format_version: FORMAT_VERSION,
+        job,
+    })
+    .unwrap_or_default()
+}
 
-    /// The pasted table the job reads ("" when it reads none).
-    pub fn data(&self) -> &str {
-        match self {
-            Job::Compare(r) => &r.data,
-            Job::Estimate(r) => &r.data,
-            Job::Paired(r) => &r.data,
-            Job::Association(r) => &r.data,
-            Job::KGroups(r) => &r.data,
-            Job::Stratified(r) => &r.data,
-            Job::YesNo(r) => &r.data,
-            Job::Plan(r) => match &r.model {
-                crate::designs::plan::PlanModel::Pilot { data, .. } => data,
-                _ => "",
-            },
-        }
-    }
+/// A job read from a saved analysis, with the format version it was written in.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Read {
+    /// The job.
+    pub job: Job,
+    /// The format version it was written in (1 or 2).
+    pub version: u32,
+}
 
-    /// Removes the data (and typed counts), keeping the settings: for a settings-only link.
-    pub fn clear_data(&mut self) {
-        match self {
-            Job::Compare(r) => r.data.clear(),
-            Job::Estimate(r) => r.data.clear(),
-            Job::Paired(r) => r.data.clear(),
-            Job::Association(r) => r.data.clear(),
-            Job::KGroups(r) => r.data.clear(),
-            Job::Stratified(r) => r.data.clear(),
-            Job::YesNo(r) => {
-                r.data.clear();
-                if let crate::designs::yes_no::YesNoInput::Counts { groups } = &mut r.input {
-                    for g in groups {
-                        (g.yes, g.n) = (0, 0);
-                    }
-                }
+/// Reads a saved analysis of format version 2 or 1 (also a bare version-1 two-group request,
+/// as early versions of the command read them).
+pub fn read_job(text: &str) -> Result<Read, Error> {
+    let value: Value = serde_json::from_str(text).map_err(|e| {
+        Error::new(
+            ErrorKind::Link,
+            format!("This is not a saved Reshuffle analysis: it is not valid JSON ({e})."),
+        )
+    })?;
+    read_value(value)
+}
+
+/// Reads a saved analysis already parsed as JSON.
+pub fn read_value(value: Value) -> Result<Read, Error> {
+    let top = value.get("format_version").and_then(Value::as_u64);
+    let inner = value
+        .get("request")
+        .and_then(|r| r.get("format_version"))
+        .and_then(Value::as_u64);
+    match (top, inner) {
+        (Some(2), _) => {
+            let mut v = value;
+            if let Some(m) = v.as_object_mut() {
+                m.remove("format_version");
             }
-            Job::Plan(r) => {
-                if let crate::designs::plan::PlanModel::Pilot { data, .. } = &mut r.model {
-                    data.clear();
-                }
-            }
+            let job: Job = serde_json::from_value(v).map_err(|e| {
+                Error::new(
+                    ErrorKind::Link,
+                    format!("The analysis could not be read ({e})."),
+                )
+            })?;
+            Ok(Read { job, version: 2 })
         }
+        (Some(1), None) | (None, Some(1)) => Ok(Read {
+            job: v1::read(value)?,
+            version: 1,
+        }),
+        (Some(v), _) | (None, Some(v)) => Err(Error::new(
+            ErrorKind::Version,
+            format!(
+                "This analysis was saved in format version {v}; this version of Reshuffle \
+                 reads versions 1 and {FORMAT_VERSION}. Open it with a newer Reshuffle, or \
+                 enter the settings again."
+            ),
+        )),
+        (None, None) => Err(Error::new(
+            ErrorKind::Link,
+            "This is not a saved Reshuffle analysis (it names no format version).",
+        )),
     }
+}
 
-    /// Whether the job carries what it analyses (a settings-only link does not).
-    pub fn has_data(&self) -> bool {
-        match self {
-            Job::YesNo(r) => match &r.input {
-                crate::designs::yes_no::YesNoInput::Counts { groups } => {
-                    groups.iter().all(|g| g.n > 0)
-                }
-                _ => !r.data.trim().is_empty(),
-            },
-            Job::Plan(r) => {
-                !matches!(r.model, crate::designs::plan::PlanModel::Pilot { .. })
-                    || !self.data().trim().is_empty()
-            }
-            j => !j.data().trim().is_empty(),
-        }
+/// A report as the command prints it: format and engine version, design, report.
+pub fn report_json(report: &Report) -> String {
+    #[derive(Serialize)]
+    struct Out<'a> {
+        format_version: u32,
+        engine_version: &'a str,
+        #[serde(flatten)]
+        report: &'a Report,
     }
+    serde_json::to_string_pretty(&Out {
+        format_version: FORMAT_VERSION,
+        engine_version: ENGINE_VERSION,
+        report,
+    })
+    .unwrap_or_default()
 }
 
 /// Messages from the worker to the page.
@@ -147,11 +228,47 @@ impl Job {
 pub enum WorkerMessage {
     /// The worker has loaded and takes requests.
     Ready,
+    /// A step of the run.
     Progress(Progress),
+    /// The report.
     Done {
-        report: Box<AnyReport>,
+        /// The report.
+        report: Box<Report>,
     },
+    /// The run stopped with an error.
     Failed {
-        message: String,
+        /// What went wrong.
+        error: Error,
     },
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::designs::two_groups::TwoGroupsRequest;
+
+    #[test]
+    fn saved_jobs_round_trip_and_name_their_version() {
+        let job = Job::TwoGroups(TwoGroupsRequest::new("y,g\n1,a\n2,b\n".into(), 5));
+        let text = write_job(&job);
+        assert!(
+            text.starts_with("{\"format_version\":2,\"design\":\"two-groups\""),
+            "{text}"
+        );
+        let back = read_job(&text).unwrap();
+        assert_eq!(back.job, job);
+        assert_eq!(back.version, 2);
+        assert_eq!(read_job(&write_job_pretty(&job)).unwrap().job, job);
+    }
+
+    #[test]
+    fn unknown_versions_and_foreign_json_are_refused_with_a_reason() {
+        let e = read_job("{\"format_version\":7,\"design\":\"two-groups\"}").unwrap_err();
+        assert_eq!(e.kind, ErrorKind::Version);
+        assert!(e.message.contains("format version 7"), "{e}");
+        let e = read_job("[1, 2, 3]").unwrap_err();
+        assert_eq!(e.kind, ErrorKind::Link);
+        let e = read_job("not json").unwrap_err();
+        assert!(e.message.contains("not valid JSON"), "{e}");
+    }
 }

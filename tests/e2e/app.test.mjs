@@ -28,6 +28,7 @@ const requests = [];
 
 before(async () => {
   assert.ok(fs.existsSync(path.join(dist, "index.html")), "dist/index.html missing: run trunk build --release first");
+  execFileSync("cargo", ["build", "--quiet", "--bin", "reshuffle"], { cwd: root, stdio: "inherit" });
   server = await serve(dist);
   base = `http://127.0.0.1:${server.address().port}/`;
   const userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), "reshuffle-chromium-"));
@@ -71,14 +72,14 @@ test("the demo analysis runs in the worker and shows the finding and both plots"
   assert.match(finding, /The mean yield_kg was 0\.\d+ higher in drip than in sprinkler \(95% CI \[/);
   assert.match(finding, /random relabellings of the groups \(p = \.0\d\d\)/);
   // Both figures are SVG with a title and a text alternative.
-  for (const id of ["#null-figure svg", "#boot-figure svg"]) {
+  for (const id of ["#figure-relabelling svg", "#figure-bootstrap svg"]) {
     const svg = await page.$(id);
     assert.ok(svg, `${id} missing`);
     assert.equal(await svg.getAttribute("role"), "img");
     assert.ok((await svg.$("title")) && (await svg.$("desc")), `${id} needs title and desc`);
   }
-  assert.ok((await page.$$("#null-figure rect")).length > 10, "histogram bars drawn");
-  assert.match(await page.textContent("#results"), /drip/);
+  assert.ok((await page.$$("#figure-relabelling rect")).length > 10, "histogram bars drawn");
+  assert.match(await page.textContent("#groups-table"), /drip/);
   assert.match(await page.textContent(".cautions"), /qualified statistician/);
   // The same seed gives the same numbers as the native command (checked in cli tests) and
   // as a second run here.
@@ -86,7 +87,7 @@ test("the demo analysis runs in the worker and shows the finding and both plots"
   await page.waitForSelector("#finding");
   assert.equal(await page.textContent("#finding"), finding);
   // The address bar is now a working link to this analysis.
-  assert.match(await page.evaluate(() => location.hash), /^#r1\./);
+  assert.match(await page.evaluate(() => location.hash), /^#r2\./);
   // Figures download as SVG and as PNG.
   const [svgDl] = await Promise.all([page.waitForEvent("download"), page.click("text=Figure: relabelling (SVG)")]);
   assert.match(fs.readFileSync(await svgDl.path(), "utf8"), /^<svg[^>]*role="img"/);
@@ -134,11 +135,9 @@ test("a long run shows progress and can be stopped", async () => {
 
 
 test("the page and the native command give bit-identical numbers for the same seed", async () => {
-  execFileSync("cargo", ["build", "--quiet", "--bin", "reshuffle"], { cwd: root, stdio: "inherit" });
-  const json = JSON.parse(execFileSync(path.join(root, "target/debug/reshuffle"), [
+  const json = nativeRun([
     "analyze", "demo-data/service-desk-minutes.tsv", "--columns", "north_desk,harbour_desk",
-    "--first", "harbour_desk", "--statistic", "median-difference", "--seed", "31337", "--json",
-  ], { cwd: root, encoding: "utf8" }));
+    "--first", "harbour_desk", "--statistic", "median-difference", "--seed", "31337"]);
   const { page } = await openPage();
   await page.selectOption("#example", "desks");
   await page.waitForFunction(() => /north_desk/.test(document.querySelector("#preview")?.textContent || ""));
@@ -148,16 +147,22 @@ test("the page and the native command give bit-identical numbers for the same se
   await page.fill("#seed", "31337");
   await page.click("#run");
   await page.waitForSelector("#finding", { timeout: 60000 });
-  const attr = async (name) => page.getAttribute("#findings", name);
-  // Rust's {:?} prints the shortest text that round-trips, like JSON does.
-  const some = (v) => (v === null ? "None" : `Some(${fmtF(v)})`);
-  const fmtF = (v) => (Number.isInteger(v) ? `${v}.0` : String(v));
-  assert.equal(await attr("data-observed"), fmtF(json.observed));
-  assert.equal(await attr("data-p-value"), fmtF(json.p_value));
-  assert.equal(await attr("data-ci-low"), some(json.ci.low));
-  assert.equal(await attr("data-ci-high"), some(json.ci.high));
-  assert.equal(await attr("data-hedges-g"), some(json.hedges_g.estimate));
-  assert.equal(await attr("data-g-low"), some(json.hedges_g.ci.low));
+  // Rust's {:?} prints the shortest text that round-trips, as JSON does, so the page's
+  // full-precision attributes parse back to the very same doubles.
+  assert.equal(await num(page, "data-estimate"), json.effect);
+  assert.equal(await num(page, "data-p-value"), json.p_value);
+  assert.equal(await num(page, "data-ci-low"), json.ci.low);
+  assert.equal(await num(page, "data-ci-high"), json.ci.high);
+  // The page's report data file holds the same report as the command's --json, number for number.
+  const [dl] = await Promise.all([page.waitForEvent("download"), page.click("#download-json")]);
+  const fromPage = JSON.parse(fs.readFileSync(await dl.path(), "utf8"));
+  assert.equal(fromPage.format_version, 2);
+  // The page also keeps every resampled value (for its values download); the command keeps
+  // them only when asked. Everything else is the same.
+  const { null_values, bootstrap_values, ...rest } = fromPage.report;
+  assert.equal(bootstrap_values.length, json.bootstrap_resamples);
+  assert.equal(null_values.length, json.resamples);
+  assert.deepEqual(rest, json.envelope.report);
   assert.equal(await page.textContent("#finding"), json.finding);
   await page.close();
 });
@@ -181,29 +186,27 @@ test("markup in the data is shown as text, never run", async () => {
 });
 
 test("estimate only: every interval method, and the same numbers as the native command", async () => {
-  execFileSync("cargo", ["build", "--quiet", "--bin", "reshuffle"], { cwd: root, stdio: "inherit" });
-  const json = JSON.parse(execFileSync(path.join(root, "target/debug/reshuffle"), [
+  const json = nativeRun([
     "estimate", "demo-data/tomato-irrigation.csv", "--value", "yield_kg", "--estimate", "median",
-    "--interval", "all", "--seed", "777", "--json",
-  ], { cwd: root, encoding: "utf8" }));
+    "--interval", "all", "--seed", "777"]);
   const { page, errors } = await openPage();
   await page.check("#mode-estimate");
   await page.selectOption("#est-kind", "median");
   await page.click("details:has(#seed) > summary");
   await page.fill("#seed", "777");
   await page.click("#run");
-  await page.waitForSelector("#estimate-finding", { timeout: 60000 });
-  assert.match(await page.textContent("#estimate-finding"), /^The median of yield_kg is /);
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  assert.match(await page.textContent("#finding"), /^The median of yield_kg is /);
   const rows = await page.$$eval("#interval-table tbody tr", (trs) => trs.map((t) => t.textContent));
   assert.equal(rows.length, 5);
   for (const name of ["BCa", "percentile", "basic", "normal", "studentized"]) {
     assert.ok(rows.some((r) => r.includes(name)), `${name} row`);
   }
   const some = (v) => (v === null ? "None" : `Some(${Number.isInteger(v) ? `${v}.0` : String(v)})`);
-  assert.equal(await page.getAttribute("#estimate-findings", "data-low"), some(json.intervals[0].low));
-  assert.equal(await page.getAttribute("#estimate-findings", "data-high"), some(json.intervals[0].high));
-  assert.equal(await page.textContent("#estimate-finding"), json.finding);
-  assert.ok(await page.$("#est-figure svg title"));
+  assert.equal(await num(page, "data-ci-low"), json.intervals[0].low);
+  assert.equal(await num(page, "data-ci-high"), json.intervals[0].high);
+  assert.equal(await page.textContent("#finding"), json.finding);
+  assert.ok(await page.$("#figure-bootstrap svg title"));
   await page.screenshot({ path: path.join(out, "estimate.png"), fullPage: true });
   assert.deepEqual(errors, []);
   await page.close();
@@ -213,30 +216,59 @@ function native(args) {
   return execFileSync(path.join(root, "target/debug/reshuffle"), args, { cwd: root, encoding: "utf8", maxBuffer: 256 * 1024 * 1024 });
 }
 
+// The native command's report for `args`: the fields of its --json report (format version 2:
+// {format_version, engine_version, design, report}), the whole envelope, and the finding, the
+// first line of its plain-text output.
+function nativeRun(args) {
+  const envelope = JSON.parse(native([...args, "--json"]));
+  assert.equal(envelope.format_version, 2);
+  const finding = native(args).split("\n")[0];
+  return { ...envelope.report, envelope, finding };
+}
+
+// A full-precision number the page writes on #findings (empty when there is none).
+async function num(page, name) {
+  const v = await page.getAttribute("#findings", name);
+  return v === "" || v === null ? null : Number(v);
+}
+
 test("a share link restores the page and reproduces the sender's numbers", async () => {
-  execFileSync("cargo", ["build", "--quiet", "--bin", "reshuffle"], { cwd: root, stdio: "inherit" });
   const opts = ["demo-data/service-desk-minutes.tsv", "--columns", "north_desk,harbour_desk", "--statistic", "welch-t",
     "--alternative", "less", "--seed", "8080", "--resamples", "20000", "--bootstrap", "4000"];
   const link = native(["link", ...opts, "--base", base]).trim();
-  const json = JSON.parse(native(["analyze", ...opts, "--json"]));
+  const json = nativeRun(["analyze", ...opts]);
   const page = await context.newPage();
   await page.goto(link);
   await page.waitForSelector("#finding", { timeout: 60000 });
   assert.equal(await page.textContent("#finding"), json.finding);
-  assert.equal(await page.getAttribute("#findings", "data-p-value"), String(json.p_value));
+  assert.equal(await num(page, "data-p-value"), json.p_value);
   // The settings were restored, and the address bar stays a working link.
   assert.equal(await page.inputValue("#seed"), "8080");
-  assert.match(await page.evaluate(() => location.hash), /^#r1\./);
+  assert.match(await page.evaluate(() => location.hash), /^#r2\./);
   // The page's own link for the same analysis gives the same numbers in a fresh tab.
   await page.click("#copy-link");
   const own = await page.inputValue("#share-link");
-  assert.ok(own.startsWith(base + "#r1."), own);
+  assert.ok(own.startsWith(base + "#r2."), own);
   const again = await context.newPage();
   await again.goto(own);
   await again.waitForSelector("#finding", { timeout: 60000 });
   assert.equal(await again.textContent("#finding"), json.finding);
   await again.close();
   await page.close();
+});
+
+test("share links of format version 1 keep opening with the same numbers", async () => {
+  // Pinned links made by the version-1 page (tests/fixtures/v1/links) and the reports they gave.
+  for (const name of ["two-groups-desks-welch-less", "k-groups-adhesive", "yes-no-seeds", "paired-sleep-exact"]) {
+    const link = fs.readFileSync(path.join(root, "tests/fixtures/v1/links", name + ".txt"), "utf8").trim();
+    const pinned = JSON.parse(fs.readFileSync(path.join(root, "tests/fixtures/v1/reports", name + ".json"), "utf8"));
+    const page = await context.newPage();
+    await page.goto(base + link.slice(link.indexOf("#")));
+    await page.waitForSelector("#finding", { timeout: 90000 });
+    assert.equal(await num(page, "data-p-value"), pinned.p_value, name);
+    assert.equal(await num(page, "data-ci-low"), pinned.ci.low, name);
+    await page.close();
+  }
 });
 
 test("damaged or hostile links give a message and a working page; nothing from a link runs", async () => {
@@ -246,6 +278,13 @@ test("damaged or hostile links give a message and a working page; nothing from a
   await page.goto(base + "#r1.this-is-not-a-real-code");
   await page.waitForSelector("#run:not([disabled])");
   assert.match(await page.textContent("#link-error"), /damaged/);
+  // A version-2 link with one character of its payload changed fails its integrity check.
+  const good = native(["link", "demo-data/tomato-irrigation.csv", "--seed", "3", "--base", base]).trim();
+  const at = good.indexOf("#r2.") + 10;
+  const flipped = good.slice(0, at) + (good[at] === "A" ? "B" : "A") + good.slice(at + 1);
+  await page.goto(flipped);
+  await page.reload();
+  await page.waitForFunction(() => /changed or cut/.test(document.querySelector("#link-error")?.textContent || ""));
   await page.goto(base + "#r9.abc");
   await page.reload();
   await page.waitForFunction(() => /newer version/.test(document.querySelector("#link-error")?.textContent || ""));
@@ -323,7 +362,7 @@ test("reports and analysis files: download, save and reopen", async () => {
   await p2.waitForSelector("#finding", { timeout: 60000 });
   assert.equal(await p2.textContent("#finding"), finding);
   // The saved file is what the native command reads with --request.
-  const json = JSON.parse(native(["analyze", "--request", file, "--json"]));
+  const json = nativeRun(["analyze", "--request", file]);
   assert.equal(json.finding, finding);
   await p2.close();
   await page.close();
@@ -359,8 +398,8 @@ test("the single-file build works from disk with no server and no network", asyn
 
 test("paired and one-sample designs in the page match the native command", async () => {
   const csv = fs.readFileSync(path.join(root, "tests/reference/data/sleep-paired.csv"), "utf8");
-  const json = JSON.parse(native(["analyze", "tests/reference/data/sleep-paired.csv", "--design", "paired",
-    "--columns", "drug2,drug1", "--seed", "55", "--json"]));
+  const json = nativeRun(["analyze", "tests/reference/data/sleep-paired.csv", "--design", "paired",
+    "--columns", "drug2,drug1", "--seed", "55"]);
   const { page, errors } = await openPage();
   await page.fill("#data", csv);
   await page.check("input[name=layout][value=wide]");
@@ -371,20 +410,20 @@ test("paired and one-sample designs in the page match the native command", async
   await page.click("details:has(#seed) > summary");
   await page.fill("#seed", "55");
   await page.click("#run");
-  await page.waitForSelector("#paired-finding", { timeout: 60000 });
-  assert.equal(await page.textContent("#paired-finding"), json.finding);
-  assert.equal(await page.getAttribute("#paired-findings", "data-p-value"), String(json.p_value));
-  assert.match(await page.textContent("#paired-results"), /Wilcoxon/);
-  assert.ok(await page.$("#flip-figure svg title"));
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  assert.equal(await page.textContent("#finding"), json.finding);
+  assert.equal(await num(page, "data-p-value"), json.p_value);
+  assert.match(await page.textContent("#findings"), /Wilcoxon/);
+  assert.ok(await page.$("#figure-sign-flips svg title"));
   // One sample against a reference value.
-  const one = JSON.parse(native(["analyze", "tests/reference/data/sleep-paired.csv", "--design", "one-sample",
-    "--value", "drug1", "--reference", "0.5", "--statistic", "median", "--seed", "55", "--json"]));
+  const one = nativeRun(["analyze", "tests/reference/data/sleep-paired.csv", "--design", "one-sample",
+    "--value", "drug1", "--reference", "0.5", "--statistic", "median", "--seed", "55"]);
   await page.selectOption("#design", "one-sample");
   await page.selectOption("#one-value", "drug1");
   await page.fill("#reference", "0.5");
   await page.selectOption("#flip-stat", "median");
   await page.click("#run");
-  await page.waitForFunction((f) => document.querySelector("#paired-finding")?.textContent === f, one.finding, { timeout: 60000 });
+  await page.waitForFunction((f) => document.querySelector("#finding")?.textContent === f, one.finding, { timeout: 60000 });
   await page.screenshot({ path: path.join(out, "paired.png"), fullPage: true });
   assert.deepEqual(errors, []);
   await page.close();
@@ -392,8 +431,8 @@ test("paired and one-sample designs in the page match the native command", async
 
 test("association in the page matches the native command and draws a scatter plot", async () => {
   const csv = fs.readFileSync(path.join(root, "tests/reference/data/cars.csv"), "utf8");
-  const json = JSON.parse(native(["analyze", "tests/reference/data/cars.csv", "--design", "association",
-    "--x", "speed", "--y", "dist", "--statistic", "spearman", "--seed", "66", "--json"]));
+  const json = nativeRun(["analyze", "tests/reference/data/cars.csv", "--design", "association",
+    "--x", "speed", "--y", "dist", "--statistic", "spearman", "--seed", "66"]);
   const { page, errors } = await openPage();
   await page.fill("#data", csv);
   await page.selectOption("#design", "association");
@@ -403,10 +442,10 @@ test("association in the page matches the native command and draws a scatter plo
   await page.click("details:has(#seed) > summary");
   await page.fill("#seed", "66");
   await page.click("#run");
-  await page.waitForSelector("#assoc-finding", { timeout: 60000 });
-  assert.equal(await page.textContent("#assoc-finding"), json.finding);
-  assert.equal(await page.getAttribute("#assoc-findings", "data-ci-low"), `Some(${json.ci.low})`);
-  assert.equal((await page.$$("#scatter-figure circle")).length, 50);
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  assert.equal(await page.textContent("#finding"), json.finding);
+  assert.equal(await num(page, "data-ci-low"), json.ci.low);
+  assert.equal((await page.$$("#figure-scatter circle")).length, 50);
   assert.match(await page.textContent(".cautions"), /not causation/);
   await page.screenshot({ path: path.join(out, "association.png"), fullPage: true });
   assert.deepEqual(errors, []);
@@ -440,11 +479,6 @@ test("the page makes no request beyond its own files", async () => {
   assert.deepEqual(foreign, []);
 });
 
-// Rust's {:?} of an f64 (the page's data attributes) and JSON's number text agree except for
-// whole numbers ("1.0" against 1).
-const rustF = (v) => (Number.isInteger(v) ? `${v}.0` : String(v));
-const rustOpt = (v) => (v === null ? "None" : `Some(${rustF(v)})`);
-
 async function runWithSeed(page, seed) {
   if (!(await page.isVisible("#seed"))) await page.click("details:has(#seed) > summary");
   await page.fill("#seed", String(seed));
@@ -452,21 +486,21 @@ async function runWithSeed(page, seed) {
 }
 
 test("k groups: suggested from the table, same numbers as the native command, adjusted comparisons", async () => {
-  const json = JSON.parse(native(["analyze", "demo-data/adhesive-shear-strength.csv", "--design", "k-groups", "--seed", "21", "--json"]));
+  const json = nativeRun(["analyze", "demo-data/adhesive-shear-strength.csv", "--design", "k-groups", "--seed", "21"]);
   const { page, errors } = await openPage();
   await page.selectOption("#example", "adhesives");
   await page.waitForFunction(() => document.querySelector("#design").value === "k-groups");
   assert.match(await page.textContent("#suggestion"), /names 4 groups/);
   await runWithSeed(page, 21);
-  await page.waitForSelector("#k-findings", { timeout: 90000 });
-  assert.equal(await page.textContent("#doc-finding"), json.finding);
-  assert.equal(await page.getAttribute("#k-findings", "data-p-value"), rustF(json.p_value));
-  assert.equal(await page.getAttribute("#k-findings", "data-ci-low"), rustOpt(json.ci.low));
+  await page.waitForSelector("#findings", { timeout: 90000 });
+  assert.equal(await page.textContent("#finding"), json.finding);
+  assert.equal(await num(page, "data-p-value"), json.p_value);
+  assert.equal(await num(page, "data-ci-low"), json.ci.low);
   const rows = await page.$$eval("#pairwise-table tbody tr", (trs) => trs.map((t) => t.textContent));
   assert.equal(rows.length, 6);
   assert.match(await page.textContent("#pairwise-table thead"), /Holm p.*BH p/);
   assert.match(await page.textContent(".cautions"), /family-wise error.*false discovery rate/s);
-  for (const id of ["#doc-figure-1", "#doc-figure-2", "#doc-figure-3"]) {
+  for (const id of ["#figure-groups", "#figure-relabelling", "#figure-bootstrap"]) {
     assert.ok(await page.$(`${id} svg title`), `${id} has a title`);
   }
   await page.screenshot({ path: path.join(out, "k-groups.png"), fullPage: true });
@@ -480,17 +514,17 @@ test("k groups: suggested from the table, same numbers as the native command, ad
 });
 
 test("stratified: the reversal the strata hide, and the native command's numbers", async () => {
-  const json = JSON.parse(native(["analyze", "demo-data/coating-wear-by-line.csv", "--design", "stratified",
-    "--value", "wear_um", "--group", "coating", "--strata", "line", "--seed", "22", "--json"]));
+  const json = nativeRun(["analyze", "demo-data/coating-wear-by-line.csv", "--design", "stratified",
+    "--value", "wear_um", "--group", "coating", "--strata", "line", "--seed", "22"]);
   const { page, errors } = await openPage();
   await page.selectOption("#example", "coatings");
   await page.waitForFunction(() => document.querySelector("#design").value === "stratified");
   assert.equal(await page.inputValue("#strata-col"), "line");
   await runWithSeed(page, 22);
-  await page.waitForSelector("#strata-findings", { timeout: 90000 });
-  assert.equal(await page.textContent("#doc-finding"), json.finding);
+  await page.waitForSelector("#findings", { timeout: 90000 });
+  assert.equal(await page.textContent("#finding"), json.finding);
   assert.match(json.finding, /With the strata ignored, the difference would be 3\.\d/);
-  assert.equal(await page.getAttribute("#strata-findings", "data-p-value"), rustF(json.p_value));
+  assert.equal(await num(page, "data-p-value"), json.p_value);
   assert.equal((await page.$$("#strata-table tbody tr")).length, 4);
   assert.match(await page.textContent(".cautions"), /Simpson's paradox/);
   await page.screenshot({ path: path.join(out, "stratified.png"), fullPage: true });
@@ -499,32 +533,32 @@ test("stratified: the reversal the strata hide, and the native command's numbers
 });
 
 test("yes/no outcomes from a column and from typed counts; bad counts get a message", async () => {
-  const json = JSON.parse(native(["analyze", "demo-data/seed-germination.csv", "--design", "yes-no",
-    "--value", "germinated", "--group", "storage", "--seed", "23", "--json"]));
+  const json = nativeRun(["analyze", "demo-data/seed-germination.csv", "--design", "yes-no",
+    "--value", "germinated", "--group", "storage", "--seed", "23"]);
   const { page, errors } = await openPage();
   await page.selectOption("#example", "seeds");
   await page.waitForFunction(() => document.querySelector("#design").value === "yes-no");
   await runWithSeed(page, 23);
-  await page.waitForSelector("#yes-no-findings", { timeout: 90000 });
-  assert.equal(await page.textContent("#doc-finding"), json.finding);
-  assert.equal(await page.getAttribute("#yes-no-findings", "data-ci-high"), rustOpt(json.ci.high));
-  assert.match(await page.textContent("#doc-results"), /Fisher's exact test/);
-  assert.ok((await page.$$("#doc-figure-1 rect")).length > 10, "the exact distribution is drawn");
+  await page.waitForSelector("#findings", { timeout: 90000 });
+  assert.equal(await page.textContent("#finding"), json.finding);
+  assert.equal(await num(page, "data-ci-high"), json.ci.high);
+  assert.match(await page.textContent("#findings"), /Fisher's exact test/);
+  assert.ok((await page.$$("#figure-tables rect")).length > 10, "the exact distribution is drawn");
   // Counts typed in, with a risk ratio.
-  const counts = JSON.parse(native(["analyze", "--design", "yes-no", "--counts", "old: 42/300, new: 61/310",
-    "--statistic", "risk-ratio", "--seed", "23", "--json"]));
+  const counts = nativeRun(["analyze", "--design", "yes-no", "--counts", "old: 42/300, new: 61/310",
+    "--statistic", "risk-ratio", "--seed", "23"]);
   await page.check("#yn-counts-choice");
   await page.fill("#counts", "old: 42/300, new: 61/310");
   await page.selectOption("#yn-stat", "risk-ratio");
   await page.click("#run");
-  await page.waitForFunction((f) => document.querySelector("#doc-finding")?.textContent === f, counts.finding, { timeout: 60000 });
+  await page.waitForFunction((f) => document.querySelector("#finding")?.textContent === f, counts.finding, { timeout: 60000 });
   // Markup in typed group names is shown as text, never run.
   let dialogs = 0;
   page.on("dialog", async (d) => { dialogs += 1; await d.dismiss(); });
   await page.fill("#counts", "<img src=x onerror=alert(1)>: 3/20, <svg onload=alert(2)>: 9/21");
   await page.click("#run");
-  await page.waitForFunction(() => /<img src=x onerror=alert\(1\)>/.test(document.querySelector("#doc-finding")?.textContent || ""), null, { timeout: 60000 });
-  assert.equal(await page.$$eval("#yes-no-findings img", (els) => els.length), 0);
+  await page.waitForFunction(() => /<img src=x onerror=alert\(1\)>/.test(document.querySelector("#finding")?.textContent || ""), null, { timeout: 60000 });
+  assert.equal(await page.$$eval("#findings img", (els) => els.length), 0);
   assert.equal(dialogs, 0);
   // Counts that cannot be right: a specific message, and what was typed stays.
   await page.fill("#counts", "old: 42/30, new: 61/310");
@@ -543,8 +577,8 @@ test("paired data in long format are recognised by their unit column", async () 
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), "reshuffle-e2e-"));
   const file = path.join(dir, "long.csv");
   fs.writeFileSync(file, csv);
-  const json = JSON.parse(native(["analyze", file, "--design", "paired", "--value", "height", "--group", "time",
-    "--unit", "plant", "--first", "after", "--second", "before", "--seed", "24", "--json"]));
+  const json = nativeRun(["analyze", file, "--design", "paired", "--value", "height", "--group", "time",
+    "--unit", "plant", "--first", "after", "--second", "before", "--seed", "24"]);
   const { page, errors } = await openPage();
   await page.fill("#data", csv);
   await page.waitForFunction(() => document.querySelector("#design").value === "paired");
@@ -552,8 +586,8 @@ test("paired data in long format are recognised by their unit column", async () 
   await page.selectOption("#first", "after");
   await page.selectOption("#second", "before");
   await runWithSeed(page, 24);
-  await page.waitForSelector("#paired-finding", { timeout: 60000 });
-  assert.equal(await page.textContent("#paired-finding"), json.finding);
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  assert.equal(await page.textContent("#finding"), json.finding);
   assert.deepEqual(errors, []);
   await page.close();
 });
@@ -562,11 +596,11 @@ test("a link to a k-group analysis reproduces it in a fresh page", async () => {
   const opts = ["demo-data/adhesive-shear-strength.csv", "--design", "k-groups", "--control", "acrylic",
     "--statistic", "median-spread", "--seed", "25", "--resamples", "20000", "--bootstrap", "2000"];
   const link = native(["link", ...opts, "--base", base]).trim();
-  const json = JSON.parse(native(["analyze", ...opts, "--json"]));
+  const json = nativeRun(["analyze", ...opts]);
   const page = await context.newPage();
   await page.goto(link);
-  await page.waitForSelector("#k-findings", { timeout: 90000 });
-  assert.equal(await page.textContent("#doc-finding"), json.finding);
+  await page.waitForSelector("#findings", { timeout: 90000 });
+  assert.equal(await page.textContent("#finding"), json.finding);
   assert.equal(await page.inputValue("#design"), "k-groups");
   assert.equal(await page.inputValue("#control"), "acrylic");
   assert.equal(await page.inputValue("#k-stat"), "median-spread");
@@ -574,32 +608,32 @@ test("a link to a k-group analysis reproduces it in a fresh page", async () => {
 });
 
 test("planning: sample size and detectable effect by simulation, same numbers as the native command", async () => {
-  const json = JSON.parse(native(["plan", "--design", "two-groups", "--sd", "1", "--effect", "0.5", "--mde-n", "30",
-    "--seed", "26", "--json"]));
+  const json = nativeRun(["plan", "--design", "two-groups", "--sd", "1", "--effect", "0.5", "--mde-n", "30",
+    "--seed", "26"]);
   const { page, errors } = await openPage();
   await page.check("#mode-plan");
   await page.fill("#plan-mde-n", "30");
   await runWithSeed(page, 26);
-  await page.waitForSelector("#plan-findings", { timeout: 120000 });
-  assert.equal(await page.textContent("#doc-finding"), json.sentences[0]);
-  assert.equal(await page.getAttribute("#plan-findings", "data-ci-low"), rustOpt(json.smoothed.n));
-  assert.match(await page.textContent("#plan-findings"), /What was traded for speed/);
-  assert.match(await page.textContent("#plan-findings"), /smallest difference in means .* detectable with 80% power/);
-  assert.ok((await page.$$("#doc-figure-1 circle")).length >= 5, "power curve points drawn");
+  await page.waitForSelector("#findings", { timeout: 120000 });
+  assert.equal(await page.textContent("#finding"), json.finding);
+  assert.equal(await num(page, "data-ci-low"), json.smoothed.n);
+  assert.match(await page.textContent("#findings"), /What was traded for speed/);
+  assert.match(await page.textContent("#findings"), /smallest difference in means .* detectable with 80% power/);
+  assert.ok((await page.$$("#figure-power circle")).length >= 5, "power curve points drawn");
   assert.match(await page.textContent(".cautions"), /qualified statistician/);
   // Yes/no rates, and a link that reproduces the plan.
   await page.selectOption("#plan-design", "yes-no");
   await page.fill("#plan-baseline", "0.2");
   await page.fill("#plan-rate", "0.4");
   await page.click("#run");
-  await page.waitForFunction(() => /yes\/no outcomes, baseline rate 0\.2/.test(document.querySelector("#doc-results")?.textContent || ""), null, { timeout: 120000 });
-  const finding = await page.textContent("#doc-finding");
+  await page.waitForFunction(() => /yes\/no outcomes, baseline rate 0\.2/.test(document.querySelector("#findings")?.textContent || ""), null, { timeout: 120000 });
+  const finding = await page.textContent("#finding");
   await page.click("#copy-link");
   const link = await page.inputValue("#share-link");
   const again = await context.newPage();
   await again.goto(link);
-  await again.waitForSelector("#plan-findings", { timeout: 120000 });
-  assert.equal(await again.textContent("#doc-finding"), finding);
+  await again.waitForSelector("#findings", { timeout: 120000 });
+  assert.equal(await again.textContent("#finding"), finding);
   assert.equal(await again.inputValue("#plan-design"), "yes-no");
   await page.screenshot({ path: path.join(out, "plan.png"), fullPage: true });
   assert.deepEqual(errors, []);

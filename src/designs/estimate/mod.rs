@@ -2,171 +2,27 @@
 //! estimate, a two-group effect (independent or paired) or an association, with the
 //! bootstrap standard error and bias. No test is run.
 
+mod estimators;
+mod kinds;
+
 use serde::{Deserialize, Serialize};
 
-use super::two_groups::Request;
-use super::MAX_BOOTSTRAP;
-use crate::base::format as fmt;
 use crate::base::*;
 use crate::classical;
+use crate::designs::{Caution, Design, DesignKey, MAX_BOOTSTRAP};
 use crate::input::columns::paired_columns;
 use crate::input::columns::Layout;
 use crate::input::columns::{self as groups};
+use crate::input::table::Table;
 use crate::input::table::{self, HeaderChoice};
-use crate::input::table::{Table, TableError};
 use crate::num::binomial::clopper_pearson;
 use crate::num::stats;
-use crate::num::stats::ranks;
 use crate::resample::boot;
-use crate::resample::boot::{BoxedStat, Design, SeMethod, Stat, StatFn};
+use crate::resample::boot::{Design as Resampling, SeMethod, Stat, StatFn};
 use crate::resample::rng::RNG_NAME;
 use crate::resample::summary::histogram;
-
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum Estimate {
-    // One sample
-    Mean,
-    Median,
-    TrimmedMean,
-    Sd,
-    Cv,
-    Quantile,
-    Proportion,
-    // Two groups (first vs second)
-    MeanDifference,
-    MedianDifference,
-    TrimmedMeanDifference,
-    MeanRatio,
-    MedianRatio,
-    HedgesG,
-    CliffsDelta,
-    Superiority,
-    // Association
-    Pearson,
-    Spearman,
-    Slope,
-}
-
-/// What kind of data an estimate needs.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum Kind {
-    One,
-    Two,
-    Association,
-}
-
-impl Estimate {
-    pub const ALL: [Estimate; 18] = [
-        Estimate::Mean,
-        Estimate::Median,
-        Estimate::TrimmedMean,
-        Estimate::Sd,
-        Estimate::Cv,
-        Estimate::Quantile,
-        Estimate::Proportion,
-        Estimate::MeanDifference,
-        Estimate::MedianDifference,
-        Estimate::TrimmedMeanDifference,
-        Estimate::MeanRatio,
-        Estimate::MedianRatio,
-        Estimate::HedgesG,
-        Estimate::CliffsDelta,
-        Estimate::Superiority,
-        Estimate::Pearson,
-        Estimate::Spearman,
-        Estimate::Slope,
-    ];
-
-    pub fn key(self) -> &'static str {
-        match self {
-            Estimate::Mean => "mean",
-            Estimate::Median => "median",
-            Estimate::TrimmedMean => "trimmed-mean",
-            Estimate::Sd => "sd",
-            Estimate::Cv => "cv",
-            Estimate::Quantile => "quantile",
-            Estimate::Proportion => "proportion",
-            Estimate::MeanDifference => "mean-difference",
-            Estimate::MedianDifference => "median-difference",
-            Estimate::TrimmedMeanDifference => "trimmed-mean-difference",
-            Estimate::MeanRatio => "mean-ratio",
-            Estimate::MedianRatio => "median-ratio",
-            Estimate::HedgesG => "hedges-g",
-            Estimate::CliffsDelta => "cliffs-delta",
-            Estimate::Superiority => "superiority",
-            Estimate::Pearson => "pearson",
-            Estimate::Spearman => "spearman",
-            Estimate::Slope => "slope",
-        }
-    }
-
-    pub fn from_key(s: &str) -> Option<Estimate> {
-        Estimate::ALL.into_iter().find(|e| e.key() == s)
-    }
-
-    pub fn kind(self) -> Kind {
-        use Estimate::*;
-        match self {
-            Mean | Median | TrimmedMean | Sd | Cv | Quantile | Proportion => Kind::One,
-            Pearson | Spearman | Slope => Kind::Association,
-            _ => Kind::Two,
-        }
-    }
-
-    pub fn label(self, q: f64) -> String {
-        match self {
-            Estimate::Mean => "mean".into(),
-            Estimate::Median => "median".into(),
-            Estimate::TrimmedMean => "20% trimmed mean".into(),
-            Estimate::Sd => "standard deviation".into(),
-            Estimate::Cv => "coefficient of variation".into(),
-            Estimate::Quantile => format!("{} percentile", ordinal(q * 100.0)),
-            Estimate::Proportion => "proportion".into(),
-            Estimate::MeanDifference => "difference in means".into(),
-            Estimate::MedianDifference => "difference in medians".into(),
-            Estimate::TrimmedMeanDifference => "difference in 20% trimmed means".into(),
-            Estimate::MeanRatio => "ratio of means".into(),
-            Estimate::MedianRatio => "ratio of medians".into(),
-            Estimate::HedgesG => "Hedges' g".into(),
-            Estimate::CliffsDelta => "Cliff's delta".into(),
-            Estimate::Superiority => "probability of superiority".into(),
-            Estimate::Pearson => "Pearson correlation r".into(),
-            Estimate::Spearman => "Spearman correlation rho".into(),
-            Estimate::Slope => "least-squares slope".into(),
-        }
-    }
-
-    /// The range of possible values, for estimates that have one.
-    fn bounds(self) -> Option<(f64, f64)> {
-        match self {
-            Estimate::Proportion | Estimate::Superiority => Some((0.0, 1.0)),
-            Estimate::Pearson | Estimate::Spearman | Estimate::CliffsDelta => Some((-1.0, 1.0)),
-            Estimate::Sd => Some((0.0, f64::INFINITY)),
-            _ => None,
-        }
-    }
-}
-
-fn ordinal(p: f64) -> String {
-    let s = if (p - p.round()).abs() < 1e-9 {
-        format!("{}", p.round() as i64)
-    } else {
-        fmt::sig(p)
-    };
-    let suffix = if s.contains('.') {
-        "th"
-    } else {
-        match (p.round() as i64 % 100, p.round() as i64 % 10) {
-            (11..=13, _) => "th",
-            (_, 1) => "st",
-            (_, 2) => "nd",
-            (_, 3) => "rd",
-            _ => "th",
-        }
-    };
-    format!("{s}{suffix}")
-}
+pub(crate) use estimators::{estimator, se_formula};
+pub use kinds::*;
 
 /// Where the data for an estimate are.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
@@ -192,14 +48,21 @@ pub enum EstimateLayout {
     Pairs { x: String, y: String },
 }
 
+/// The estimate-only design.
+pub struct EstimateDesign;
+
+/// An estimate with bootstrap intervals, without a test.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct EstimateRequest {
-    pub format_version: u32,
+    /// The table as pasted.
     pub data: String,
+    /// Whether the first row holds column names.
     #[serde(default)]
     pub header: HeaderChoice,
+    /// Where the data are.
     pub layout: EstimateLayout,
+    /// What to estimate.
     pub estimate: Estimate,
     /// The quantile for `quantile`, in (0, 1).
     #[serde(default)]
@@ -207,10 +70,14 @@ pub struct EstimateRequest {
     /// Interval methods; the first is the headline. Empty: the default (BCa).
     #[serde(default)]
     pub methods: Vec<IntervalMethod>,
+    /// A two-sided interval or a one-sided bound.
     #[serde(default)]
     pub side: Side,
+    /// The confidence level.
     pub confidence: f64,
+    /// Bootstrap resamples.
     pub resamples: u64,
+    /// The seed.
     pub seed: u64,
     /// Return every bootstrap value (for a CSV download).
     #[serde(default)]
@@ -218,6 +85,7 @@ pub struct EstimateRequest {
 }
 
 impl EstimateRequest {
+    /// The defaults the page and the command start from.
     pub fn new(
         data: String,
         layout: EstimateLayout,
@@ -225,7 +93,6 @@ impl EstimateRequest {
         seed: u64,
     ) -> EstimateRequest {
         EstimateRequest {
-            format_version: FORMAT_VERSION,
             data,
             header: HeaderChoice::Detect,
             layout,
@@ -241,153 +108,81 @@ impl EstimateRequest {
     }
 }
 
+/// A sample and its size.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct SampleSize {
+    /// Its name (the column, the group, or "x and y").
     pub name: String,
+    /// Its size.
     pub n: usize,
 }
 
+/// What the estimate-only analysis found.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct EstimateReport {
-    pub format_version: u32,
-    pub engine_version: String,
+    /// What was estimated.
     pub estimate_key: Estimate,
-    pub estimate_label: String,
+    /// The quantile, for a quantile.
+    #[serde(default)]
+    pub q: Option<f64>,
+    /// The samples.
     pub samples: Vec<SampleSize>,
+    /// What was left out or needs care.
     pub notes: Vec<Note>,
+    /// The estimate.
     pub estimate: f64,
     /// Bootstrap standard error.
     pub se: Option<f64>,
     /// Bootstrap estimate of bias (mean of the resampled estimates minus the estimate).
     pub bias: Option<f64>,
+    /// Bootstrap resamples.
     pub resamples: u64,
+    /// The seed.
     pub seed: u64,
+    /// The generator.
     pub rng: String,
+    /// One interval per method, the headline first.
     pub intervals: Vec<Interval>,
-    /// Why the headline method is the default choice.
-    pub method_reason: String,
     /// A classical interval as a cross-check, where a standard one exists.
     pub classical: Option<Interval>,
+    /// The bootstrap values, binned.
     pub histogram: Histogram,
-    pub finding: String,
-    pub cautions: Vec<String>,
+    /// What to keep in mind.
+    pub cautions: Vec<Caution>,
     /// Every bootstrap value, in order (only when asked for).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub values: Option<Vec<f64>>,
 }
 
+impl Design for EstimateDesign {
+    const KEY: DesignKey = DesignKey::Estimate;
+    type Request = EstimateRequest;
+    type Report = EstimateReport;
+
+    fn check(req: &EstimateRequest) -> Result<(), Error> {
+        check(req, &mut Vec::new()).map(|_| ())
+    }
+
+    fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport, Error> {
+        run(req, progress)
+    }
+
+    fn data(req: &EstimateRequest) -> &str {
+        &req.data
+    }
+
+    fn clear_data(req: &mut EstimateRequest) {
+        req.data.clear();
+    }
+
+    fn seed(req: &EstimateRequest) -> u64 {
+        req.seed
+    }
+}
+
 // ----- statistics -------------------------------------------------------------------
 
-fn cliffs_counts(a: &[f64], b: &mut [f64]) -> (f64, f64) {
-    // (share of pairs with a > b, share with a == b)
-    b.sort_unstable_by(f64::total_cmp);
-    let (mut gt, mut eq) = (0usize, 0usize);
-    for &x in a.iter() {
-        let lo = b.partition_point(|&v| v < x);
-        let hi = b.partition_point(|&v| v <= x);
-        gt += lo;
-        eq += hi - lo;
-    }
-    let total = (a.len() * b.len()) as f64;
-    (gt as f64 / total, eq as f64 / total)
-}
-
-fn pearson(x: &[f64], y: &[f64]) -> f64 {
-    let (mx, my) = (stats::mean(x), stats::mean(y));
-    let (mut sxy, mut sxx, mut syy) = (0.0, 0.0, 0.0);
-    for (a, b) in x.iter().zip(y) {
-        sxy += (a - mx) * (b - my);
-        sxx += (a - mx) * (a - mx);
-        syy += (b - my) * (b - my);
-    }
-    sxy / (sxx * syy).sqrt()
-}
-
-fn slope(x: &[f64], y: &[f64]) -> f64 {
-    let (mx, my) = (stats::mean(x), stats::mean(y));
-    let (mut sxy, mut sxx) = (0.0, 0.0);
-    for (a, b) in x.iter().zip(y) {
-        sxy += (a - mx) * (b - my);
-        sxx += (a - mx) * (a - mx);
-    }
-    sxy / sxx
-}
-
-/// The estimate as a two-slice function (second slice empty for one sample).
-pub(crate) fn estimator(e: Estimate, q: f64) -> BoxedStat {
-    match e {
-        Estimate::Mean | Estimate::Proportion => Box::new(|a, _| stats::mean(a)),
-        Estimate::Median => Box::new(|a, _| stats::median_select(a)),
-        Estimate::TrimmedMean => Box::new(|a, _| stats::trimmed_mean_select(a)),
-        Estimate::Sd => Box::new(|a, _| stats::sd(a)),
-        Estimate::Cv => Box::new(|a, _| stats::sd(a) / stats::mean(a)),
-        Estimate::Quantile => Box::new(move |a, _| {
-            a.sort_unstable_by(f64::total_cmp);
-            stats::quantile_sorted(a, q)
-        }),
-        Estimate::MeanDifference => Box::new(|a, b| stats::mean(a) - stats::mean(b)),
-        Estimate::MedianDifference => {
-            Box::new(|a, b| stats::median_select(a) - stats::median_select(b))
-        }
-        Estimate::TrimmedMeanDifference => {
-            Box::new(|a, b| stats::trimmed_mean_select(a) - stats::trimmed_mean_select(b))
-        }
-        Estimate::MeanRatio => Box::new(|a, b| stats::mean(a) / stats::mean(b)),
-        Estimate::MedianRatio => Box::new(|a, b| stats::median_select(a) / stats::median_select(b)),
-        Estimate::HedgesG => Box::new(|a, b| stats::hedges_g(a, b)),
-        Estimate::CliffsDelta => Box::new(|a, b| {
-            let (gt, eq) = cliffs_counts(a, b);
-            gt - (1.0 - gt - eq)
-        }),
-        Estimate::Superiority => Box::new(|a, b| {
-            let (gt, eq) = cliffs_counts(a, b);
-            gt + 0.5 * eq
-        }),
-        Estimate::Pearson => Box::new(|x, y| pearson(x, y)),
-        Estimate::Spearman => Box::new(|x, y| pearson(&ranks(x), &ranks(y))),
-        Estimate::Slope => Box::new(|x, y| slope(x, y)),
-    }
-}
-
-/// A standard-error formula for the studentized interval, where one exists.
-pub(crate) fn se_formula(e: Estimate, paired: bool) -> Option<BoxedStat> {
-    match e {
-        Estimate::Mean | Estimate::Proportion => Some(Box::new(|a, _| {
-            (stats::variance(a) / a.len() as f64).sqrt()
-        })),
-        Estimate::TrimmedMean => Some(Box::new(|a, _| stats::trimmed_mean_se2(a).sqrt())),
-        Estimate::MeanDifference if paired => Some(Box::new(|a, b| {
-            let d: Vec<f64> = a.iter().zip(b.iter()).map(|(x, y)| x - y).collect();
-            (stats::variance(&d) / d.len() as f64).sqrt()
-        })),
-        Estimate::MeanDifference => Some(Box::new(|a, b| {
-            (stats::variance(a) / a.len() as f64 + stats::variance(b) / b.len() as f64).sqrt()
-        })),
-        Estimate::TrimmedMeanDifference if !paired => Some(Box::new(|a, b| {
-            (stats::trimmed_mean_se2(a) + stats::trimmed_mean_se2(b)).sqrt()
-        })),
-        Estimate::Slope => Some(Box::new(|x, y| {
-            let n = x.len() as f64;
-            let b = slope(x, y);
-            let (mx, my) = (stats::mean(x), stats::mean(y));
-            let sxx: f64 = x.iter().map(|v| (v - mx) * (v - mx)).sum();
-            let rss: f64 = x
-                .iter()
-                .zip(y.iter())
-                .map(|(a, c)| {
-                    let r = c - my - b * (a - mx);
-                    r * r
-                })
-                .sum();
-            (rss / (n - 2.0) / sxx).sqrt()
-        })),
-        _ => None,
-    }
-}
-
-// ----- reading the data ---------------------------------------------------------------
-
-fn numbers(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<(usize, f64)>, TableError> {
+fn numbers(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<(usize, f64)>, Error> {
     let c = t.column(col)?;
     let nums = c.numbers(t.decimal_comma)?;
     if nums.missing > 0 {
@@ -400,7 +195,7 @@ fn numbers(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<(usize, f6
 }
 
 /// Reads yes/no style values as 1/0 for a proportion.
-fn zero_one(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<f64>, TableError> {
+fn zero_one(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<f64>, Error> {
     let c = t.column(col)?;
     let mut out = Vec::new();
     let mut missing = 0;
@@ -412,11 +207,16 @@ fn zero_one(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<f64>, Tab
             }
             Some(Some(yes)) => f64::from(u8::from(yes)),
             None => {
-                return Err(TableError(format!(
-                    "Line {} of column \"{col}\" holds \"{}\"; a proportion needs 0/1, yes/no, \
-                     true/false or pass/fail values.",
-                    cell.line, cell.text
-                )))
+                return Err(Error::new(
+                    ErrorKind::Value,
+                    format!(
+                        "Line {} of column \"{col}\" holds \"{}\"; a proportion needs 0/1, \
+                         yes/no, true/false or pass/fail values.",
+                        cell.line, cell.text
+                    ),
+                )
+                .at_line(cell.line)
+                .in_column(col))
             }
         };
         out.push(v);
@@ -449,10 +249,10 @@ enum Prepared {
     },
 }
 
-fn prepare(req: &EstimateRequest, t: &Table, notes: &mut Vec<Note>) -> Result<Prepared, RunError> {
+fn prepare(req: &EstimateRequest, t: &Table, notes: &mut Vec<Note>) -> Result<Prepared, Error> {
     let kind = req.estimate.kind();
     let wrong = |what: &str| {
-        RunError::Input(format!(
+        Error::data(format!(
             "The {} needs {what}.",
             req.estimate.label(req.q.unwrap_or(0.5))
         ))
@@ -471,7 +271,7 @@ fn prepare(req: &EstimateRequest, t: &Table, notes: &mut Vec<Note>) -> Result<Pr
                 )
             };
             if x.len() < 2 {
-                return Err(RunError::Input(format!(
+                return Err(Error::data(format!(
                     "Column \"{value}\" has {} value{}; an interval needs at least 2.",
                     x.len(),
                     groups::plural(x.len())
@@ -481,8 +281,8 @@ fn prepare(req: &EstimateRequest, t: &Table, notes: &mut Vec<Note>) -> Result<Pr
                 None => None,
                 Some(sc) => {
                     if req.estimate == Estimate::Proportion {
-                        return Err(RunError::Input(
-                            "Strata are not yet supported for a proportion.".into(),
+                        return Err(Error::data(
+                            "Strata are not yet supported for a proportion.",
                         ));
                     }
                     let col = t.column(sc)?;
@@ -492,7 +292,7 @@ fn prepare(req: &EstimateRequest, t: &Table, notes: &mut Vec<Note>) -> Result<Pr
                     for (k, &r) in rows.iter().enumerate() {
                         let l = col.cells[r].text.trim().to_string();
                         if l.is_empty() {
-                            return Err(RunError::Input(format!(
+                            return Err(Error::data(format!(
                                 "Line {} has a value but no stratum in column \"{sc}\".",
                                 col.cells[r].line
                             )));
@@ -509,7 +309,7 @@ fn prepare(req: &EstimateRequest, t: &Table, notes: &mut Vec<Note>) -> Result<Pr
                         xs.push(x[k]);
                     }
                     if labels.len() < 2 {
-                        return Err(RunError::Input(format!(
+                        return Err(Error::data(format!(
                             "Column \"{sc}\" names only one stratum; drop the strata or choose another column."
                         )));
                     }
@@ -542,14 +342,12 @@ fn prepare(req: &EstimateRequest, t: &Table, notes: &mut Vec<Note>) -> Result<Pr
         ) => {
             if *paired {
                 let Layout::Wide { columns } = layout else {
-                    return Err(RunError::Input(
-                        "Paired data need one column per condition (wide format), with each row one unit.".into(),
+                    return Err(Error::data(
+                        "Paired data need one column per condition (wide format), with each row one unit.",
                     ));
                 };
                 if columns.len() != 2 {
-                    return Err(RunError::Input(
-                        "Paired data need exactly two columns.".into(),
-                    ));
+                    return Err(Error::data("Paired data need exactly two columns."));
                 }
                 let mut cols = columns.clone();
                 if first.as_deref() == Some(columns[1].as_str()) {
@@ -563,11 +361,7 @@ fn prepare(req: &EstimateRequest, t: &Table, notes: &mut Vec<Note>) -> Result<Pr
                     paired: true,
                 })
             } else {
-                let mut r = Request::new(String::new(), 0);
-                r.layout = layout.clone();
-                r.first = first.clone();
-                r.second = second.clone();
-                let g = groups::two_groups(t, &r.layout, r.first.as_deref(), r.second.as_deref())?;
+                let g = groups::two_groups(t, layout, first.as_deref(), second.as_deref())?;
                 notes.extend(g.notes);
                 Ok(Prepared::Two {
                     a: g.a,
@@ -585,7 +379,7 @@ fn prepare(req: &EstimateRequest, t: &Table, notes: &mut Vec<Note>) -> Result<Pr
         (EstimateLayout::Pairs { x, y }, Kind::Association) => {
             let (xs, ys) = paired_columns(t, x, y, notes)?;
             if xs.len() < 3 {
-                return Err(RunError::Input(format!(
+                return Err(Error::data(format!(
                     "Only {} complete (x, y) row{}; an association needs at least 3.",
                     xs.len(),
                     groups::plural(xs.len())
@@ -607,32 +401,21 @@ fn prepare(req: &EstimateRequest, t: &Table, notes: &mut Vec<Note>) -> Result<Pr
 
 // ----- running ------------------------------------------------------------------------
 
-fn check(req: &EstimateRequest, notes: &mut Vec<Note>) -> Result<u64, RunError> {
-    if req.format_version != FORMAT_VERSION {
-        return Err(RunError::Input(format!(
-            "This analysis was saved in format version {}, but this version of Reshuffle reads version {FORMAT_VERSION}.",
-            req.format_version
-        )));
-    }
-    if !(req.confidence > 0.5 && req.confidence <= 0.9999) {
-        return Err(RunError::Input(format!(
-            "The confidence level must be between 0.5 and 0.9999, for example 0.95 (it is {}).",
-            req.confidence
-        )));
-    }
+fn check(req: &EstimateRequest, notes: &mut Vec<Note>) -> Result<u64, Error> {
+    super::check_confidence(req.confidence)?;
     if req.estimate == Estimate::Quantile {
         match req.q {
             Some(q) if q > 0.0 && q < 1.0 => {}
             Some(q) => {
-                return Err(RunError::Input(format!(
+                return Err(Error::data(format!(
                     "The quantile must be between 0 and 1, for example 0.9 for the 90th percentile (it is {q})."
                 )))
             }
-            None => return Err(RunError::Input("Say which quantile, for example 0.9 for the 90th percentile.".into())),
+            None => return Err(Error::data("Say which quantile, for example 0.9 for the 90th percentile.")),
         }
     }
     if req.resamples < 200 {
-        return Err(RunError::Input(format!(
+        return Err(Error::data(format!(
             "Use at least 200 bootstrap resamples (it is {}); 10,000 is a good default.",
             req.resamples
         )));
@@ -657,7 +440,7 @@ fn check(req: &EstimateRequest, notes: &mut Vec<Note>) -> Result<u64, RunError> 
 }
 
 /// Runs an estimate request.
-pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport, RunError> {
+pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport, Error> {
     let mut notes = Vec::new();
     let total = check(req, &mut notes)?;
     let t = table::parse(&req.data, req.header)?;
@@ -675,7 +458,7 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
     let se_f = se_formula(e, paired);
     let (design, samples, estimate) = match &prepared {
         Prepared::One { x, strata, name } => (
-            Design::One {
+            Resampling::One {
                 x,
                 strata: strata.as_deref(),
             },
@@ -692,9 +475,9 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
             paired,
         } => (
             if *paired {
-                Design::Pairs { x: a, y: b }
+                Resampling::Pairs { x: a, y: b }
             } else {
-                Design::Two { a, b }
+                Resampling::Two { a, b }
             },
             vec![
                 SampleSize {
@@ -709,7 +492,7 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
             f(&mut a.clone(), &mut b.clone()),
         ),
         Prepared::Pairs { x, y, names } => (
-            Design::Pairs { x, y },
+            Resampling::Pairs { x, y },
             vec![SampleSize {
                 name: format!("{} and {}", names[0], names[1]),
                 n: x.len(),
@@ -718,7 +501,7 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
         ),
     };
     if !estimate.is_finite() {
-        return Err(RunError::Input(format!(
+        return Err(Error::data(format!(
             "The {} cannot be computed from these data (for example a ratio with a zero \
              denominator, or a correlation of a column with no variation).",
             e.label(q)
@@ -805,23 +588,23 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
             }
         }
     }
-    let method_reason = if methods[0] == IntervalMethod::Bca {
-        "BCa is the default: it corrects the percentile interval for bias and skewness and is \
-         second-order accurate (Efron 1987; DiCiccio & Efron 1996)."
-            .to_string()
-    } else {
-        format!("{} chosen by the user.", IntervalMethod::label(methods[0]))
-    };
     let classical = classical_interval(e, &prepared, req.confidence);
     let mut marks = vec![estimate];
     marks.extend(intervals[0].low);
     marks.extend(intervals[0].high);
     let histogram = histogram(&finite, &marks, 48);
-    let mut report = EstimateReport {
-        format_version: FORMAT_VERSION,
-        engine_version: ENGINE_VERSION.into(),
+    let mut cautions = vec![Caution::Assumptions];
+    if n_min < 20 {
+        cautions.push(Caution::SmallSample { smallest: n_min });
+    }
+    if e.kind() == Kind::Association {
+        cautions.push(Caution::NotCausation);
+    }
+    cautions.push(Caution::SimultaneousIntervals);
+    cautions.push(Caution::Decisions);
+    Ok(EstimateReport {
         estimate_key: e,
-        estimate_label: e.label(q),
+        q: req.q,
         samples,
         notes,
         estimate,
@@ -831,16 +614,11 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
         seed: req.seed,
         rng: RNG_NAME.into(),
         intervals,
-        method_reason,
         classical,
         histogram,
-        finding: String::new(),
-        cautions: Vec::new(),
+        cautions,
         values: req.keep_resamples.then(|| values[0].clone()),
-    };
-    report.finding = finding(&report);
-    report.cautions = cautions(&report, n_min);
-    Ok(report)
+    })
 }
 
 /// The t interval for a mean or a mean difference and Clopper–Pearson for a proportion.
@@ -920,80 +698,10 @@ fn classical_interval(e: Estimate, p: &Prepared, level: f64) -> Option<Interval>
     }
 }
 
-fn finding(r: &EstimateReport) -> String {
-    let iv = &r.intervals[0];
-    let scale = match (iv.low, iv.high) {
-        (Some(l), Some(h)) if h > l => h - l,
-        _ => r.se.unwrap_or(r.estimate.abs()).max(1e-12),
-    };
-    let d = fmt::decimals_for(scale);
-    let who = match r.samples.as_slice() {
-        [one] => format!(" of {}", one.name),
-        [a, b] => format!(" ({} vs {})", a.name, b.name),
-        _ => String::new(),
-    };
-    let bound = match (iv.side, iv.low, iv.high) {
-        (Side::TwoSided, Some(l), Some(h)) => format!(
-            "{} [{}, {}]",
-            format_args!("{} CI", fmt::percent(iv.level)),
-            fmt::fixed(l, d),
-            fmt::fixed(h, d)
-        ),
-        (Side::Lower, Some(l), _) => format!(
-            "{} lower confidence bound {}",
-            fmt::percent(iv.level),
-            fmt::fixed(l, d)
-        ),
-        (Side::Upper, _, Some(h)) => format!(
-            "{} upper confidence bound {}",
-            fmt::percent(iv.level),
-            fmt::fixed(h, d)
-        ),
-        _ => "no interval could be formed".to_string(),
-    };
-    let method = iv.method.bootstrap().map_or("", |m| m.label());
-    format!(
-        "The {}{who} is {} ({bound}, {method} bootstrap, {} resamples; bootstrap SE {}).",
-        r.estimate_label,
-        fmt::fixed(r.estimate, d),
-        fmt::count(r.resamples),
-        r.se.map_or("undefined".into(), fmt::sig)
-    )
-}
-
-fn cautions(r: &EstimateReport, n_min: usize) -> Vec<String> {
-    let mut c = vec![
-        "The bootstrap treats the observations as independent draws from the population of \
-         interest (pairs as units for paired data and associations, each stratum on its own \
-         where strata are given); it cannot correct for a biased or clustered sample."
-            .to_string(),
-    ];
-    if n_min < 20 {
-        c.push(format!(
-            "Small sample ({n_min}): bootstrap intervals tend to be too narrow for samples this \
-             small — the percentile interval most of all (Hesterberg 2015); prefer BCa or \
-             studentized and read the interval as rough."
-        ));
-    }
-    if r.estimate_key.kind() == Kind::Association {
-        c.push("Correlation is not causation, and r and the slope describe only the straight-line part of an association.".into());
-    }
-    c.push(
-        "Several intervals on the same data do not all hold at once with the stated confidence; \
-         adjust the level if they are read together."
-            .into(),
-    );
-    c.push(
-        "Clinical, safety or regulatory decisions need a qualified statistician and the \
-         guidelines that apply to them."
-            .into(),
-    );
-    c
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::num::stats::ranks;
 
     fn one(data: &str, e: Estimate) -> EstimateRequest {
         let mut r = EstimateRequest::new(
@@ -1040,7 +748,6 @@ mod tests {
                 assert!(iv.low <= iv.high);
             }
             assert!(rep.se.unwrap() > 0.0);
-            assert!(!rep.finding.contains("NaN"));
         }
     }
 
@@ -1162,10 +869,5 @@ mod tests {
         let b = run(&r, &mut |_| true).unwrap();
         assert_eq!(a, b);
         assert!(a.intervals[0].high.is_none() && a.intervals[0].low.is_some());
-        assert!(
-            a.finding.contains("lower confidence bound"),
-            "{}",
-            a.finding
-        );
     }
 }

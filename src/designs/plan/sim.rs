@@ -1,0 +1,182 @@
+//! The simulated studies: data drawn from the assumed model, analysed by the test the
+//! analysis runs, and the share of rejections.
+
+use super::types::*;
+use crate::base::*;
+use crate::classical::tables;
+use crate::num::binomial::clopper_pearson;
+use crate::num::normal;
+use crate::resample::binomial::Binomial;
+use crate::resample::k_groups::KSetup;
+use crate::resample::rng;
+use crate::resample::rng::Stream;
+use crate::resample::signs::FlipSetup;
+use crate::resample::tally::{p_value, Counts};
+use crate::resample::two_groups::Setup;
+
+/// Data generation for one design and model, prepared once.
+pub(super) struct Sim {
+    pub(super) design: PlanDesign,
+    pub(super) test: Test,
+    /// Pilot values centred at their mean, and that mean (for multiplicative effects).
+    pub(super) pilot: Option<(Vec<f64>, f64)>,
+    pub(super) sd: f64,
+    pub(super) multiply: bool,
+    pub(super) baseline: f64,
+    pub(super) means: Vec<f64>,
+    pub(super) alternative: Alternative,
+    pub(super) alpha: f64,
+    pub(super) relabellings: u64,
+}
+
+/// A standard normal draw by inversion (pure-Rust quantile, so the same on every machine).
+#[inline]
+pub(super) fn gauss(s: &mut Stream) -> f64 {
+    let u = ((s.next_u64() >> 11) as f64 + 0.5) * (1.0 / (1u64 << 53) as f64);
+    normal::quantile(u)
+}
+
+impl Sim {
+    /// One value of a group whose shift (or ratio) is `shift`.
+    pub(super) fn value(&self, s: &mut Stream, shift: f64) -> f64 {
+        match &self.pilot {
+            Some((r, m)) => {
+                let v = m + r[s.below(r.len() as u64) as usize];
+                if self.multiply {
+                    v * shift
+                } else {
+                    v + shift
+                }
+            }
+            None => shift + self.sd * gauss(s),
+        }
+    }
+
+    /// The no-effect value of `shift` (0, or 1 for a ratio).
+    pub(super) fn null_shift(&self) -> f64 {
+        if self.multiply {
+            1.0
+        } else {
+            0.0
+        }
+    }
+
+    /// One simulated study with `n` per group at `effect`: whether the test rejects. For
+    /// yes/no outcomes, `rates` holds the treated and the baseline yes counts' distributions.
+    pub(super) fn study(
+        &self,
+        mut s: Stream,
+        n: u64,
+        effect: f64,
+        rates: Option<&(Binomial, Binomial)>,
+    ) -> bool {
+        let n_us = n as usize;
+        let p = match (self.design, self.test) {
+            (PlanDesign::YesNo, _) => match rates {
+                Some((b1, b0)) => {
+                    let (a, c) = (b1.draw(&mut s), b0.draw(&mut s));
+                    tables::exact_p(a, n, c, n, self.alternative)
+                }
+                None => 1.0,
+            },
+            (PlanDesign::TwoGroups, Test::Two(st)) => {
+                let treated: Vec<f64> = (0..n_us).map(|_| self.value(&mut s, effect)).collect();
+                let reference: Vec<f64> = (0..n_us)
+                    .map(|_| self.value(&mut s, self.null_shift()))
+                    .collect();
+                let setup = Setup::new(st, &treated, &reference);
+                let (c, _) = setup.random_block(s, self.relabellings);
+                self.p_of(&c)
+            }
+            (PlanDesign::Paired, Test::Flip(st)) => {
+                let d: Vec<f64> = (0..n_us).map(|_| self.value(&mut s, effect)).collect();
+                let setup = FlipSetup::new(st, &d);
+                let (c, _) = setup.random_block(s, self.relabellings);
+                self.p_of(&c)
+            }
+            (PlanDesign::KGroups, Test::K(st)) => {
+                let groups: Vec<Vec<f64>> = self
+                    .means
+                    .iter()
+                    .map(|m| (0..n_us).map(|_| self.value(&mut s, m * effect)).collect())
+                    .collect();
+                let setup = KSetup::new(st, &groups);
+                let (c, _) = setup.random_block(s, self.relabellings);
+                let b = c.ge;
+                (b + 1) as f64 / (c.total + 1) as f64
+            }
+            _ => 1.0,
+        };
+        p <= self.alpha
+    }
+
+    pub(super) fn p_of(&self, c: &Counts) -> f64 {
+        p_value(c, false, self.alternative, TwoSidedRule::Absolute).p
+    }
+
+    /// Power at `n` and `effect` from up to `studies` simulated studies. With `early`, stops
+    /// after a batch once a 99.9% interval for the power excludes `target`.
+    #[allow(clippy::too_many_arguments)]
+    pub(super) fn power(
+        &self,
+        n: u64,
+        effect: f64,
+        studies: u64,
+        early: Option<f64>,
+        seed: u64,
+        progress: ProgressFn,
+        stage: Stage,
+    ) -> Result<PowerPoint, Error> {
+        const BATCH: u64 = 100;
+        let streams = rng::Streams::new(seed, rng::Purpose::Bootstrap, 0);
+        let mut hits = 0u64;
+        let mut done = 0u64;
+        let mut stopped_early = false;
+        let rates = (self.design == PlanDesign::YesNo).then(|| {
+            (
+                Binomial::with_rate(n, (self.baseline + effect).clamp(0.0, 1.0)),
+                Binomial::with_rate(n, self.baseline),
+            )
+        });
+        for stream in streams.take(studies as usize) {
+            hits += u64::from(self.study(stream, n, effect, rates.as_ref()));
+            done += 1;
+            if done % BATCH == 0 {
+                if !progress(&Progress {
+                    stage: stage.clone(),
+                    done,
+                    total: studies,
+                }) {
+                    return Err(Error::cancelled());
+                }
+                if let Some(target) = early {
+                    if done >= 2 * BATCH && done < studies {
+                        let (lo, hi) = clopper_pearson(hits, done, 0.999);
+                        if hi < target || lo > target {
+                            stopped_early = true;
+                            break;
+                        }
+                    }
+                }
+            }
+        }
+        let power = hits as f64 / done as f64;
+        let (low, high) = clopper_pearson(hits, done, 0.95);
+        Ok(PowerPoint {
+            n,
+            effect,
+            power,
+            se: (power * (1.0 - power) / done as f64).sqrt(),
+            low,
+            high,
+            studies: done,
+            stopped_early,
+        })
+    }
+}
+
+/// The seed of the simulated studies at one (n, effect): derived from the run's seed, so a
+/// point's numbers do not depend on which other points were evaluated before it.
+pub(super) fn point_seed(seed: u64, n: u64, effect: f64) -> u64 {
+    rng::sub_seed(rng::sub_seed(seed, n), effect.to_bits())
+}

@@ -1,0 +1,272 @@
+//! The two-group report in words: the finding, the results, the groups table, the figures,
+//! the methods paragraph and the cautions.
+
+use super::doc::{full, row, Doc, DocTable, Figure, Headline};
+use super::plot::{self, BootFigure, NullFigure};
+use super::words;
+use crate::base::format as fmt;
+use crate::base::{Alternative, TwoSidedRule};
+use crate::designs::two_groups::{Statistic, TwoGroupsReport};
+use crate::designs::DesignKey;
+use crate::wire::ENGINE_VERSION;
+
+/// "mean", "median" or "20% trimmed mean": what the effect compares.
+fn effect_word(st: Statistic) -> &'static str {
+    match st.effect() {
+        Statistic::MedianDifference => "median",
+        Statistic::TrimmedMeanDifference => "20% trimmed mean",
+        _ => "mean",
+    }
+}
+
+/// Decimals for the effect and its interval.
+pub fn effect_decimals(r: &TwoGroupsReport) -> usize {
+    let scale = match (r.ci.low, r.ci.high) {
+        (Some(l), Some(h)) if h > l => h - l,
+        _ => {
+            let s = r.groups.iter().map(|g| g.sd).fold(0.0, f64::max);
+            if s > 0.0 {
+                s
+            } else {
+                r.effect.abs()
+            }
+        }
+    };
+    fmt::decimals_for(scale)
+}
+
+/// One sentence: the effect with its interval and the p-value with what it counts.
+pub fn finding(r: &TwoGroupsReport) -> String {
+    let (first, second) = (&r.groups[0].name, &r.groups[1].name);
+    let what = effect_word(r.statistic);
+    let of = if r.value_label == "value" {
+        String::new()
+    } else {
+        format!(" {}", r.value_label)
+    };
+    let d = effect_decimals(r);
+    let size = fmt::fixed(r.effect.abs(), d);
+    let mut s = if fmt::fixed(r.effect, d)
+        .trim_start_matches('-')
+        .chars()
+        .all(|c| c == '0' || c == '.')
+    {
+        format!("The {what}{of} was practically the same in {first} and {second}")
+    } else {
+        let dir = if r.effect > 0.0 { "higher" } else { "lower" };
+        format!("The {what}{of} was {size} {dir} in {first} than in {second}")
+    };
+    if let (Some(lo), Some(hi)) = (r.ci.low, r.ci.high) {
+        s.push_str(&format!(" ({})", fmt::ci(r.ci.level, lo, hi, d)));
+    }
+    let stat_words = match r.statistic {
+        Statistic::WelchT => "a Welch t".to_string(),
+        _ => format!("a difference in {what}s"),
+    };
+    let how = match (r.alternative, r.two_sided) {
+        (Alternative::TwoSided, TwoSidedRule::Absolute) => {
+            format!("{stat_words} at least this large in either direction")
+        }
+        (Alternative::TwoSided, TwoSidedRule::DoubledTail) => {
+            format!("{stat_words} at least this large in the observed direction")
+        }
+        (Alternative::Greater, _) => format!("{stat_words} at least this far in favour of {first}"),
+        (Alternative::Less, _) => format!("{stat_words} at least this far in favour of {second}"),
+    };
+    let doubled =
+        r.alternative == Alternative::TwoSided && r.two_sided == TwoSidedRule::DoubledTail;
+    let t = &r.test;
+    if t.exact {
+        s.push_str(&format!(
+            "; {how} arose in {} of all {} possible relabellings of the groups (exact {}{}).",
+            fmt::count(t.extreme_count),
+            fmt::count(t.resamples),
+            fmt::p_value(t.p_value),
+            if doubled { ", doubled" } else { "" }
+        ));
+    } else {
+        s.push_str(&format!(
+            "; {how} arose in {} of {} random relabellings of the groups ({}{}).",
+            fmt::count(t.extreme_count),
+            fmt::count(t.resamples),
+            fmt::p_value(t.p_value),
+            if doubled { ", doubled" } else { "" }
+        ));
+    }
+    s
+}
+
+/// A paragraph with everything needed to reproduce the analysis.
+fn methods(r: &TwoGroupsReport, date: &str) -> String {
+    let (a, b) = (&r.groups[0].name, &r.groups[1].name);
+    let alt = match (r.alternative, r.two_sided) {
+        (Alternative::TwoSided, TwoSidedRule::Absolute) => {
+            "two-sided, counting relabellings whose statistic is at least as far from zero as \
+             the observed one (|T| ≥ |t|)"
+                .to_string()
+        }
+        (Alternative::TwoSided, TwoSidedRule::DoubledTail) => {
+            "two-sided, as twice the smaller one-sided p-value (capped at 1)".to_string()
+        }
+        (Alternative::Greater, _) => format!("one-sided: {a} minus {b} greater than zero"),
+        (Alternative::Less, _) => format!("one-sided: {a} minus {b} less than zero"),
+    };
+    format!(
+        "Design: two independent groups ({a} with n = {}, {b} with n = {}). Test statistic: \
+         the {} ({a} minus {b}). Alternative: {alt}. Null distribution: {}; ties with the \
+         observed value counted as at least as extreme (relative tolerance 1e-9). Effect: the \
+         {} with a {} {} bootstrap interval from {} resamples drawn within each group; Hedges' \
+         g with its bootstrap interval; Welch's t-test with Welch–Satterthwaite degrees of \
+         freedom as a classical cross-check. Random numbers: {}, seed {}. Computed with \
+         Reshuffle {ENGINE_VERSION} on {date}.",
+        r.groups[0].n,
+        r.groups[1].n,
+        r.statistic.label(),
+        words::how(&r.test, "relabellings"),
+        r.statistic.effect().label(),
+        fmt::percent(r.ci.level),
+        words::method(r.ci.method),
+        fmt::count(r.bootstrap_resamples),
+        r.test.rng,
+        r.test.seed,
+    )
+}
+
+/// The figures: the relabelling distribution and the bootstrap distribution.
+pub fn figures(r: &TwoGroupsReport) -> Vec<Figure> {
+    let nf = NullFigure::of(
+        &r.test,
+        r.statistic.label(),
+        "relabellings",
+        "when group labels are shuffled",
+    );
+    let bf = BootFigure {
+        label: r.statistic.effect().label(),
+        estimate: r.effect,
+        interval: &r.ci,
+        histogram: &r.bootstrap_histogram,
+        resamples: r.bootstrap_resamples,
+    };
+    plot::test_figures(&nf, &bf, "tg", "relabelling")
+}
+
+/// The two-group report as a document.
+pub fn doc(r: &TwoGroupsReport, date: &str) -> Doc {
+    let d = effect_decimals(r);
+    let effect_label = r.statistic.effect().label();
+    let mut lines = vec![
+        (
+            format!("observed {}", r.statistic.label()),
+            fmt::sig(r.test.observed),
+        ),
+        (
+            "p-value".to_string(),
+            words::p_line(&r.test, "relabellings"),
+        ),
+    ];
+    for iv in &r.intervals {
+        lines.push((
+            format!("{effect_label} interval"),
+            words::interval_line(iv, d),
+        ));
+    }
+    lines.push((
+        "Welch t-test (cross-check)".into(),
+        match (r.welch.t, r.welch.df, r.welch.p_value) {
+            (Some(t), Some(df), Some(p)) => {
+                let ci = match (r.welch.ci.low, r.welch.ci.high) {
+                    (Some(l), Some(h)) => format!(", {}", fmt::ci(r.welch.ci.level, l, h, d)),
+                    _ => String::new(),
+                };
+                format!("t = {t:.3}, df = {df:.2}, p = {p:.5}{ci}")
+            }
+            _ => "undefined (no spread)".into(),
+        },
+    ));
+    lines.push((
+        "Hedges' g".into(),
+        match r.hedges_g.estimate {
+            Some(g) => match (r.hedges_g.ci.low, r.hedges_g.ci.high) {
+                (Some(l), Some(h)) => format!("{g:.3}, {}", fmt::ci(r.hedges_g.ci.level, l, h, 3)),
+                _ => format!("{g:.3} ({})", words::notes(&r.hedges_g.ci.notes)),
+            },
+            None => "undefined (no spread)".into(),
+        },
+    ));
+    lines.push((
+        "Seed and generator".into(),
+        format!("{} · {}", r.test.seed, r.test.rng),
+    ));
+    let groups = DocTable {
+        id: "groups-table",
+        caption: format!("The two groups ({})", r.value_label),
+        header: ["group", "n", "mean", "median", "SD", "20% trimmed mean"]
+            .map(String::from)
+            .to_vec(),
+        rows: r
+            .groups
+            .iter()
+            .map(|g| {
+                vec![
+                    g.name.clone(),
+                    g.n.to_string(),
+                    fmt::fixed(g.mean, d + 1),
+                    fmt::fixed(g.median, d + 1),
+                    fmt::fixed(g.sd, d + 1),
+                    fmt::fixed(g.trimmed_mean, d + 1),
+                ]
+            })
+            .collect(),
+    };
+    let mut tables = vec![groups];
+    if r.intervals.len() > 1 {
+        tables.push(super::interval_table(
+            "interval-table",
+            &format!(
+                "{} intervals for the {effect_label}, by method",
+                fmt::percent(r.ci.level)
+            ),
+            &r.intervals,
+            d,
+        ));
+    }
+    let mut results = Vec::new();
+    for g in &r.groups {
+        for (k, v) in [
+            ("n", g.n as f64),
+            ("mean", g.mean),
+            ("median", g.median),
+            ("sd", g.sd),
+            ("trimmed_mean", g.trimmed_mean),
+        ] {
+            results.push(row(&format!("group:{}", g.name), k, format!("{v:?}")));
+        }
+    }
+    results.extend(super::test_rows(&r.test));
+    results.push(row("effect", "estimate", format!("{:?}", r.effect)));
+    results.extend(super::interval_rows(&r.intervals));
+    results.push(row("welch", "t", full(r.welch.t)));
+    results.push(row("welch", "df", full(r.welch.df)));
+    results.push(row("welch", "p_value", full(r.welch.p_value)));
+    results.push(row("hedges_g", "estimate", full(r.hedges_g.estimate)));
+    results.push(row("hedges_g", "ci_low", full(r.hedges_g.ci.low)));
+    results.push(row("hedges_g", "ci_high", full(r.hedges_g.ci.high)));
+    Doc {
+        design: DesignKey::TwoGroups,
+        finding: finding(r),
+        notes: r.notes.iter().map(words::note).collect(),
+        lines,
+        tables,
+        figures: figures(r),
+        sections: Vec::new(),
+        methods: methods(r, date),
+        cautions: words::cautions(&r.cautions, DesignKey::TwoGroups),
+        results,
+        headline: Headline {
+            p_value: Some(r.test.p_value),
+            estimate: Some(r.effect),
+            low: r.ci.low,
+            high: r.ci.high,
+        },
+    }
+}
