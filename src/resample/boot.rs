@@ -357,6 +357,13 @@ pub fn interval_by(
         Side::Lower => (Some(1.0 - level), None),
         Side::Upper => (None, Some(level)),
     };
+    // The reflected methods (basic, studentized) take each end from the opposite quantile:
+    // the lower end from the upper quantile at `ra`, the upper end from the lower one at `rb`.
+    let (ra, rb) = match side {
+        Side::TwoSided => (pb, pa),
+        Side::Lower => (Some(level), None),
+        Side::Upper => (None, Some(1.0 - level)),
+    };
     let mut iv = Interval {
         low: None,
         high: None,
@@ -382,8 +389,8 @@ pub fn interval_by(
             iv.high = pb.map(q);
         }
         IntervalMethod::Basic => {
-            iv.low = pb.map(|p| 2.0 * s.estimate - q(p));
-            iv.high = pa.map(|p| 2.0 * s.estimate - q(p));
+            iv.low = ra.map(|p| 2.0 * s.estimate - q(p));
+            iv.high = rb.map(|p| 2.0 * s.estimate - q(p));
         }
         IntervalMethod::Normal => {
             let se = stats::sd(&sorted);
@@ -434,8 +441,8 @@ pub fn interval_by(
             }
             let ts = stats::sorted(t);
             let qt = |p: f64| stats::quantile_sorted(&ts, p);
-            iv.low = pb.map(|p| s.estimate - qt(p) * se);
-            iv.high = pa.map(|p| s.estimate - qt(p) * se);
+            iv.low = ra.map(|p| s.estimate - qt(p) * se);
+            iv.high = rb.map(|p| s.estimate - qt(p) * se);
             let dropped = s.boot.len() - t.len();
             if dropped > 0 {
                 notes.push(Note::ZeroStandardErrors { count: dropped });
@@ -524,6 +531,47 @@ mod tests {
 
     fn mean_diff(a: &mut [f64], b: &mut [f64]) -> f64 {
         stats::mean(a) - stats::mean(b)
+    }
+
+    /// Class: one-sided bounds on the side asked for. For every interval method, a one-sided
+    /// lower bound at level L is the lower end of the two-sided interval at 2L − 1 (and the
+    /// same for upper bounds): the definition of a one-sided bound (Davison & Hinkley 1997,
+    /// ch. 5, common practice). The basic and studentized bounds came out on the opposite side
+    /// before this test.
+    #[test]
+    fn one_sided_bounds_land_on_the_side_asked_for() {
+        // A skewed bootstrap distribution, so that the sides differ.
+        let boot: Vec<f64> = (1..=999)
+            .map(|i| (i as f64 / 1000.0).powi(3) * 10.0)
+            .collect();
+        let t: Vec<f64> = (1..=999).map(|i| (i as f64 / 1000.0 - 0.4) * 4.0).collect();
+        let s = Summary {
+            estimate: 2.0,
+            boot: &boot,
+            t: Some((&t, 0.5)),
+            bounds: None,
+        };
+        for method in IntervalMethod::ALL {
+            let two = interval_by(method, 0.90, Side::TwoSided, &s, &mut || {
+                (Some(0.05), false)
+            });
+            let lower = interval_by(method, 0.95, Side::Lower, &s, &mut || (Some(0.05), false));
+            let upper = interval_by(method, 0.95, Side::Upper, &s, &mut || (Some(0.05), false));
+            let (lo2, hi2) = (two.low.unwrap(), two.high.unwrap());
+            assert!(lo2 < hi2, "{method:?}");
+            assert_eq!(
+                lower.high, None,
+                "{method:?}: a lower bound has an open upper end"
+            );
+            assert_eq!(
+                upper.low, None,
+                "{method:?}: an upper bound has an open lower end"
+            );
+            let lo1 = lower.low.expect("lower bound");
+            let hi1 = upper.high.expect("upper bound");
+            assert!((lo1 - lo2).abs() < 1e-9, "{method:?}: lower {lo1} vs {lo2}");
+            assert!((hi1 - hi2).abs() < 1e-9, "{method:?}: upper {hi1} vs {hi2}");
+        }
     }
 
     #[test]
