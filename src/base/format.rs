@@ -142,6 +142,18 @@ pub fn ci(level: f64, low: f64, high: f64, decimals: usize) -> String {
     )
 }
 
+/// A cell's text as a message quotes it: at most 40 characters, cut with "…" and the
+/// length, so that a 1 MB cell (say, after an unterminated quote) does not flood the message.
+pub fn brief(text: &str) -> String {
+    const MAX: usize = 40;
+    let n = text.chars().count();
+    if n <= MAX {
+        return text.to_string();
+    }
+    let head: String = text.chars().take(MAX).collect();
+    format!("{head}… ({} characters)", count(n as u64))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

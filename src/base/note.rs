@@ -16,6 +16,20 @@ pub enum Note {
         /// How many cells.
         count: usize,
     },
+    /// Cells holding a spreadsheet's error value (#N/A, #DIV/0!, ...) were left out as missing.
+    SpreadsheetErrors {
+        /// The column.
+        column: String,
+        /// How many cells.
+        count: usize,
+        /// (line, text) of the first few.
+        cells: Vec<(u64, String)>,
+    },
+    /// The comment block before the table (lines starting with '#') was skipped.
+    CommentLinesSkipped {
+        /// How many lines.
+        count: usize,
+    },
     /// Values with a decimal comma were read as decimal points.
     DecimalCommas {
         /// The column.

@@ -143,7 +143,7 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
     AssociationDesign::check(req)?;
     let set = &req.settings;
     let t = table::parse(&req.data, req.header)?;
-    let mut notes = Vec::new();
+    let mut notes = t.notes();
     let (x, y) = groups::paired_columns(&t, &req.x, &req.y, &mut notes)?;
     let n = x.len();
     if n < 3 {

@@ -62,13 +62,8 @@ impl Design for OneSampleDesign {
         Self::check(req)?;
         let t = table::parse(&req.data, req.header)?;
         let nums = t.column(&req.value)?.numbers(t.decimal_comma)?;
-        let mut notes = Vec::new();
-        if nums.missing > 0 {
-            notes.push(Note::MissingCells {
-                column: req.value.clone(),
-                count: nums.missing,
-            });
-        }
+        let mut notes = t.notes();
+        nums.push_notes(&req.value, &mut notes);
         let d: Vec<f64> = nums.values.iter().map(|v| v.1 - req.reference).collect();
         sign_flip(
             &d,

@@ -196,6 +196,7 @@ fn differences(
     notes: &mut Vec<Note>,
 ) -> Result<(Vec<f64>, String, String), Error> {
     let t = table::parse(&req.data, req.header)?;
+    notes.extend(t.notes());
     match &req.layout {
         PairedLayout::Columns { first, second } => {
             if first == second {

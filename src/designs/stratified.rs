@@ -226,6 +226,7 @@ fn read(req: &StrataRequest, notes: &mut Vec<Note>) -> Result<ReadStrata, Error>
         ));
     }
     let t = table::parse(&req.data, req.header)?;
+    notes.extend(t.notes());
     let scol = t.column(&req.strata)?;
     let lab = groups::labelled_values(&t, &req.value, &req.group, notes)?;
     let levels = &lab.levels;

@@ -292,46 +292,45 @@ fn read(req: &YesNoRequest, notes: &mut Vec<Note>) -> Result<([String; 2], Table
             let gcol = t.column(group)?;
             let mut levels: Vec<String> = Vec::new();
             let mut counts: Vec<(u64, u64)> = Vec::new();
-            let (mut missing, mut unlabelled) = (0usize, 0usize);
+            notes.extend(t.notes());
+            let (mut missing, mut unlabelled) = (Vec::new(), 0usize);
+            let mut index: std::collections::HashMap<&str, usize> = Default::default();
             for (cell, gcell) in vcol.cells.iter().zip(&gcol.cells) {
                 let yes = match table::read_yes_no(&cell.text) {
                     Some(Some(y)) => y,
                     Some(None) => {
-                        missing += 1;
+                        missing.push(cell);
                         continue;
                     }
                     None => {
-                        return Err(Error::data(format!(
-                            "Line {} of column \"{value}\" holds \"{}\"; a yes/no outcome needs \
-                             1/0, yes/no, true/false or pass/fail in every cell. Correct it, or \
-                             clear the cell to leave the row out.",
-                            cell.line,
-                            cell.text.trim()
-                        )))
+                        return Err(Error::new(
+                            ErrorKind::Value,
+                            format!(
+                                "Line {} of column \"{value}\" holds \"{}\"; a yes/no outcome \
+                                 needs 1/0, yes/no, true/false or pass/fail in every cell. \
+                                 Correct it, or clear the cell to leave the row out.",
+                                cell.line,
+                                crate::base::format::brief(cell.text.trim())
+                            ),
+                        )
+                        .at_line(cell.line)
+                        .in_column(value.clone()))
                     }
                 };
                 let label = gcell.text.trim();
-                if label.is_empty() {
+                if label.is_empty() || table::is_spreadsheet_error(label) {
                     unlabelled += 1;
                     continue;
                 }
-                let li = match levels.iter().position(|l| l == label) {
-                    Some(i) => i,
-                    None => {
-                        levels.push(label.to_string());
-                        counts.push((0, 0));
-                        levels.len() - 1
-                    }
-                };
+                let li = *index.entry(label).or_insert_with(|| {
+                    levels.push(label.to_string());
+                    counts.push((0, 0));
+                    levels.len() - 1
+                });
                 counts[li].0 += u64::from(yes);
                 counts[li].1 += 1;
             }
-            if missing > 0 {
-                notes.push(Note::MissingCells {
-                    column: value.clone(),
-                    count: missing,
-                });
-            }
+            notes.extend(table::left_out_notes(value, &missing));
             if unlabelled > 0 {
                 notes.push(Note::Unlabelled {
                     column: group.clone(),

@@ -5,7 +5,7 @@ use serde::{Deserialize, Serialize};
 use crate::base::Note;
 
 use crate::base::{Error, ErrorKind};
-use crate::input::table::{Column, ColumnKind, Table};
+use crate::input::table::{self, Column, ColumnKind, Table};
 
 /// Where the two groups are in the table.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
@@ -111,12 +111,7 @@ pub fn labelled_values(
     let vcol = table.column(value)?;
     let gcol = table.column(group)?;
     let nums = vcol.numbers(table.decimal_comma)?;
-    if nums.missing > 0 {
-        notes.push(Note::MissingCells {
-            column: value.to_string(),
-            count: nums.missing,
-        });
-    }
+    nums.push_notes(value, notes);
     if nums.decimal_commas > 0 {
         notes.push(Note::DecimalCommas {
             column: value.to_string(),
@@ -124,21 +119,20 @@ pub fn labelled_values(
         });
     }
     let mut levels: Vec<String> = Vec::new();
+    // Label → its index, so that thousands of labels are found in linear time.
+    let mut index: std::collections::HashMap<&str, usize> = std::collections::HashMap::new();
     let mut unlabelled: Vec<u64> = Vec::new();
     let mut rows = Vec::new();
     for &(i, v) in &nums.values {
         let label = gcol.cells[i].text.trim();
-        if label.is_empty() {
+        if label.is_empty() || table::is_spreadsheet_error(label) {
             unlabelled.push(gcol.cells[i].line);
             continue;
         }
-        let li = match levels.iter().position(|l| l == label) {
-            Some(li) => li,
-            None => {
-                levels.push(label.to_string());
-                levels.len() - 1
-            }
-        };
+        let li = *index.entry(label).or_insert_with(|| {
+            levels.push(label.to_string());
+            levels.len() - 1
+        });
         rows.push((i, li, v));
     }
     if !unlabelled.is_empty() {
@@ -179,12 +173,14 @@ pub fn wide_values(
         // not worth a note.
         let last = nums.values.last().map_or(0, |v| v.0 + 1);
         let inner = nums.missing - (col.cells.len() - last);
-        if inner > 0 {
+        let blank = inner.saturating_sub(nums.spreadsheet_errors);
+        if blank > 0 {
             notes.push(Note::MissingCells {
                 column: col.name.clone(),
-                count: inner,
+                count: blank,
             });
         }
+        notes.extend(nums.spreadsheet_note(&col.name));
         if nums.decimal_commas > 0 {
             notes.push(Note::DecimalCommas {
                 column: col.name.clone(),
@@ -222,7 +218,7 @@ pub fn two_groups(
         Layout::Detect => detect_layout(table)?,
         l => l.clone(),
     };
-    let mut notes = Vec::new();
+    let mut notes = table.notes();
     let (names, a, b, value_label) = match &layout {
         Layout::Detect => unreachable!("resolved above"),
         Layout::Long { value, group } => {
@@ -360,7 +356,7 @@ pub fn k_groups(table: &Table, layout: &Layout) -> Result<KGroups, Error> {
         },
         l => l.clone(),
     };
-    let mut notes = Vec::new();
+    let mut notes = table.notes();
     let (names, values, value_label) = match &layout {
         Layout::Detect => unreachable!("resolved above"),
         Layout::Long { value, group } => {

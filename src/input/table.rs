@@ -3,7 +3,7 @@
 
 use serde::{Deserialize, Serialize};
 
-use crate::base::{Error, ErrorKind};
+use crate::base::{Error, ErrorKind, Note};
 
 /// The kind of values a column holds.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
@@ -42,6 +42,21 @@ pub struct Table {
     pub header: bool,
     /// Whether decimal commas may be read as decimal points (delimiter is not a comma).
     pub decimal_comma: bool,
+    /// Lines of the comment block ('#' first) before the table, skipped.
+    pub comment_lines: usize,
+}
+
+impl Table {
+    /// What reading the table noticed, for the report (the comment block skipped).
+    pub fn notes(&self) -> Vec<Note> {
+        if self.comment_lines > 0 {
+            vec![Note::CommentLinesSkipped {
+                count: self.comment_lines,
+            }]
+        } else {
+            Vec::new()
+        }
+    }
 }
 
 /// How the user wants the first row treated.
@@ -65,10 +80,37 @@ pub enum Value {
 /// Markers read as missing values, compared case-insensitively, besides blank cells.
 pub const MISSING_MARKERS: [&str; 4] = ["na", "n/a", "nan", "."];
 
-/// Reads one cell as a number. With `decimal_comma`, "4,25" reads as 4.25.
+/// The error values spreadsheets write into cells (Excel, LibreOffice, Google Sheets),
+/// compared case-insensitively.
+pub const SPREADSHEET_ERRORS: [&str; 12] = [
+    "#N/A",
+    "#N/A!",
+    "#DIV/0!",
+    "#VALUE!",
+    "#REF!",
+    "#NAME?",
+    "#NUM!",
+    "#NULL!",
+    "#SPILL!",
+    "#CALC!",
+    "#GETTING_DATA",
+    "#ERROR!",
+];
+
+/// Whether a cell holds a spreadsheet's error value (such as #N/A or #DIV/0!).
+pub fn is_spreadsheet_error(text: &str) -> bool {
+    let t = text.trim();
+    t.starts_with('#') && SPREADSHEET_ERRORS.iter().any(|m| t.eq_ignore_ascii_case(m))
+}
+
+/// Reads one cell as a number. With `decimal_comma`, "4,25" reads as 4.25. Blank cells, NA
+/// markers and spreadsheet error values are missing.
 pub fn read_value(text: &str, decimal_comma: bool) -> Value {
     let t = text.trim();
-    if t.is_empty() || MISSING_MARKERS.iter().any(|m| t.eq_ignore_ascii_case(m)) {
+    if t.is_empty()
+        || MISSING_MARKERS.iter().any(|m| t.eq_ignore_ascii_case(m))
+        || is_spreadsheet_error(t)
+    {
         return Value::Missing;
     }
     let plain = |s: &str| -> Option<f64> {
@@ -100,7 +142,10 @@ pub const NO_WORDS: [&str; 6] = ["0", "no", "n", "false", "fail", "failure"];
 /// no, Some(None) for a blank or NA cell, None for anything else.
 pub fn read_yes_no(text: &str) -> Option<Option<bool>> {
     let t = text.trim();
-    if t.is_empty() || MISSING_MARKERS.iter().any(|m| t.eq_ignore_ascii_case(m)) {
+    if t.is_empty()
+        || MISSING_MARKERS.iter().any(|m| t.eq_ignore_ascii_case(m))
+        || is_spreadsheet_error(t)
+    {
         return Some(None);
     }
     if YES_WORDS.iter().any(|w| t.eq_ignore_ascii_case(w)) || t == "1.0" {
@@ -125,20 +170,36 @@ pub fn is_yes_no(col: &Column) -> bool {
     any
 }
 
+/// How many lines of the comment block before the table start with '#' (blank lines
+/// between them included), and the byte where the table starts. Only this leading block is
+/// skipped: a '#' further down is data (a label such as "#1", or a spreadsheet error cell).
+fn comment_block(text: &str) -> (usize, usize) {
+    let (mut comments, mut at) = (0, 0);
+    for line in text.split_inclusive('\n') {
+        let t = line.trim();
+        if t.starts_with('#')
+            && !is_spreadsheet_error(t.split([',', ';', '\t']).next().unwrap_or(""))
+        {
+            comments += 1;
+        } else if !t.is_empty() {
+            break;
+        }
+        at += line.len();
+    }
+    (comments, at)
+}
+
 fn records(text: &str, delimiter: u8) -> Result<Vec<(u64, Vec<String>)>, Error> {
     let blanked: String;
-    let text = if text.lines().any(|l| l.trim_start().starts_with('#')) {
-        blanked = text
+    let (comments, start) = comment_block(text);
+    let text = if comments > 0 {
+        // Blanked rather than cut, so that line numbers match the pasted text.
+        blanked = text[..start]
             .split('\n')
-            .map(|l| {
-                if l.trim_start().starts_with('#') {
-                    ""
-                } else {
-                    l
-                }
-            })
+            .map(|_| "")
             .collect::<Vec<_>>()
-            .join("\n");
+            .join("\n")
+            + &text[start..];
         &blanked
     } else {
         text
@@ -149,8 +210,6 @@ fn records(text: &str, delimiter: u8) -> Result<Vec<(u64, Vec<String>)>, Error> 
         .flexible(true)
         .trim(csv::Trim::All)
         .from_reader(text.as_bytes());
-    // Comment lines ('#' first) are blanked rather than skipped by the reader, so that the
-    // line numbers in messages match the pasted text.
     let mut out = Vec::new();
     let mut cursor = (0usize, 0u64);
     for rec in reader.records() {
@@ -199,9 +258,9 @@ fn line_of(text: &str, at: usize, cursor: &mut (usize, u64)) -> u64 {
 /// Picks the delimiter: tab, then semicolon, then comma, whichever splits the first rows
 /// into a consistent number of fields (more than one).
 fn detect_delimiter(text: &str) -> u8 {
-    let sample: String = text
+    let sample: String = text[comment_block(text).1..]
         .lines()
-        .filter(|l| !l.trim().is_empty() && !l.trim_start().starts_with('#'))
+        .filter(|l| !l.trim().is_empty())
         .take(30)
         .collect::<Vec<_>>()
         .join("\n");
@@ -343,6 +402,7 @@ pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, Error> {
         delimiter,
         header: has_header,
         decimal_comma,
+        comment_lines: comment_block(text).0,
     })
 }
 
@@ -366,11 +426,69 @@ impl Table {
 }
 
 /// Numbers of a column, read strictly: each cell is a number or missing.
+#[derive(Debug)]
 pub struct NumericColumn {
     /// (row index in the table, value) for every filled cell.
     pub values: Vec<(usize, f64)>,
+    /// Cells left out: blank, NA markers and spreadsheet error values.
     pub missing: usize,
     pub decimal_commas: usize,
+    /// How many of the missing cells hold a spreadsheet error value, with the line and text
+    /// of the first few.
+    pub spreadsheet_errors: usize,
+    pub spreadsheet_error_cells: Vec<(u64, String)>,
+}
+
+/// Notes on the cells of column `name` left out as missing: blank or NA cells, and
+/// spreadsheet error values with the lines of the first few.
+pub fn left_out_notes(name: &str, missing: &[&Cell]) -> Vec<Note> {
+    let errors: Vec<&&Cell> = missing
+        .iter()
+        .filter(|c| is_spreadsheet_error(&c.text))
+        .collect();
+    let mut notes = Vec::new();
+    if missing.len() > errors.len() {
+        notes.push(Note::MissingCells {
+            column: name.to_string(),
+            count: missing.len() - errors.len(),
+        });
+    }
+    if !errors.is_empty() {
+        notes.push(Note::SpreadsheetErrors {
+            column: name.to_string(),
+            count: errors.len(),
+            cells: errors
+                .iter()
+                .take(5)
+                .map(|c| (c.line, c.text.trim().to_string()))
+                .collect(),
+        });
+    }
+    notes
+}
+
+impl NumericColumn {
+    /// Notes on the cells of column `name` left out: blank or NA cells, and spreadsheet
+    /// error values (with their lines).
+    pub fn push_notes(&self, name: &str, notes: &mut Vec<Note>) {
+        let blank = self.missing - self.spreadsheet_errors;
+        if blank > 0 {
+            notes.push(Note::MissingCells {
+                column: name.to_string(),
+                count: blank,
+            });
+        }
+        notes.extend(self.spreadsheet_note(name));
+    }
+
+    /// The note on spreadsheet error values in column `name`, if it has any.
+    pub fn spreadsheet_note(&self, name: &str) -> Option<Note> {
+        (self.spreadsheet_errors > 0).then(|| Note::SpreadsheetErrors {
+            column: name.to_string(),
+            count: self.spreadsheet_errors,
+            cells: self.spreadsheet_error_cells.clone(),
+        })
+    }
 }
 
 impl Column {
@@ -379,6 +497,7 @@ impl Column {
         let mut values = Vec::with_capacity(self.cells.len());
         let mut missing = 0;
         let mut decimal_commas = 0;
+        let (mut spreadsheet_errors, mut spreadsheet_error_cells) = (0, Vec::new());
         let mut bad: Vec<&Cell> = Vec::new();
         for (i, c) in self.cells.iter().enumerate() {
             match read_value(&c.text, decimal_comma) {
@@ -388,7 +507,15 @@ impl Column {
                     }
                     values.push((i, v))
                 }
-                Value::Missing => missing += 1,
+                Value::Missing => {
+                    missing += 1;
+                    if is_spreadsheet_error(&c.text) {
+                        spreadsheet_errors += 1;
+                        if spreadsheet_error_cells.len() < 5 {
+                            spreadsheet_error_cells.push((c.line, c.text.trim().to_string()));
+                        }
+                    }
+                }
                 Value::Text => bad.push(c),
             }
         }
@@ -417,7 +544,9 @@ impl Column {
                 format!(
                     "Line {} of column \"{}\" holds \"{}\", which is not a number. Correct it, or \
                      clear the cell to leave it out.{more}",
-                    first.line, self.name, first.text
+                    first.line,
+                    self.name,
+                    crate::base::format::brief(&first.text)
                 ),
             )
             .at_line(first.line)
@@ -427,6 +556,8 @@ impl Column {
             values,
             missing,
             decimal_commas,
+            spreadsheet_errors,
+            spreadsheet_error_cells,
         })
     }
 }
@@ -434,6 +565,58 @@ impl Column {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Class: a '#' is data. Only the comment block before the header is skipped (and
+    /// counted); labels such as "#1" and lines that start with a spreadsheet error are rows.
+    #[test]
+    fn a_hash_is_data_except_in_the_comment_block_before_the_table() {
+        let text =
+            "# made up for a test\n#   second comment line\n\nweight,batch\n4.1,#1\n3.9,#1\n\
+                    #N/A,#2\n4.4,#2\n#DIV/0!,#2\n";
+        let t = parse(text, HeaderChoice::Detect).unwrap();
+        assert_eq!(t.comment_lines, 2);
+        assert_eq!(t.notes(), vec![Note::CommentLinesSkipped { count: 2 }]);
+        assert_eq!(t.rows, 5, "every row after the header is data");
+        let batch = t.column("batch").unwrap();
+        assert_eq!(batch.cells[0].text, "#1");
+        assert_eq!(batch.kind, ColumnKind::Label);
+        // Spreadsheet errors in a numeric column: missing, with their lines.
+        let nums = t
+            .column("weight")
+            .unwrap()
+            .numbers(t.decimal_comma)
+            .unwrap();
+        assert_eq!(nums.values.len(), 3);
+        assert_eq!(nums.missing, 2);
+        let mut notes = Vec::new();
+        nums.push_notes("weight", &mut notes);
+        assert_eq!(
+            notes,
+            vec![Note::SpreadsheetErrors {
+                column: "weight".into(),
+                count: 2,
+                cells: vec![(7, "#N/A".into()), (9, "#DIV/0!".into())],
+            }]
+        );
+        // A '#' comment after the header is not skipped: it is a row (here a bad one).
+        let e = parse("y,g\n1,a\n# not a comment\n2,b\n", HeaderChoice::Detect)
+            .unwrap()
+            .column("y")
+            .unwrap()
+            .numbers(false)
+            .unwrap_err();
+        assert_eq!(e.line, Some(3), "{e:?}");
+    }
+
+    /// Class: a huge cell (after an unterminated quote, say) is quoted only briefly.
+    #[test]
+    fn a_huge_cell_is_quoted_briefly() {
+        let text = format!("y,g\n1,a\n\"{},b\n", "x".repeat(1_000_000));
+        let t = parse(&text, HeaderChoice::Detect).unwrap();
+        let e = t.column("y").unwrap().numbers(false).unwrap_err();
+        assert!(e.message.len() < 400, "{} characters", e.message.len());
+        assert!(e.message.contains("characters)"), "{}", e.message);
+    }
 
     #[test]
     fn reads_tab_separated_with_header() {

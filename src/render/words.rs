@@ -42,6 +42,29 @@ pub fn note(n: &Note) -> String {
             plural(*count),
             were(*count)
         ),
+        Note::SpreadsheetErrors {
+            column,
+            count,
+            cells,
+        } => {
+            let shown: Vec<String> = cells
+                .iter()
+                .map(|(line, text)| format!("line {line}: {text}"))
+                .collect();
+            format!(
+                "{count} cell{} in column \"{column}\" {} a spreadsheet error value ({}{}), left out as missing. Check the formulas that produced {}.",
+                plural(*count),
+                if *count == 1 { "holds" } else { "hold" },
+                shown.join(", "),
+                if *count > cells.len() { ", …" } else { "" },
+                if *count == 1 { "it" } else { "them" }
+            )
+        }
+        Note::CommentLinesSkipped { count } => format!(
+            "The {count} comment line{} starting with '#' before the table {} skipped.",
+            plural(*count),
+            were(*count)
+        ),
         Note::DecimalCommas { column, count } => format!(
             "{count} value{} in column \"{column}\" had a decimal comma, read as a decimal point.",
             plural(*count)

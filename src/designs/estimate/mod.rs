@@ -185,12 +185,7 @@ impl Design for EstimateDesign {
 fn numbers(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<(usize, f64)>, Error> {
     let c = t.column(col)?;
     let nums = c.numbers(t.decimal_comma)?;
-    if nums.missing > 0 {
-        notes.push(Note::MissingCells {
-            column: col.to_string(),
-            count: nums.missing,
-        });
-    }
+    nums.push_notes(col, notes);
     Ok(nums.values)
 }
 
@@ -198,11 +193,11 @@ fn numbers(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<(usize, f6
 fn zero_one(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<f64>, Error> {
     let c = t.column(col)?;
     let mut out = Vec::new();
-    let mut missing = 0;
+    let mut missing = Vec::new();
     for cell in &c.cells {
         let v = match table::read_yes_no(&cell.text) {
             Some(None) => {
-                missing += 1;
+                missing.push(cell);
                 continue;
             }
             Some(Some(yes)) => f64::from(u8::from(yes)),
@@ -212,7 +207,8 @@ fn zero_one(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<f64>, Err
                     format!(
                         "Line {} of column \"{col}\" holds \"{}\"; a proportion needs 0/1, \
                          yes/no, true/false or pass/fail values.",
-                        cell.line, cell.text
+                        cell.line,
+                        crate::base::format::brief(&cell.text)
                     ),
                 )
                 .at_line(cell.line)
@@ -221,12 +217,7 @@ fn zero_one(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<f64>, Err
         };
         out.push(v);
     }
-    if missing > 0 {
-        notes.push(Note::MissingCells {
-            column: col.to_string(),
-            count: missing,
-        });
-    }
+    notes.extend(table::left_out_notes(col, &missing));
     Ok(out)
 }
 
@@ -444,6 +435,7 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
     let mut notes = Vec::new();
     let total = check(req, &mut notes)?;
     let t = table::parse(&req.data, req.header)?;
+    notes.extend(t.notes());
     let prepared = prepare(req, &t, &mut notes)?;
     let q = req.q.unwrap_or(0.5);
     let e = req.estimate;
