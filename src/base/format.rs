@@ -49,6 +49,11 @@ pub fn fixed(x: f64, decimals: usize) -> String {
             "−∞".into()
         };
     }
+    // Quantities far below the finest fixed decimals (values near 1e-300, say) would all
+    // read as zero: write them in scientific notation instead.
+    if decimals >= 6 && x != 0.0 && x.abs() < 5e-7 {
+        return format!("{x:.3e}");
+    }
     let s = format!("{x:.decimals$}");
     // Avoid "-0.00".
     if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {

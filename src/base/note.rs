@@ -25,6 +25,12 @@ pub enum Note {
         /// (line, text) of the first few.
         cells: Vec<(u64, String)>,
     },
+    /// Every value shares an offset that dwarfs the spread; the values were analysed as
+    /// differences from it (centres and ranges shown add it back).
+    ValuesShifted {
+        /// The offset.
+        by: f64,
+    },
     /// The comment block before the table (lines starting with '#') was skipped.
     CommentLinesSkipped {
         /// How many lines.

@@ -173,7 +173,11 @@ impl AnalyzeArgs {
     /// The job this command line describes.
     pub fn job(&self) -> Result<Job, Error> {
         if let Some(l) = &self.link {
-            return Ok(wire::link::decode(l)?.job);
+            let d = wire::link::decode(l)?;
+            if !d.checked {
+                eprintln!("reshuffle: note: {}", crate::render::words::UNCHECKED_LINK);
+            }
+            return Ok(d.job);
         }
         if let Some(f) = &self.request {
             return Ok(wire::read_job(&read_data(f)?)

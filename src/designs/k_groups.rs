@@ -423,7 +423,7 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
         .names
         .iter()
         .zip(&g.values)
-        .map(|(n, v)| group_summary(n, v))
+        .map(|(n, v)| group_summary(n, v, g.shift))
         .collect();
     let cautions = cautions(req.statistic, &groups);
     Ok(KGroupsReport {

@@ -473,17 +473,18 @@ pub fn few_resamples_note(settings: &TestSettings, notes: &mut Vec<Note>) {
     }
 }
 
-/// Size, centre and spread of one group (at least one value).
-pub fn group_summary(name: &str, x: &[f64]) -> GroupSummary {
+/// Size, centre and spread of one group (at least one value) whose values are differences
+/// from `shift` (0 when they were not shifted): the centres and the range add it back.
+pub fn group_summary(name: &str, x: &[f64], shift: f64) -> GroupSummary {
     let s = stats::sorted(x);
     GroupSummary {
         name: name.to_string(),
         n: x.len(),
-        mean: stats::mean(x),
-        median: stats::median_sorted(&s),
+        mean: stats::mean(x) + shift,
+        median: stats::median_sorted(&s) + shift,
         sd: stats::sd(x),
-        trimmed_mean: stats::trimmed_mean_sorted(&s),
-        min: s[0],
-        max: s[s.len() - 1],
+        trimmed_mean: stats::trimmed_mean_sorted(&s) + shift,
+        min: s[0] + shift,
+        max: s[s.len() - 1] + shift,
     }
 }

@@ -346,7 +346,10 @@ fn two_group_report(
         });
     }
     super::few_resamples_note(set, &mut notes);
-    let groups_out = vec![group_summary(&g.names[0], a), group_summary(&g.names[1], b)];
+    let groups_out = vec![
+        group_summary(&g.names[0], a, g.shift),
+        group_summary(&g.names[1], b, g.shift),
+    ];
     let cautions = cautions(st, &groups_out);
     let mut report = TwoGroupsReport {
         layout: g.layout.clone(),

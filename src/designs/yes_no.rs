@@ -529,8 +529,12 @@ pub fn run(req: &YesNoRequest, progress: ProgressFn) -> Result<YesNoReport, Erro
     // |a·N − m·n1| is N·n1·n2 times |difference in proportions|: exact in integers.
     let dist_diff =
         |i: usize| ((lo + i as u64) as i128 * big_n - t.m() as i128 * t.n1 as i128).abs();
+    // The observed table always counts (so p is never below its own probability, and never
+    // 0), also when its statistic is undefined (no yes, or no no, in both groups).
     let counted_abs = |i: usize| -> bool {
-        if stat == YesNoStatistic::ProportionDifference {
+        if i == obs_i {
+            true
+        } else if stat == YesNoStatistic::ProportionDifference {
             dist_diff(i) >= dist_diff(obs_i)
         } else {
             let (k, o) = (key(i).abs(), obs_key.abs());

@@ -6,6 +6,7 @@ use crate::base::Note;
 
 use crate::base::{Error, ErrorKind};
 use crate::input::table::{self, Column, ColumnKind, Table};
+use crate::num::stats;
 
 /// Where the two groups are in the table.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
@@ -29,6 +30,25 @@ pub struct TwoGroups {
     /// What the values are (the value column's name in long format).
     pub value_label: String,
     pub notes: Vec<Note>,
+    /// The offset subtracted from every value (0 when none was): see [`shift_values`].
+    pub shift: f64,
+}
+
+/// Subtracts the offset the values share when it dwarfs their spread
+/// ([`stats::common_offset`]), so that sums, means and SDs lose no digits; notes it. The
+/// designs add the offset back to the centres and ranges they report; differences,
+/// statistics and intervals of differences are unchanged by it.
+pub fn shift_values(groups: &mut [&mut Vec<f64>], notes: &mut Vec<Note>) -> f64 {
+    let c = stats::common_offset(groups.iter().flat_map(|g| g.iter()));
+    if c != 0.0 {
+        for g in groups.iter_mut() {
+            for v in g.iter_mut() {
+                *v -= c;
+            }
+        }
+        notes.push(Note::ValuesShifted { by: c });
+    }
+    c
 }
 
 fn err<T>(s: String) -> Result<T, Error> {
@@ -318,6 +338,8 @@ pub fn two_groups(
         }
     };
     check_sizes(&names, &[a.clone(), b.clone()])?;
+    let (mut a, mut b) = (a, b);
+    let shift = shift_values(&mut [&mut a, &mut b], &mut notes);
     Ok(TwoGroups {
         names,
         a,
@@ -325,6 +347,7 @@ pub fn two_groups(
         layout,
         value_label,
         notes,
+        shift,
     })
 }
 
@@ -336,6 +359,8 @@ pub struct KGroups {
     pub layout: Layout,
     pub value_label: String,
     pub notes: Vec<Note>,
+    /// The offset subtracted from every value (0 when none was): see [`shift_values`].
+    pub shift: f64,
 }
 
 /// Extracts every group of a table for a k-group comparison: all labels of the group column
@@ -396,12 +421,15 @@ pub fn k_groups(table: &Table, layout: &Layout) -> Result<KGroups, Error> {
         ));
     }
     check_sizes(&names, &values)?;
+    let mut values = values;
+    let shift = shift_values(&mut values.iter_mut().collect::<Vec<_>>(), &mut notes);
     Ok(KGroups {
         names,
         values,
         layout,
         value_label,
         notes,
+        shift,
     })
 }
 

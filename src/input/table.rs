@@ -77,6 +77,10 @@ pub enum Value {
     Text,
 }
 
+/// The largest magnitude a value may have: squares and sums of squares of values up to
+/// 1e150 stay far from the largest double (about 1.8e308).
+pub const MAX_MAGNITUDE: f64 = 1e150;
+
 /// Markers read as missing values, compared case-insensitively, besides blank cells.
 pub const MISSING_MARKERS: [&str; 4] = ["na", "n/a", "nan", "."];
 
@@ -502,6 +506,22 @@ impl Column {
         for (i, c) in self.cells.iter().enumerate() {
             match read_value(&c.text, decimal_comma) {
                 Value::Number(v) => {
+                    if v.abs() > MAX_MAGNITUDE {
+                        return Err(Error::new(
+                            ErrorKind::Value,
+                            format!(
+                                "Line {} of column \"{}\" holds {}, beyond the ±1e150 this \
+                                 analysis computes with safely (sums of squares would \
+                                 overflow). Rescale the column (for example, divide every \
+                                 value by a power of ten) and run again.",
+                                c.line,
+                                self.name,
+                                crate::base::format::brief(c.text.trim())
+                            ),
+                        )
+                        .at_line(c.line)
+                        .in_column(self.name.clone()));
+                    }
                     if c.text.contains(',') {
                         decimal_commas += 1;
                     }

@@ -1,8 +1,35 @@
 //! Descriptive statistics used throughout the engine.
 
-/// Arithmetic mean (NaN for an empty slice; callers check sizes first).
+/// Arithmetic mean (NaN for an empty slice; callers check sizes first), accurate when the
+/// values share a large offset (timestamps, serial numbers, 1e15 + small differences): the
+/// plain mean is corrected by the mean of the deviations from it (a second pass, as in
+/// Higham, "Accuracy and Stability of Numerical Algorithms", 2nd ed., section 4.2), and an
+/// overflowing sum is avoided by scaling.
 pub fn mean(x: &[f64]) -> f64 {
-    x.iter().sum::<f64>() / x.len() as f64
+    let n = x.len() as f64;
+    let m0 = x.iter().sum::<f64>() / n;
+    if !m0.is_finite() {
+        // The sum overflowed (values near the largest double): average scaled values.
+        let big = x.iter().fold(0.0f64, |m, v| m.max(v.abs()));
+        if !big.is_finite() || big == 0.0 {
+            return m0;
+        }
+        return x.iter().map(|v| v / big).sum::<f64>() / n * big;
+    }
+    // The second pass measures the plain mean's error against the values' spread. The
+    // correction is applied only when that error is visible at the spread's scale (offsets
+    // over about 10^6 times the spread), so that ordinary data keep the plain mean bit for
+    // bit, as earlier reports and share links pinned it.
+    let (dev, abs_dev) = x
+        .iter()
+        .fold((0.0, 0.0), |(d, a), v| (d + (v - m0), a + (v - m0).abs()));
+    let correction = dev / n;
+    let spread = abs_dev / n;
+    if m0.abs() > 1e6 * spread && correction.abs() > 1e-10 * spread {
+        m0 + correction
+    } else {
+        m0
+    }
 }
 
 /// Sample variance with divisor n - 1, computed in two passes for accuracy.
@@ -12,11 +39,59 @@ pub fn variance(x: &[f64]) -> f64 {
         return f64::NAN;
     }
     let m = mean(x);
-    x.iter().map(|v| (v - m) * (v - m)).sum::<f64>() / (n - 1) as f64
+    let ss = x.iter().map(|v| (v - m) * (v - m)).sum::<f64>();
+    // Squares of deviations below about 1e-154 underflow and above about 1e154 overflow:
+    // then scale by the largest deviation first (values near 1e-300 keep their SD).
+    if ss.is_finite() && ss > 1e-290 || ss == 0.0 && x.iter().all(|&v| v == m) {
+        return ss / (n - 1) as f64;
+    }
+    let big = x.iter().fold(0.0f64, |b, v| b.max((v - m).abs()));
+    if big == 0.0 || !big.is_finite() {
+        return ss / (n - 1) as f64;
+    }
+    let scaled = x.iter().map(|v| ((v - m) / big).powi(2)).sum::<f64>();
+    scaled / (n - 1) as f64 * big * big
 }
 
+/// Sample standard deviation, scaled so that it neither underflows (values near 1e-300)
+/// nor overflows (values near 1e200) where the variance would.
 pub fn sd(x: &[f64]) -> f64 {
-    variance(x).sqrt()
+    let n = x.len();
+    if n < 2 {
+        return f64::NAN;
+    }
+    let v = variance(x);
+    if v.is_finite() && v > 1e-290 || v == 0.0 && x.iter().all(|&y| y == x[0]) {
+        return v.sqrt();
+    }
+    let m = mean(x);
+    let big = x.iter().fold(0.0f64, |b, y| b.max((y - m).abs()));
+    if big == 0.0 || !big.is_finite() {
+        return v.sqrt();
+    }
+    let scaled = x.iter().map(|y| ((y - m) / big).powi(2)).sum::<f64>();
+    (scaled / (n - 1) as f64).sqrt() * big
+}
+
+/// The offset all values share when it dwarfs their spread (timestamps, serial numbers,
+/// 1e15 plus small differences): the smallest value, when every value's magnitude exceeds
+/// 10^6 times the range; otherwise 0. Differences from a value this close are exact in
+/// floating point (Sterbenz's lemma), so the data can be analysed as differences from it.
+pub fn common_offset<'a>(values: impl IntoIterator<Item = &'a f64>) -> f64 {
+    let (mut lo, mut hi) = (f64::INFINITY, f64::NEG_INFINITY);
+    for &v in values {
+        lo = lo.min(v);
+        hi = hi.max(v);
+    }
+    let range = hi - lo;
+    if range.is_nan() || range <= 0.0 || !range.is_finite() {
+        return 0.0;
+    }
+    if lo.abs().min(hi.abs()) > 1e6 * range && lo.signum() == hi.signum() {
+        lo
+    } else {
+        0.0
+    }
 }
 
 /// Sorted copy of the data.

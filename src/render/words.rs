@@ -60,6 +60,11 @@ pub fn note(n: &Note) -> String {
                 if *count == 1 { "it" } else { "them" }
             )
         }
+        Note::ValuesShifted { by } => format!(
+            "All values share an offset much larger than their spread; they were analysed as \
+             differences from {by} (added back to the means, medians and ranges shown), so that \
+             no digits were lost."
+        ),
         Note::CommentLinesSkipped { count } => format!(
             "The {count} comment line{} starting with '#' before the table {} skipped.",
             plural(*count),
@@ -753,3 +758,9 @@ pub fn design_name(d: crate::designs::DesignKey) -> &'static str {
         DesignKey::Plan => "planning a study",
     }
 }
+
+/// What the page and the command say when a link of the first format (which carries no
+/// integrity check) is opened.
+pub const UNCHECKED_LINK: &str = "This link is of the first link format, which carries no \
+    integrity check: Reshuffle cannot tell whether it was changed or cut. It was opened and \
+    run; ask the sender for a new link if the numbers must be confirmed.";

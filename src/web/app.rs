@@ -125,6 +125,9 @@ fn App() -> impl IntoView {
                 Ok(d) => {
                     let full = d.job.has_data();
                     fm.restore(&d.job);
+                    if !d.checked {
+                        link_error.set(render::words::UNCHECKED_LINK.into());
+                    }
                     if !full {
                         link_error.set("This link holds the settings only: paste the data in step 1, then run the analysis.".into());
                     }

@@ -267,6 +267,7 @@ test("share links of format version 1 keep opening with the same numbers", async
     await page.waitForSelector("#finding", { timeout: 90000 });
     assert.equal(await num(page, "data-p-value"), pinned.p_value, name);
     assert.equal(await num(page, "data-ci-low"), pinned.ci.low, name);
+    assert.match(await page.textContent("#link-error"), /carries no integrity check/, name);
     await page.close();
   }
 });

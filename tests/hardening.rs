@@ -1,0 +1,168 @@
+//! No silent wrong answer: one test per class of input that used to give a wrong number or a
+//! crash (numbers near 1e15 with small differences, values near 1e-300, values whose squares
+//! overflow, undefined statistics, p-values that could not occur, links of the first format).
+//! Expected values come from exact rational arithmetic (Python's fractions module, by hand
+//! where noted) on the doubles the files hold.
+
+use std::process::Command;
+
+fn reshuffle(args: &[&str], input: &str) -> (i32, String, String) {
+    let dir = std::env::temp_dir().join(format!("reshuffle-hardening-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let file = dir.join(format!("t{}.csv", input.len()));
+    std::fs::write(&file, input).unwrap();
+    let mut all = vec!["analyze", file.to_str().unwrap()];
+    all.extend_from_slice(args);
+    let out = Command::new(env!("CARGO_BIN_EXE_reshuffle"))
+        .args(&all)
+        .output()
+        .expect("run reshuffle");
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).into_owned(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}
+
+fn report(args: &[&str], input: &str) -> serde_json::Value {
+    let mut a = args.to_vec();
+    a.push("--json");
+    let (code, out, err) = reshuffle(&a, input);
+    assert_eq!(code, 0, "{err}");
+    let mut v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    v["report"].take()
+}
+
+const QUICK: [&str; 6] = ["--seed", "5", "--resamples", "999", "--bootstrap", "500"];
+
+fn close(got: f64, want: f64, rel: f64) -> bool {
+    (got - want).abs() <= rel * want.abs().max(f64::MIN_POSITIVE)
+}
+
+/// Class: large offsets. 10^15 + {1, 2, 3, 4} against 10^15 + {5, 6, 7, 8} (all exact
+/// doubles): the difference in means is exactly −4, each SD is sqrt(5/3), each mean is
+/// 10^15 + 2.5 or 10^15 + 6.5 (by hand). Plain summation gave −4.25-ish answers before.
+#[test]
+fn values_with_a_large_offset_keep_their_small_differences() {
+    let mut t = String::from("y,g\n");
+    for v in [1, 2, 3, 4] {
+        t.push_str(&format!("{},a\n", 1_000_000_000_000_000u64 + v));
+    }
+    for v in [5, 6, 7, 8] {
+        t.push_str(&format!("{},b\n", 1_000_000_000_000_000u64 + v));
+    }
+    let r = report(&QUICK, &t);
+    assert_eq!(r["observed"].as_f64().unwrap(), -4.0);
+    assert_eq!(r["effect"].as_f64().unwrap(), -4.0);
+    let sd = (5.0f64 / 3.0).sqrt();
+    for (g, mean) in [(0, 1e15 + 2.5), (1, 1e15 + 6.5)] {
+        assert_eq!(r["groups"][g]["mean"].as_f64().unwrap(), mean);
+        assert!(close(r["groups"][g]["sd"].as_f64().unwrap(), sd, 1e-12));
+    }
+    // Welch t = −4 / sqrt(2 · (5/3) / 4) (by hand).
+    let t_want = -4.0 / (2.0 * 5.0 / 3.0 / 4.0f64).sqrt();
+    assert!(
+        close(r["welch"]["t"].as_f64().unwrap(), t_want, 1e-12),
+        "{}",
+        r["welch"]
+    );
+    assert!(r["notes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|n| n["code"] == "values-shifted"));
+    // The exact test: the observed split is the most extreme of C(8, 4) = 70, with its
+    // mirror image: p = 2/70.
+    assert!(close(r["p_value"].as_f64().unwrap(), 2.0 / 70.0, 1e-12));
+}
+
+/// Class: tiny magnitudes. {1, 2, 3}·1e-300 has SD 1e-300 and {2, 4, 6}·1e-300 has SD
+/// 2e-300 (by hand); squares of such values underflow to 0, which gave an SD of 0 before.
+#[test]
+fn values_near_1e_minus_300_keep_their_spread() {
+    let t = "y,g\n1e-300,a\n2e-300,a\n3e-300,a\n2e-300,b\n4e-300,b\n6e-300,b\n";
+    let r = report(&QUICK, t);
+    assert!(close(r["groups"][0]["sd"].as_f64().unwrap(), 1e-300, 1e-12));
+    assert!(close(r["groups"][1]["sd"].as_f64().unwrap(), 2e-300, 1e-12));
+    assert!(close(r["effect"].as_f64().unwrap(), -2e-300, 1e-12));
+    // The words do not round the difference to zero.
+    let (_, text, _) = reshuffle(&QUICK, t);
+    assert!(text.contains("2.000e-300 lower"), "{text}");
+}
+
+/// Class: overflow never becomes an answer. Values whose squares overflow are refused with
+/// the line and column, instead of an infinite statistic with p = 0.
+#[test]
+fn values_whose_squares_overflow_are_refused_with_their_cell() {
+    let t = "y,g\n1,a\n2,a\n3e200,a\n2,b\n4,b\n6,b\n";
+    let (code, out, err) = reshuffle(&QUICK, t);
+    assert_eq!(code, 2, "{out}");
+    assert!(err.contains("Line 4 of column \"y\" holds 3e200"), "{err}");
+    assert!(err.contains("Rescale"), "{err}");
+}
+
+/// Class: an undefined statistic is never p = 0. No yes answers in either group under the
+/// risk ratio: the ratio is undefined and the only possible table is the observed one, so
+/// p = 1 (by hand), with the note that the ratio is undefined.
+#[test]
+fn an_undefined_ratio_is_not_reported_as_p_zero() {
+    let out = Command::new(env!("CARGO_BIN_EXE_reshuffle"))
+        .args([
+            "analyze",
+            "--design",
+            "yes-no",
+            "--counts",
+            "a: 0/30, b: 0/40",
+            "--statistic",
+            "risk-ratio",
+            "--seed",
+            "1",
+            "--json",
+        ])
+        .output()
+        .unwrap();
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let r = &v["report"];
+    assert_eq!(r["p_value"].as_f64().unwrap(), 1.0, "{r}");
+    assert!(r["notes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|n| n["code"] == "ratio-at-limit"));
+}
+
+/// Class: a p-value is never impossible. Completely separated groups by random relabelling
+/// (enumeration switched off): the observed arrangement counts, so p ≥ 1/(m + 1)
+/// (Phipson & Smyth 2010, "Permutation p-values should never be zero").
+#[test]
+fn a_random_relabelling_p_value_is_at_least_one_over_m_plus_one() {
+    let mut t = String::from("y,g\n");
+    for i in 0..30 {
+        t.push_str(&format!("{},a\n{},b\n", i, 1000 + i));
+    }
+    let mut args = QUICK.to_vec();
+    args.extend(["--exact-limit", "0"]);
+    let r = report(&args, &t);
+    assert_eq!(r["exact"], false);
+    let p = r["p_value"].as_f64().unwrap();
+    assert!(p >= 1.0 / 1000.0 - 1e-15, "{p}");
+    assert_eq!(r["extreme_count"], 0);
+}
+
+/// Class: links of the first format carry no integrity check; they keep opening, with a
+/// note saying so.
+#[test]
+fn a_version_1_link_opens_with_a_note_that_it_carries_no_check() {
+    let link = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/fixtures/v1/links/two-groups-desks-welch-less.txt"
+    ))
+    .unwrap();
+    let out = Command::new(env!("CARGO_BIN_EXE_reshuffle"))
+        .args(["analyze", "--link", link.trim(), "--json"])
+        .output()
+        .unwrap();
+    assert!(out.status.success());
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("carries no integrity check"), "{err}");
+}
