@@ -166,3 +166,45 @@ fn a_version_1_link_opens_with_a_note_that_it_carries_no_check() {
     let err = String::from_utf8_lossy(&out.stderr);
     assert!(err.contains("carries no integrity check"), "{err}");
 }
+
+/// Class: the tie tolerance must not hide real differences. One value of 10^10 among values
+/// from 1.0 to 2.0 (one decimal): the exact count of relabellings whose |difference in
+/// means| is at least the observed one, by brute force over all C(12, 6) = 924 splits in
+/// integer arithmetic (tenths), against the engine's exact enumeration. A tolerance relative
+/// to the largest value (1e-9 × 10^10 = 10) counted every split with the outlier on the
+/// observed side as a tie.
+#[test]
+fn one_huge_value_does_not_turn_distinct_relabellings_into_ties() {
+    let a: [i128; 6] = [16, 17, 18, 19, 20, 100_000_000_000];
+    let b: [i128; 6] = [10, 11, 12, 13, 14, 15];
+    let pool: Vec<i128> = a.iter().chain(&b).copied().collect();
+    let total: i128 = pool.iter().sum();
+    let obs = (2 * a.iter().sum::<i128>() - total).abs();
+    let mut count = 0u64;
+    for mask in 0u32..(1 << 12) {
+        if mask.count_ones() != 6 {
+            continue;
+        }
+        let s: i128 = (0..12)
+            .filter(|i| mask >> i & 1 == 1)
+            .map(|i| pool[i])
+            .sum();
+        if (2 * s - total).abs() >= obs {
+            count += 1;
+        }
+    }
+    let mut t = String::from("y,g\n");
+    for v in a {
+        t.push_str(&format!("{},a\n", v as f64 / 10.0));
+    }
+    for v in b {
+        t.push_str(&format!("{},b\n", v as f64 / 10.0));
+    }
+    let r = report(&QUICK, &t);
+    assert_eq!(r["exact"], true);
+    assert_eq!(r["resamples"], 924);
+    assert_eq!(r["extreme_count"].as_u64().unwrap(), count, "{r}");
+    // Only the observed split and its mirror image are as extreme (the largest small values
+    // beside the outlier).
+    assert_eq!(count, 2);
+}

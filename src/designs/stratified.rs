@@ -20,7 +20,7 @@ use crate::num::stats;
 use crate::resample::boot::{Design as Resampling, SeMethod, Stat};
 use crate::resample::combin::choose;
 use crate::resample::strata::{SSetup, Stratum};
-use crate::resample::tally::TIE_TOLERANCE;
+use crate::resample::tally::SUM_TIE_TOLERANCE;
 use crate::resample::{boot, driver, rng};
 
 /// How the per-stratum differences are averaged.
@@ -443,7 +443,7 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Er
         .flat_map(|s| s.pool.iter())
         .fold(0.0f64, |m, v| m.max(v.abs()));
     let setup = SSetup {
-        tolerance: TIE_TOLERANCE * spread.max(observed_kernel.abs()),
+        tolerance: SUM_TIE_TOLERANCE * spread,
         observed: observed_kernel,
         strata,
     };

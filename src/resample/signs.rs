@@ -5,7 +5,7 @@
 
 use crate::num::stats;
 use crate::resample::rng::Stream;
-use crate::resample::tally::{Counts, TIE_TOLERANCE};
+use crate::resample::tally::{sum_tolerance, Counts};
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize, serde::Deserialize)]
 #[serde(rename_all = "kebab-case")]
@@ -44,15 +44,12 @@ pub struct FlipSetup {
 impl FlipSetup {
     pub fn new(statistic: FlipStatistic, d: &[f64]) -> FlipSetup {
         let observed = statistic.of(&mut d.to_vec());
-        let scale = d
-            .iter()
-            .fold(0.0f64, |m, v| m.max(v.abs()))
-            .max(observed.abs());
+        let scale = d.iter().fold(0.0f64, |m, v| m.max(v.abs()));
         FlipSetup {
             statistic,
             d: d.to_vec(),
             observed,
-            tolerance: TIE_TOLERANCE * scale,
+            tolerance: sum_tolerance(scale, d.len(), 1.0 / d.len().max(1) as f64),
         }
     }
 

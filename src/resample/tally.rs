@@ -47,6 +47,22 @@ pub fn p_value(c: &Counts, exact: bool, alt: Alternative, rule: TwoSidedRule) ->
 /// different order must not move a tied relabelling out of the tail.
 pub const TIE_TOLERANCE: f64 = 1e-9;
 
+/// Tolerance for ties of weighted sums over strata, relative to the largest magnitude among
+/// the (centred) values: 2^-38, about 3.6e-12 (see [`sum_tolerance`] for the reasoning).
+pub const SUM_TIE_TOLERANCE: f64 = 3.637978807091713e-12;
+
+/// Tolerance for ties of a statistic `factor · (sum of `terms` values) + constant` (a
+/// difference in means: factor 1/n1 + 1/n2; a mean of signed differences: 1/n) whose
+/// values are at most `max_abs` in magnitude: twice the worst-case rounding error of a sum
+/// kept by incremental updates and re-summed every 1024 of them, 1024 · (terms + 2) · 2^-53
+/// · max_abs per sum (Higham, "Accuracy and Stability of Numerical Algorithms", 2nd ed.,
+/// ch. 4). It follows the data's scale, not the statistic's size: a tolerance relative to
+/// the statistic (or to 1e-9 of the largest value) merged distinct relabellings into ties
+/// when one value was huge.
+pub fn sum_tolerance(max_abs: f64, terms: usize, factor: f64) -> f64 {
+    2.0 * 1024.0 * (terms as f64 + 2.0) * f64::EPSILON / 2.0 * max_abs * factor
+}
+
 /// Counts of relabellings at least as extreme as the observed one, in each direction.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
 pub struct Counts {

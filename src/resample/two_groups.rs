@@ -16,7 +16,7 @@ use crate::resample::combin::{choose, RevolvingDoor};
 #[cfg(test)]
 use crate::resample::rng::Purpose;
 use crate::resample::rng::{self, Stream};
-use crate::resample::tally::{Counts, TIE_TOLERANCE};
+use crate::resample::tally::{sum_tolerance, Counts, TIE_TOLERANCE};
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "kebab-case")]
@@ -140,11 +140,10 @@ impl Setup {
             }
             _ => s.stat_from_mask(&mask),
         };
-        let scale = match statistic {
-            Statistic::WelchT => 1.0f64.max(s.observed.abs()),
-            _ => spread.max(s.observed.abs()),
+        s.tolerance = match statistic {
+            Statistic::WelchT => TIE_TOLERANCE * 1.0f64.max(s.observed.abs()),
+            _ => sum_tolerance(spread, k, 1.0 / n1 as f64 + 1.0 / n2 as f64),
         };
-        s.tolerance = TIE_TOLERANCE * scale;
         s
     }
 
