@@ -208,3 +208,82 @@ fn one_huge_value_does_not_turn_distinct_relabellings_into_ties() {
     // beside the outlier).
     assert_eq!(count, 2);
 }
+
+/// Class: bounded memory. Counts in the billions are computed from the counts (the exact
+/// distribution over the window of non-negligible probabilities, about 10^6 terms here),
+/// not from billions of units (72 GB before). The p-value of a small difference matches the
+/// chi-square test's (the normal approximation is excellent at these sizes; common practice).
+#[test]
+fn yes_no_counts_in_the_billions_are_computed_from_the_counts() {
+    let run = |counts: &str| {
+        let out = Command::new(env!("CARGO_BIN_EXE_reshuffle"))
+            .args([
+                "analyze",
+                "--design",
+                "yes-no",
+                "--counts",
+                counts,
+                "--seed",
+                "1",
+                "--bootstrap",
+                "1000",
+                "--json",
+            ])
+            .output()
+            .unwrap();
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        let mut v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+        v["report"].take()
+    };
+    let r = run("a: 2000000000/5000000000, b: 2000010000/5000000000");
+    let (p, chi) = (
+        r["p_value"].as_f64().unwrap(),
+        r["chi_square"]["p_value"].as_f64().unwrap(),
+    );
+    assert!((p - chi).abs() < 2e-3, "exact {p} vs chi-square {chi}");
+    // Far apart: a p-value below 1e-290, but never 0.
+    let r = run("a: 2000000000/5000000000, b: 2100000000/5000000000");
+    let p = r["p_value"].as_f64().unwrap();
+    assert!(p > 0.0 && p < 1e-290, "{p}");
+}
+
+/// Class: bounded work. Every pair of 60 groups (1,770 comparisons, each with its own test
+/// and bootstrap) is refused before any work starts, naming the limit and the way out.
+#[test]
+fn thousands_of_comparisons_are_refused_before_any_work() {
+    let mut t = String::from("y,g\n");
+    for g in 0..60 {
+        for i in 0..3 {
+            t.push_str(&format!("{},g{g}\n", g * 3 + i));
+        }
+    }
+    let (code, _, err) = reshuffle(&["--design", "k-groups", "--seed", "1"], &t);
+    assert_eq!(code, 2);
+    assert!(err.contains("60 groups make 1,770 pairs"), "{err}");
+    assert!(err.contains("Choose a control group"), "{err}");
+}
+
+/// Class: bounded work. Settings that would draw more than 5·10^11 values are refused with
+/// the amount and what to lower, before any work starts.
+#[test]
+fn settings_that_would_run_for_hours_are_refused_with_the_limit() {
+    let mut t = String::from("y,g\n");
+    for i in 0..100_000 {
+        t.push_str(&format!(
+            "{},{}\n",
+            i % 977,
+            if i % 2 == 0 { "a" } else { "b" }
+        ));
+    }
+    let (code, _, err) = reshuffle(&["--resamples", "10000000", "--seed", "1"], &t);
+    assert_eq!(code, 2);
+    assert!(
+        err.contains("100,000 values × (10,000,000 relabellings"),
+        "{err}"
+    );
+    assert!(err.contains("Lower the relabellings"), "{err}");
+}

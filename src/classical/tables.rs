@@ -7,7 +7,7 @@ use statrs::distribution::{ChiSquared, ContinuousCDF};
 
 use crate::base::{float, Alternative, Interval, Method, Note, Side};
 use crate::classical::anova::ChiSquareTest;
-use crate::num::binomial::pmf_from_ratios;
+use crate::num::binomial::pmf_window;
 use crate::num::normal;
 
 /// The 2×2 table: a yes of n1 in the first group, c yes of n2 in the second.
@@ -27,7 +27,8 @@ impl Table2 {
 }
 
 /// The hypergeometric distribution of the first group's yes count with both margins
-/// fixed: (lo, probabilities of lo, lo + 1, …, hi).
+/// fixed: (lo, probabilities of lo, lo + 1, …), over the values whose probability does not
+/// underflow to zero (so that counts in the billions need megabytes, not gigabytes).
 pub fn hypergeometric(t: &Table2) -> (u64, Vec<f64>) {
     let (n1, n2, m) = (t.n1, t.n2, t.m());
     let lo = m.saturating_sub(n2);
@@ -39,7 +40,7 @@ pub fn hypergeometric(t: &Table2) -> (u64, Vec<f64>) {
         // P(a + 1) / P(a)
         ((n1 - a) as f64 * (m - a) as f64) / ((a + 1) as f64 * (n2 + a + 1 - m) as f64)
     };
-    (lo, pmf_from_ratios(lo, hi, mode, ratio))
+    pmf_window(lo, hi, mode, ratio)
 }
 
 /// The exact permutation p-value of a 2×2 table (a yes of n1 against c yes of n2) for the
@@ -48,7 +49,8 @@ pub fn hypergeometric(t: &Table2) -> (u64, Vec<f64>) {
 pub fn exact_p(a: u64, n1: u64, c: u64, n2: u64, alternative: Alternative) -> f64 {
     let t = Table2 { a, n1, c, n2 };
     let (lo, pmf) = hypergeometric(&t);
-    let obs = (a - lo) as usize;
+    // (The window's nearest end stands for an observed count whose probability underflows.)
+    let obs = (a.saturating_sub(lo) as usize).min(pmf.len() - 1);
     let big_n = (n1 + n2) as i128;
     let dist = |i: usize| ((lo + i as u64) as i128 * big_n - t.m() as i128 * n1 as i128).abs();
     let p: f64 = match alternative {

@@ -146,6 +146,7 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
     let mut notes = t.notes();
     let (x, y) = groups::paired_columns(&t, &req.x, &req.y, &mut notes)?;
     let n = x.len();
+    super::check_work(2 * n, 1, set)?;
     if n < 3 {
         return Err(Error::data(format!(
             "Only {n} complete (x, y) row{}; an association needs at least 3.",

@@ -226,6 +226,29 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
              with it in the direction chosen). Choose a control group, or ask a two-sided question.",
         ));
     }
+    // Bound the work before any starts: the omnibus test and every follow-up comparison.
+    let sizes: Vec<usize> = g.values.iter().map(Vec::len).collect();
+    let big_n: usize = sizes.iter().sum();
+    let pair_values = match control {
+        Some(c) => big_n - sizes[c] + (k - 1) * sizes[c],
+        None => {
+            if k * (k - 1) / 2 > super::MAX_PAIRS {
+                return Err(Error::new(
+                    ErrorKind::Limit,
+                    format!(
+                        "{k} groups make {} pairs, more follow-up comparisons than the {} one \
+                         analysis runs. Choose a control group (then each group is compared \
+                         with it: {} comparisons), or compare fewer groups.",
+                        crate::base::format::count((k * (k - 1) / 2) as u64),
+                        crate::base::format::count(super::MAX_PAIRS as u64),
+                        crate::base::format::count(k as u64 - 1)
+                    ),
+                ));
+            }
+            (k - 1) * big_n
+        }
+    };
+    super::check_work(big_n + pair_values, 1, st)?;
     let mut notes = g.notes.clone();
 
     // The omnibus test.

@@ -119,6 +119,46 @@ pub const MAX_EXACT_LIMIT: u64 = 10_000_000;
 /// Upper limit of bootstrap resamples.
 pub const MAX_BOOTSTRAP: u64 = 1_000_000;
 
+/// The most value draws one request may make (values × resamples, summed over the tests and
+/// bootstraps it runs): about 5·10^11, some minutes on one core of a laptop; more would run
+/// for hours, so it is refused before any work starts, with the numbers named.
+pub const MAX_WORK: f64 = 5e11;
+
+/// The most follow-up comparisons of every pair of groups (50 groups); beyond it, compare
+/// each group with a control group instead.
+pub const MAX_PAIRS: usize = 1225;
+
+/// Refuses a request whose work (`n` values, each run of `runs` resampling passes of
+/// `settings`) is above [`MAX_WORK`], saying how much it would be and what to lower.
+pub fn check_work(n: usize, runs: usize, settings: &TestSettings) -> Result<(), Error> {
+    let per_value = (settings.resamples + settings.bootstrap_resamples) as f64;
+    let work = n as f64 * per_value * runs as f64;
+    if work <= MAX_WORK {
+        return Ok(());
+    }
+    let fit = (MAX_WORK / (n as f64 * runs as f64)).floor();
+    Err(Error::new(
+        ErrorKind::Limit,
+        format!(
+            "This analysis would draw about {} values ({} values × ({} relabellings + {} \
+             bootstrap resamples){}), more than the {} one run may draw (it would take hours). \
+             Lower the relabellings and bootstrap resamples to about {} in total, or analyse \
+             fewer values.",
+            fmt::sig(work),
+            fmt::count(n as u64),
+            fmt::count(settings.resamples),
+            fmt::count(settings.bootstrap_resamples),
+            if runs > 1 {
+                format!(" × {} tests", fmt::count(runs as u64))
+            } else {
+                String::new()
+            },
+            fmt::sig(MAX_WORK),
+            fmt::count(fit.max(0.0) as u64)
+        ),
+    ))
+}
+
 /// Size, centre and spread of one group.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct GroupSummary {

@@ -366,6 +366,7 @@ pub(crate) fn sign_flip(
     progress: ProgressFn,
 ) -> Result<SignFlipReport, Error> {
     let n = d.len();
+    super::check_work(n, 1, set)?;
     if n < 2 {
         return Err(Error::data(format!(
             "Only {n} complete pair{}; at least 2 are needed (and 6 or more for a sign-flip \

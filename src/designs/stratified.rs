@@ -412,6 +412,8 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Er
     let st = &req.settings;
     let mut notes = Vec::new();
     let (names, data, left_out) = read(req, &mut notes)?;
+    let total: usize = data.iter().map(|s| s.a.len() + s.b.len()).sum();
+    super::check_work(total, 1, st)?;
     let wraw: Vec<f64> = data
         .iter()
         .map(|s| req.weights.weight(s.a.len() as f64, s.b.len() as f64))

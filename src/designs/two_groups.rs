@@ -244,6 +244,7 @@ fn two_group_report(
 ) -> Result<TwoGroupsReport, Error> {
     let set = &req.settings;
     let (a, b) = (&g.a, &g.b);
+    super::check_work(a.len() + b.len(), 1, set)?;
     let mut notes = g.notes.clone();
     let st = req.statistic;
     let setup = Setup::new(st, a, b);

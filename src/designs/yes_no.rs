@@ -522,7 +522,11 @@ pub fn run(req: &YesNoRequest, progress: ProgressFn) -> Result<YesNoReport, Erro
 
     // The exact test over the hypergeometric distribution of the first group's yes count.
     let (lo, pmf) = hypergeometric(&t);
-    let obs_i = (t.a - lo) as usize;
+    // The observed count lies in the window of non-negligible probabilities unless its own
+    // probability underflows (counts in the millions far from the expected ones); then the
+    // window's nearest end stands for it, which gives an upper bound of the p-value below
+    // 1e-300 instead of an impossible p = 0.
+    let obs_i = (t.a.saturating_sub(lo) as usize).min(pmf.len() - 1);
     let key = |i: usize| comparable(stat, stat_at(stat, (lo + i as u64) as f64, n1, m, n2));
     let obs_key = key(obs_i);
     let big_n = (t.n1 + t.n2) as i128;
