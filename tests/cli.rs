@@ -723,3 +723,49 @@ fn help_version_completions_and_option_messages() {
     assert_eq!(code, 0, "{err}");
     assert!(out.contains("7.2"), "{out}");
 }
+
+/// Ctrl-C stops a long run cleanly: the engine's progress callback sees it, nothing is
+/// printed on standard output, and the exit code is 130 (the shell's convention for SIGINT).
+#[cfg(unix)]
+#[test]
+fn ctrl_c_stops_a_long_run_cleanly() {
+    use std::io::Write;
+    let dir = std::env::temp_dir().join(format!("reshuffle-ctrlc-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let file = dir.join("long.csv");
+    let mut f = std::fs::File::create(&file).unwrap();
+    writeln!(f, "y,g").unwrap();
+    for i in 0..20_000 {
+        writeln!(
+            f,
+            "{},{}",
+            (i * 7919) % 1000,
+            if i % 2 == 0 { "a" } else { "b" }
+        )
+        .unwrap();
+    }
+    drop(f);
+    let child = Command::new(env!("CARGO_BIN_EXE_reshuffle"))
+        .args([
+            "analyze",
+            file.to_str().unwrap(),
+            "--statistic",
+            "median-difference",
+        ])
+        .args(["--resamples", "10000000", "--seed", "1"])
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .unwrap();
+    std::thread::sleep(std::time::Duration::from_millis(1500));
+    let status = Command::new("kill")
+        .args(["-INT", &child.id().to_string()])
+        .status()
+        .unwrap();
+    assert!(status.success());
+    let out = child.wait_with_output().unwrap();
+    assert_eq!(out.status.code(), Some(130));
+    assert!(out.stdout.is_empty());
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("stopped (Ctrl-C)"), "{err}");
+}

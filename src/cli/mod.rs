@@ -6,6 +6,7 @@
 mod args;
 mod bench;
 mod jobs;
+mod progress;
 
 use std::io::{Read, Write};
 
@@ -92,6 +93,10 @@ pub fn main_with(
     };
     match run(cli, out) {
         Ok(()) => 0,
+        Err(e) if e.is_cancelled() && progress::stopped() => {
+            let _ = writeln!(err, "reshuffle: stopped (Ctrl-C); nothing was printed.");
+            130
+        }
         Err(e) => {
             let _ = writeln!(err, "reshuffle: {}", render::words::error(&e));
             2
@@ -172,7 +177,11 @@ fn today() -> String {
 /// Runs a job and prints its findings as asked.
 fn run_job(job: &Job, o: &Outputs, out: &mut dyn std::io::Write) -> Result<(), Error> {
     let date = today();
-    let report = job.run(&mut |_| true)?;
+    progress::catch_interrupt();
+    let mut meter = progress::Meter::new();
+    let report = job.run(&mut |p| meter.update(p));
+    meter.finish();
+    let report = report?;
     let doc = render::document(&report, &date);
     let text = if o.json {
         wire::report_json(&report) + "\n"
