@@ -31,6 +31,18 @@ pub enum Note {
         /// The offset.
         by: f64,
     },
+    /// Values with more significant digits than a double keeps (17) were rounded to the
+    /// nearest double.
+    DigitsBeyondDouble {
+        /// The column.
+        column: String,
+        /// How many values.
+        count: usize,
+        /// The line of the first.
+        line: u64,
+        /// The first as typed (shortened).
+        text: String,
+    },
     /// The comment block before the table (lines starting with '#') was skipped.
     CommentLinesSkipped {
         /// How many lines.

@@ -201,6 +201,7 @@ pub fn wide_values(
             });
         }
         notes.extend(nums.spreadsheet_note(&col.name));
+        notes.extend(nums.precision_note(&col.name));
         if nums.decimal_commas > 0 {
             notes.push(Note::DecimalCommas {
                 column: col.name.clone(),

@@ -3,6 +3,7 @@
 
 use serde::{Deserialize, Serialize};
 
+use crate::base::format::brief;
 use crate::base::{Error, ErrorKind, Note};
 
 /// The kind of values a column holds.
@@ -413,6 +414,25 @@ pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, Error> {
 impl Table {
     pub fn column(&self, name: &str) -> Result<&Column, Error> {
         self.columns.iter().find(|c| c.name == name).ok_or_else(|| {
+            // A first row of numbers (years, say) is read as data; if the name asked for is
+            // one of its cells, say how to make that row the header.
+            let in_first_row = !self.header
+                && self.columns.iter().any(|c| {
+                    c.cells
+                        .first()
+                        .is_some_and(|f| f.text.trim() == name.trim())
+                });
+            if in_first_row {
+                return Error::new(
+                    ErrorKind::Column,
+                    format!(
+                        "\"{name}\" is in the first row, which holds only numbers and so was read \
+                         as data. If the first row names the columns, say so: set \"First row\" \
+                         to \"holds column names\" (in the command: --header names)."
+                    ),
+                )
+                .at_line(self.columns[0].cells[0].line);
+            }
             let names: Vec<String> = self
                 .columns
                 .iter()
@@ -441,6 +461,23 @@ pub struct NumericColumn {
     /// of the first few.
     pub spreadsheet_errors: usize,
     pub spreadsheet_error_cells: Vec<(u64, String)>,
+    /// How many values have more significant digits than a double keeps (17), and the
+    /// line and text of the first.
+    pub too_precise: usize,
+    pub too_precise_first: Option<(u64, String)>,
+}
+
+/// Significant digits of a number as typed: from the first non-zero digit to the last
+/// non-zero one of the mantissa ("0.00120" has 2, "1234567890.12345678901" has 21).
+pub fn significant_digits(text: &str) -> usize {
+    let mantissa = text.trim().split(['e', 'E']).next().unwrap_or("");
+    let digits: Vec<u8> = mantissa.bytes().filter(u8::is_ascii_digit).collect();
+    let first = digits.iter().position(|&d| d != b'0');
+    let last = digits.iter().rposition(|&d| d != b'0');
+    match (first, last) {
+        (Some(f), Some(l)) => l - f + 1,
+        _ => 0,
+    }
 }
 
 /// Notes on the cells of column `name` left out as missing: blank or NA cells, and
@@ -483,6 +520,18 @@ impl NumericColumn {
             });
         }
         notes.extend(self.spreadsheet_note(name));
+        notes.extend(self.precision_note(name));
+    }
+
+    /// The note on values with more digits than a double keeps, if there are any.
+    pub fn precision_note(&self, name: &str) -> Option<Note> {
+        let (line, text) = self.too_precise_first.clone()?;
+        Some(Note::DigitsBeyondDouble {
+            column: name.to_string(),
+            count: self.too_precise,
+            line,
+            text,
+        })
     }
 
     /// The note on spreadsheet error values in column `name`, if it has any.
@@ -502,6 +551,7 @@ impl Column {
         let mut missing = 0;
         let mut decimal_commas = 0;
         let (mut spreadsheet_errors, mut spreadsheet_error_cells) = (0, Vec::new());
+        let (mut too_precise, mut too_precise_first) = (0, None);
         let mut bad: Vec<&Cell> = Vec::new();
         for (i, c) in self.cells.iter().enumerate() {
             match read_value(&c.text, decimal_comma) {
@@ -524,6 +574,12 @@ impl Column {
                     }
                     if c.text.contains(',') {
                         decimal_commas += 1;
+                    }
+                    if significant_digits(&c.text) > 17 {
+                        too_precise += 1;
+                        if too_precise_first.is_none() {
+                            too_precise_first = Some((c.line, brief(c.text.trim())));
+                        }
                     }
                     values.push((i, v))
                 }
@@ -578,6 +634,8 @@ impl Column {
             decimal_commas,
             spreadsheet_errors,
             spreadsheet_error_cells,
+            too_precise,
+            too_precise_first,
         })
     }
 }
@@ -626,6 +684,43 @@ mod tests {
             .numbers(false)
             .unwrap_err();
         assert_eq!(e.line, Some(3), "{e:?}");
+    }
+
+    /// Class: a first row of numbers (years as column names) read as data: asking for one of
+    /// its cells as a column says how to make it the header, and doing so works.
+    #[test]
+    fn a_first_row_of_numbers_used_as_names_says_how_to_make_it_the_header() {
+        let text = "2019,2020\n4.1,4.4\n3.9,4.8\n4.0,4.6\n";
+        let t = parse(text, HeaderChoice::Detect).unwrap();
+        let e = t.column("2019").unwrap_err();
+        assert!(e.message.contains("--header names"), "{}", e.message);
+        assert!(e.message.contains("holds column names"), "{}", e.message);
+        assert_eq!(e.line, Some(1));
+        let t = parse(text, HeaderChoice::Names).unwrap();
+        assert_eq!(t.column("2019").unwrap().cells.len(), 3);
+    }
+
+    /// Class: more significant digits than a double keeps get a note (17 digits suffice to
+    /// tell doubles apart; IEEE 754).
+    #[test]
+    fn digits_beyond_a_double_get_a_note() {
+        assert_eq!(significant_digits("0.00120"), 2);
+        assert_eq!(significant_digits("-1234567890.12345678901e3"), 21);
+        let t = parse("y,g\n1234567890.123456789,a\n2.5,b\n", HeaderChoice::Detect).unwrap();
+        let n = t.column("y").unwrap().numbers(false).unwrap();
+        let mut notes = Vec::new();
+        n.push_notes("y", &mut notes);
+        assert!(
+            matches!(
+                &notes[..],
+                [Note::DigitsBeyondDouble {
+                    count: 1,
+                    line: 2,
+                    ..
+                }]
+            ),
+            "{notes:?}"
+        );
     }
 
     /// Class: a huge cell (after an unterminated quote, say) is quoted only briefly.

@@ -65,6 +65,20 @@ pub fn note(n: &Note) -> String {
              differences from {by} (added back to the means, medians and ranges shown), so that \
              no digits were lost."
         ),
+        Note::DigitsBeyondDouble {
+            column,
+            count,
+            line,
+            text,
+        } => format!(
+            "{count} value{} in column \"{column}\" {} more significant digits than the 17 a \
+             double-precision number keeps (the first on line {line}: {text}); {} rounded to \
+             the nearest double. If the last digits matter (long identifiers, timestamps in \
+             nanoseconds), subtract a common offset before pasting.",
+            plural(*count),
+            if *count == 1 { "has" } else { "have" },
+            if *count == 1 { "it was" } else { "they were" }
+        ),
         Note::CommentLinesSkipped { count } => format!(
             "The {count} comment line{} starting with '#' before the table {} skipped.",
             plural(*count),
