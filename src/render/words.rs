@@ -614,7 +614,16 @@ pub fn strata_weights(w: crate::designs::stratified::StrataWeights) -> &'static 
 
 /// An error with where it points, as every face shows it: "… [line 4, column \"dose\"]".
 pub fn error(e: &crate::base::Error) -> String {
-    let place = match (&e.line, &e.column) {
+    // The place is added only where the sentence does not already name it.
+    let m = &e.message;
+    let line = e
+        .line
+        .filter(|l| !m.contains(&format!("Line {l} ")) && !m.contains(&format!("line {l} ")));
+    let column = e
+        .column
+        .as_ref()
+        .filter(|c| !m.contains(&format!("\"{c}\"")));
+    let place = match (line, column) {
         (Some(l), Some(c)) => format!(" [line {l}, column \"{c}\"]"),
         (Some(l), None) => format!(" [line {l}]"),
         (None, Some(c)) => format!(" [column \"{c}\"]"),
