@@ -148,26 +148,7 @@ pub fn doc(r: &KGroupsReport, date: &str) -> Doc {
         "Seed and generator".into(),
         format!("{} · {}", r.test.seed, r.test.rng),
     ));
-    let groups = DocTable {
-        id: "k-groups-table",
-        caption: "Groups".into(),
-        header: ["group", "n", "mean", "median", "SD"]
-            .map(String::from)
-            .to_vec(),
-        rows: r
-            .groups
-            .iter()
-            .map(|g| {
-                vec![
-                    g.name.clone(),
-                    g.n.to_string(),
-                    fmt::fixed(g.mean, d + 1),
-                    fmt::fixed(g.median, d + 1),
-                    fmt::fixed(g.sd, d + 1),
-                ]
-            })
-            .collect(),
-    };
+    let groups = super::group_table("k-groups-table", "Groups".into(), &r.groups, d + 1, false);
     let pd = r
         .pairwise
         .iter()

@@ -49,6 +49,45 @@ pub fn values_csv(report: &Report) -> Option<String> {
     }
 }
 
+/// The table of group sizes, centres and spreads the group designs show, with `decimals`
+/// decimals (and the 20% trimmed mean when `trimmed`).
+pub fn group_table(
+    id: &'static str,
+    caption: String,
+    groups: &[crate::designs::GroupSummary],
+    decimals: usize,
+    trimmed: bool,
+) -> DocTable {
+    let mut header: Vec<String> = ["group", "n", "mean", "median", "SD"]
+        .map(String::from)
+        .to_vec();
+    if trimmed {
+        header.push("20% trimmed mean".into());
+    }
+    let rows = groups
+        .iter()
+        .map(|g| {
+            let mut row = vec![
+                g.name.clone(),
+                g.n.to_string(),
+                fmt::fixed(g.mean, decimals),
+                fmt::fixed(g.median, decimals),
+                fmt::fixed(g.sd, decimals),
+            ];
+            if trimmed {
+                row.push(fmt::fixed(g.trimmed_mean, decimals));
+            }
+            row
+        })
+        .collect();
+    DocTable {
+        id,
+        caption,
+        header,
+        rows,
+    }
+}
+
 /// A table of intervals by method: method, low, high, note.
 pub fn interval_table(id: &'static str, caption: &str, ivs: &[Interval], d: usize) -> DocTable {
     let cell = |v: Option<f64>, open: &str| v.map_or(open.to_string(), |x| fmt::fixed(x, d));

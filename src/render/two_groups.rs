@@ -1,7 +1,7 @@
 //! The two-group report in words: the finding, the results, the groups table, the figures,
 //! the methods paragraph and the cautions.
 
-use super::doc::{full, row, Doc, DocTable, Figure, Headline};
+use super::doc::{full, row, Doc, Figure, Headline};
 use super::plot::{self, BootFigure, NullFigure};
 use super::words;
 use crate::base::format as fmt;
@@ -197,27 +197,13 @@ pub fn doc(r: &TwoGroupsReport, date: &str) -> Doc {
         "Seed and generator".into(),
         format!("{} · {}", r.test.seed, r.test.rng),
     ));
-    let groups = DocTable {
-        id: "groups-table",
-        caption: format!("The two groups ({})", r.value_label),
-        header: ["group", "n", "mean", "median", "SD", "20% trimmed mean"]
-            .map(String::from)
-            .to_vec(),
-        rows: r
-            .groups
-            .iter()
-            .map(|g| {
-                vec![
-                    g.name.clone(),
-                    g.n.to_string(),
-                    fmt::fixed(g.mean, d + 1),
-                    fmt::fixed(g.median, d + 1),
-                    fmt::fixed(g.sd, d + 1),
-                    fmt::fixed(g.trimmed_mean, d + 1),
-                ]
-            })
-            .collect(),
-    };
+    let groups = super::group_table(
+        "groups-table",
+        format!("The two groups ({})", r.value_label),
+        &r.groups,
+        d + 1,
+        true,
+    );
     let mut tables = vec![groups];
     if r.intervals.len() > 1 {
         tables.push(super::interval_table(
