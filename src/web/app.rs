@@ -149,6 +149,14 @@ fn App() -> impl IntoView {
         // A seed from the start, so the address bar is a working link at once.
         fm.seed.set(fresh_seed().to_string());
     }
+    // A message about the opened link belongs to that link's data: it goes once the data
+    // are changed (the user pasted or chose other data).
+    let opened_data = fm.data.get_untracked();
+    Effect::new(move |_| {
+        if fm.data.get() != opened_data {
+            link_error.set(String::new());
+        }
+    });
     // Keep the address bar a working link once a seed is set.
     Effect::new(move |_| {
         fm.track();

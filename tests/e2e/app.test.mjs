@@ -286,6 +286,9 @@ test("damaged or hostile links give a message and a working page; nothing from a
   await page.goto(flipped);
   await page.reload();
   await page.waitForFunction(() => /changed or cut/.test(document.querySelector("#link-error")?.textContent || ""));
+  // The message belongs to the link: it goes once the user pastes other data.
+  await page.fill("#data", "y,g\n1,a\n2,a\n3,b\n4,b\n");
+  await page.waitForFunction(() => (document.querySelector("#link-error")?.textContent || "") === "");
   await page.goto(base + "#r9.abc");
   await page.reload();
   await page.waitForFunction(() => /newer version/.test(document.querySelector("#link-error")?.textContent || ""));
