@@ -287,3 +287,210 @@ fn settings_that_would_run_for_hours_are_refused_with_the_limit() {
     );
     assert!(err.contains("Lower the relabellings"), "{err}");
 }
+
+/// Class: large offsets, stratified. 10^15 plus quarters, two strata (exact doubles): in
+/// stratum "s1" the means are 10^15 + 7/12 and 10^15 + 25/12, a difference of −1.5; in
+/// "s2" 10^15 + 3.25 and 10^15 + 4.5, −1.25; weighted by stratum size (6 and 4) the
+/// difference is −1.4 (by hand). Sums of six values near 10^15 round to whole numbers, so the
+/// bootstrap's plain sums lost the quarters before the offset was taken out.
+#[test]
+fn stratified_values_with_a_large_offset_keep_their_small_differences() {
+    let rows = [
+        ("s1", "a", 0.25),
+        ("s1", "a", 0.5),
+        ("s1", "a", 1.0),
+        ("s1", "b", 1.75),
+        ("s1", "b", 2.0),
+        ("s1", "b", 2.5),
+        ("s2", "a", 3.0),
+        ("s2", "a", 3.5),
+        ("s2", "b", 4.25),
+        ("s2", "b", 4.75),
+    ];
+    let mut t = String::from("y,g,site\n");
+    for (s, g, v) in rows {
+        t.push_str(&format!("{},{g},{s}\n", 1e15 + v));
+    }
+    let mut args = vec![
+        "--design",
+        "stratified",
+        "--value",
+        "y",
+        "--group",
+        "g",
+        "--strata",
+        "site",
+    ];
+    args.extend_from_slice(&QUICK);
+    let r = report(&args, &t);
+    assert!(close(r["effect"].as_f64().unwrap(), -1.4, 1e-12), "{r}");
+    assert!(close(r["observed"].as_f64().unwrap(), -1.4, 1e-12), "{r}");
+    let s1 = &r["strata"][0];
+    assert_eq!(s1["difference"].as_f64().unwrap(), -1.5);
+    assert!(close(
+        s1["mean1"].as_f64().unwrap(),
+        1e15 + 7.0 / 12.0,
+        1e-15
+    ));
+    assert_eq!(r["strata"][1]["difference"].as_f64().unwrap(), -1.25);
+    // Unstratified, the means are 10^15 + 1.65 and 10^15 + 3.05 (by hand): −1.4 again.
+    let plain = r["unstratified"]["mean_difference"].as_f64().unwrap();
+    assert!(close(plain, -1.4, 1e-12), "{plain}");
+    // Every bootstrap resample's difference is a weighted difference of quarter-valued
+    // cell means, so the interval stays within the range of those (−3 to 0 here), and
+    // is not the rounding noise of sums near 6·10^15.
+    let ci = &r["ci"];
+    let (lo, hi) = (ci["low"].as_f64().unwrap(), ci["high"].as_f64().unwrap());
+    assert!(lo >= -3.0 && hi <= 0.0 && lo < hi, "{ci}");
+    assert!(r["notes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|n| n["code"] == "values-shifted"));
+}
+
+/// Every way to deal `items` into groups of the given sizes (multiset permutations of the
+/// group labels), for brute-force counts.
+fn labellings(sizes: &[usize]) -> Vec<Vec<usize>> {
+    fn go(left: &mut Vec<usize>, cur: &mut Vec<usize>, n: usize, out: &mut Vec<Vec<usize>>) {
+        if cur.len() == n {
+            out.push(cur.clone());
+            return;
+        }
+        for g in 0..left.len() {
+            if left[g] > 0 {
+                left[g] -= 1;
+                cur.push(g);
+                go(left, cur, n, out);
+                cur.pop();
+                left[g] += 1;
+            }
+        }
+    }
+    let mut out = Vec::new();
+    let n = sizes.iter().sum();
+    go(&mut sizes.to_vec(), &mut Vec::new(), n, &mut out);
+    out
+}
+
+/// Class: the tie tolerance of the k-group F. One value of 10^5 among values from 1.0 to
+/// 1.8 (tenths), three groups of three: the exact count of the 9!/(3!·3!·3!) = 1,680
+/// labellings whose F is at least the observed one, by brute force in integer arithmetic
+/// (with equal sizes F increases with Σ_g S_g², S_g the group sums in tenths). The labellings
+/// that keep the outlier's partners but split the small values differently differ in F by
+/// about 2·10^-11 of it: a tolerance of 10^-9 of F counted them as ties. (Far larger outliers
+/// push such differences below what a double can hold at all, about 10^-16 of F; a rank
+/// statistic is the remedy there.)
+#[test]
+fn one_huge_value_does_not_turn_distinct_k_group_labellings_into_ties() {
+    let groups: [[i128; 3]; 3] = [[18, 17, 1_000_000], [10, 11, 12], [13, 14, 15]];
+    let pool: Vec<i128> = groups.iter().flatten().copied().collect();
+    let q = |lab: &[usize]| -> i128 {
+        let mut s = [0i128; 3];
+        for (v, g) in pool.iter().zip(lab) {
+            s[*g] += v;
+        }
+        s.iter().map(|v| v * v).sum()
+    };
+    let observed: Vec<usize> = (0..9).map(|i| i / 3).collect();
+    let q_obs = q(&observed);
+    let all = labellings(&[3, 3, 3]);
+    assert_eq!(all.len(), 1680);
+    let count = all.iter().filter(|l| q(l) >= q_obs).count() as u64;
+    let mut t = String::from("y,g\n");
+    for (g, vals) in groups.iter().enumerate() {
+        for v in vals {
+            t.push_str(&format!("{},g{g}\n", *v as f64 / 10.0));
+        }
+    }
+    let mut args = vec!["--design", "k-groups", "--statistic", "f"];
+    args.extend_from_slice(&QUICK);
+    let r = report(&args, &t);
+    assert_eq!(r["exact"], true);
+    assert_eq!(r["resamples"], 1680);
+    assert_eq!(
+        r["extreme_count"].as_u64().unwrap(),
+        count,
+        "{}",
+        r["p_value"]
+    );
+    // The outlier's group holds the two largest small values: only the 3! = 6 relabellings
+    // that permute the group names are as extreme.
+    assert_eq!(count, 6);
+}
+
+/// Class: the tie tolerance of the association test. One x of 10^8 among x from 0.1 to
+/// 0.6: the exact count of the 7! = 5,040 pairings with |r| at least the observed one, by
+/// brute force in integer arithmetic (|r| increases with |n·Σ x·y_π − Σx·Σy|, in tenths).
+/// Pairings that keep the outlier's partner differ in r by about 10^-10: a tolerance of
+/// 10^-9 of r merged them.
+#[test]
+fn one_huge_value_does_not_turn_distinct_pairings_into_ties() {
+    let x: [i128; 7] = [1, 2, 3, 4, 5, 6, 1_000_000_000];
+    let y: [i128; 7] = [3, 1, 2, 5, 4, 6, 7];
+    let (sx, sy): (i128, i128) = (x.iter().sum(), y.iter().sum());
+    let stat = |p: &[usize]| -> i128 {
+        let s: i128 = (0..7).map(|i| x[i] * y[p[i]]).sum();
+        (7 * s - sx * sy).abs()
+    };
+    let obs = stat(&[0, 1, 2, 3, 4, 5, 6]);
+    let ones = [1usize; 7];
+    let count = labellings(&ones).iter().filter(|p| stat(p) >= obs).count() as u64;
+    let mut t = String::from("x,y\n");
+    for i in 0..7 {
+        t.push_str(&format!("{},{}\n", x[i] as f64 / 10.0, y[i] as f64 / 10.0));
+    }
+    let mut args = vec!["--design", "association", "--x", "x", "--y", "y"];
+    args.extend_from_slice(&QUICK);
+    let r = report(&args, &t);
+    assert_eq!(r["exact"], true);
+    assert_eq!(r["resamples"], 5040);
+    assert_eq!(
+        r["extreme_count"].as_u64().unwrap(),
+        count,
+        "{}",
+        r["p_value"]
+    );
+    assert!(count < 100, "{count}");
+}
+
+/// Class: bounded work for estimates. A studentized interval of a median (no formula SE, so
+/// each of the 100,000 resamples nests 50 more) over 100,000 values would draw 5.1·10^11
+/// values: refused before any work, with what to lower.
+#[test]
+fn estimates_that_would_run_for_hours_are_refused_with_the_limit() {
+    let mut t = String::from("y\n");
+    for i in 0..100_000 {
+        t.push_str(&format!("{}\n", i % 977));
+    }
+    let dir = std::env::temp_dir().join(format!("reshuffle-hardening-e{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let file = dir.join("e.csv");
+    std::fs::write(&file, &t).unwrap();
+    let out = Command::new(env!("CARGO_BIN_EXE_reshuffle"))
+        .args([
+            "estimate",
+            file.to_str().unwrap(),
+            "--value",
+            "y",
+            "--estimate",
+            "median",
+        ])
+        .args([
+            "--interval",
+            "studentized",
+            "--resamples",
+            "100000",
+            "--seed",
+            "1",
+        ])
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2), "{err}");
+    assert!(
+        err.contains("100,000 values × 100,000 resamples × 51"),
+        "{err}"
+    );
+    assert!(err.contains("Lower the resamples"), "{err}");
+}

@@ -16,7 +16,6 @@ use crate::resample::boot::{Design as Resampling, SeMethod, Stat};
 pub use crate::resample::pairings::AssocStatistic;
 use crate::resample::pairings::{factorial, heap_enumerate, kernel_r, random_block, Kernel};
 use crate::resample::summary::histogram;
-use crate::resample::tally::TIE_TOLERANCE;
 use crate::resample::{boot, driver};
 
 /// The association design.
@@ -168,15 +167,7 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
         .map(|(p, q)| p * q)
         .sum::<f64>()
         * kernel.scale;
-    // Ties: relative to the largest value the statistic can take (1 for r and rho; for the
-    // slope sqrt(Σb²/Σa²), the slope of a perfect fit).
-    let most = match req.statistic {
-        AssocStatistic::Slope => (kernel.b.iter().map(|v| v * v).sum::<f64>()
-            / kernel.a.iter().map(|v| v * v).sum::<f64>())
-        .sqrt(),
-        _ => 1.0,
-    };
-    let tol = TIE_TOLERANCE * most.max(observed.abs());
+    let tol = crate::resample::pairings::tie_tolerance(&kernel);
     let pairings = factorial(n);
     let (counts, values, exact) = driver::Relabelling {
         count: pairings,

@@ -411,7 +411,16 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Er
     StratifiedDesign::check(req)?;
     let st = &req.settings;
     let mut notes = Vec::new();
-    let (names, data, left_out) = read(req, &mut notes)?;
+    let (names, mut data, left_out) = read(req, &mut notes)?;
+    // One offset for every stratum (it cancels from every difference); the reported stratum
+    // means add it back.
+    let shift = groups::shift_values(
+        &mut data
+            .iter_mut()
+            .flat_map(|s| [&mut s.a, &mut s.b])
+            .collect::<Vec<_>>(),
+        &mut notes,
+    );
     let total: usize = data.iter().map(|s| s.a.len() + s.b.len()).sum();
     super::check_work(total, 1, st)?;
     let wraw: Vec<f64> = data
@@ -587,8 +596,8 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Er
                 name: s.name.clone(),
                 n1: s.a.len(),
                 n2: s.b.len(),
-                mean1: m1,
-                mean2: m2,
+                mean1: m1 + shift,
+                mean2: m2 + shift,
                 difference: m1 - m2,
                 weight: w / wsum,
             }

@@ -89,7 +89,6 @@ impl KSetup {
         tagged.sort_by(|a, b| a.0.total_cmp(&b.0));
         let pool: Vec<f64> = tagged.iter().map(|t| t.0).collect();
         let labels: Vec<u16> = tagged.iter().map(|t| t.1).collect();
-        let spread = pool.iter().fold(0.0f64, |m, v| m.max(v.abs()));
         let mut s = KSetup {
             statistic,
             total: pool.iter().sum(),
@@ -103,12 +102,56 @@ impl KSetup {
         };
         let mut scratch = s.scratch();
         s.observed = s.stat(&s.labels, &mut scratch);
-        let scale = match statistic {
-            KStatistic::MedianSpread => spread.max(s.observed.abs()),
-            _ => 1.0f64.max(s.observed.abs()),
-        };
-        s.tolerance = TIE_TOLERANCE * scale;
+        s.tolerance = s.tie_tolerance();
         s
+    }
+
+    /// How far two computations of the same statistic (the observed labelling's and a
+    /// relabelling's, summed in other orders) can lie apart by rounding alone: twice a
+    /// worst-case bound on each (Higham, "Accuracy and Stability of Numerical Algorithms",
+    /// 2nd ed., ch. 3-4, with ε for the unit roundoff to spare). It follows the data's
+    /// scale, not the statistic's size: a tolerance of 10^-9 of the statistic merged
+    /// distinct labellings when one value was huge.
+    ///
+    /// - F: with centred values v, Q = Σ_g (Σ_g v)²/n_g is off by at most (3n + k + 4)·ε·Σv²
+    ///   (Cauchy–Schwarz bounds (Σ_g |v|)²/n_g by Σ_g v²); F = (SSB/df1)/(SSW/df2) with
+    ///   SSB = Q − const and SSW = SST − SSB moves by (df2/df1)·SST/SSW² per unit of Q, plus
+    ///   a few roundings of F itself.
+    /// - Welch's F: its group variances can cancel without bound, so it keeps the relative
+    ///   [`TIE_TOLERANCE`] (10^-9 of max(1, F)).
+    /// - The median spread: k terms m_g·|median_g − M|/n whose medians can only be values at
+    ///   pool positions a group median can reach, so the bound follows the largest of those
+    ///   (not an outlier at either end).
+    fn tie_tolerance(&self) -> f64 {
+        let eps = f64::EPSILON;
+        let k = self.sizes.len();
+        let n = self.pool.len();
+        let obs = self.observed;
+        match self.statistic {
+            KStatistic::F => {
+                let sst = self.total_sq - self.total * self.total / n as f64;
+                let (df1, df2) = ((k - 1) as f64, (n - k) as f64);
+                let ssw = sst / (1.0 + obs * df1 / df2);
+                let e_q = (3 * n + k + 4) as f64 * eps * self.total_sq;
+                2.0 * ((df2 / df1) * e_q * sst / (ssw * ssw) + 4.0 * eps * obs.abs())
+            }
+            KStatistic::WelchF => TIE_TOLERANCE * 1.0f64.max(obs.abs()),
+            KStatistic::MedianSpread => {
+                let lo = self.sizes.iter().map(|m| (m - 1) / 2).min().unwrap_or(0);
+                let hi = self
+                    .sizes
+                    .iter()
+                    .map(|m| n - m + m / 2)
+                    .max()
+                    .unwrap_or(0)
+                    .min(n - 1);
+                let m = self.pooled_median;
+                let scale = self.pool[lo..=hi]
+                    .iter()
+                    .fold(m.abs(), |acc, v| acc.max(v.abs()).max((v - m).abs()));
+                2.0 * (k + 6) as f64 * eps * scale
+            }
+        }
     }
 
     pub fn scratch(&self) -> Scratch {

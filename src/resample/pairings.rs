@@ -69,6 +69,21 @@ impl Kernel {
     }
 }
 
+/// How far two computations of the same S (summed afresh, or kept by Heap's O(1) updates and
+/// re-summed every 4096 of them) can lie apart by rounding alone, in the statistic's units.
+/// Σ|a_i b_π(i)| ≤ sqrt(Σa² Σb²) for every π (Cauchy–Schwarz), and so is each update
+/// |(a_i − a_j)(b_j − b_i)| ≤ 2·sqrt(Σa² Σb²); a fresh sum errs by at most (n + 2)·ε and
+/// 4096 updates by 4096·4·ε of that bound (Higham, "Accuracy and Stability of Numerical
+/// Algorithms", 2nd ed., ch. 3-4, ε for the unit roundoff to spare); twice that, as both the
+/// observed S and a relabelled one err. It follows the data's scale: 10^-9 of the statistic
+/// merged distinct pairings when one value was huge.
+pub fn tie_tolerance(k: &Kernel) -> f64 {
+    let saa: f64 = k.a.iter().map(|v| v * v).sum();
+    let sbb: f64 = k.b.iter().map(|v| v * v).sum();
+    let bound = (saa * sbb).sqrt() * k.scale.abs();
+    2.0 * (4.0 * 4096.0 + k.a.len() as f64 + 2.0) * f64::EPSILON * bound
+}
+
 pub fn heap_enumerate(
     k: &Kernel,
     obs: f64,

@@ -7,6 +7,7 @@ mod kinds;
 
 use serde::{Deserialize, Serialize};
 
+use crate::base::format as fmt;
 use crate::base::*;
 use crate::classical;
 use crate::designs::{Caution, Design, DesignKey, MAX_BOOTSTRAP};
@@ -430,6 +431,57 @@ fn check(req: &EstimateRequest, notes: &mut Vec<Note>) -> Result<u64, Error> {
     Ok(b)
 }
 
+/// Refuses a bootstrap whose draws (values × resamples, × the inner resamples of a nested
+/// studentized interval) are above [`MAX_WORK`](crate::designs::MAX_WORK), before any work.
+fn check_work(prepared: &Prepared, req: &EstimateRequest, total: u64) -> Result<(), Error> {
+    let n = match prepared {
+        Prepared::One { x, .. } => x.len(),
+        Prepared::Two { a, b, .. } => a.len() + b.len(),
+        Prepared::Pairs { x, y, .. } => x.len() + y.len(),
+    };
+    let nested = req.methods.contains(&IntervalMethod::Studentized)
+        && se_formula(
+            req.estimate,
+            matches!(prepared, Prepared::Two { paired: true, .. }),
+        )
+        .is_none();
+    let inner = if nested {
+        boot::NESTED as f64 + 1.0
+    } else {
+        1.0
+    };
+    let work = n as f64 * total as f64 * inner;
+    let limit = crate::designs::MAX_WORK;
+    if work <= limit {
+        return Ok(());
+    }
+    Err(Error::new(
+        ErrorKind::Limit,
+        format!(
+            "This estimate would draw about {} values ({} values × {} resamples{}), more than \
+             the {} one run may draw (it would take hours). Lower the resamples to about {}{}.",
+            fmt::sig(work),
+            fmt::count(n as u64),
+            fmt::count(total),
+            if nested {
+                format!(
+                    " × {} inner resamples for the studentized interval",
+                    boot::NESTED + 1
+                )
+            } else {
+                String::new()
+            },
+            fmt::sig(limit),
+            fmt::count((limit / (n as f64 * inner)).floor() as u64),
+            if nested {
+                ", or choose another interval than the studentized one"
+            } else {
+                ""
+            }
+        ),
+    ))
+}
+
 /// Runs an estimate request.
 pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport, Error> {
     let mut notes = Vec::new();
@@ -437,6 +489,7 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
     let t = table::parse(&req.data, req.header)?;
     notes.extend(t.notes());
     let prepared = prepare(req, &t, &mut notes)?;
+    check_work(&prepared, req, total)?;
     let q = req.q.unwrap_or(0.5);
     let e = req.estimate;
     let f = estimator(e, q);

@@ -149,6 +149,7 @@ fn check(req: &PlanRequest) -> Result<(Sim, ModelSummary, f64, f64), Error> {
         alternative: req.alternative,
         alpha: req.alpha,
         relabellings: req.relabellings,
+        spent: Default::default(),
     };
     if req.design == PlanDesign::KGroups {
         if req.means.len() < 3 || req.means.iter().any(|m| !m.is_finite()) {
@@ -260,6 +261,29 @@ fn check(req: &PlanRequest) -> Result<(Sim, ModelSummary, f64, f64), Error> {
             )
         }
     };
+    // One size's studies at the largest size the search may try must fit the work limit on
+    // their own (the search as a whole is held to it as it goes: Sim::power).
+    for (n, what) in [(req.max_n, "the largest sample size to try")]
+        .into_iter()
+        .chain(req.mde_n.map(|n| (n, "the size for the detectable effect")))
+    {
+        let cost = sim.study_cost(n) * req.studies as f64;
+        if cost > super::MAX_WORK {
+            return Err(Error::new(
+                ErrorKind::Limit,
+                format!(
+                    "Simulating {} studies at {what} ({}) would draw about {} values, more \
+                     than the {} one run may draw (it would take hours). Lower the simulated \
+                     studies, the relabellings per study ({}) or {what}.",
+                    fmt::count(req.studies),
+                    fmt::count(n),
+                    fmt::sig(cost),
+                    fmt::sig(super::MAX_WORK),
+                    fmt::count(req.relabellings),
+                ),
+            ));
+        }
+    }
     Ok((sim, model, spread, centre))
 }
 
@@ -449,6 +473,36 @@ pub fn power_at(req: &PlanRequest, n: u64, progress: ProgressFn) -> Result<Power
 mod tests {
     use super::*;
     use crate::input::table::HeaderChoice;
+
+    /// Bounded work: one size that would draw more than the limit is refused before any
+    /// study runs, and the search as a whole stops at the limit instead of running on.
+    #[test]
+    fn plans_are_held_to_the_work_limit() {
+        let mut r = PlanRequest::new(PlanDesign::TwoGroups, PlanModel::Normal { sd: 1.0 }, 0.1, 5);
+        r.max_n = 1_000_000;
+        r.studies = 100_000;
+        r.relabellings = 9_999;
+        let e = run(&r, &mut |_| panic!("no study may run")).unwrap_err();
+        assert_eq!(e.kind, ErrorKind::Limit);
+        assert!(e.message.contains("1,000,000"), "{}", e.message);
+        assert!(
+            e.message.contains("Lower the simulated studies"),
+            "{}",
+            e.message
+        );
+
+        let r = PlanRequest::new(PlanDesign::TwoGroups, PlanModel::Normal { sd: 1.0 }, 1.0, 5);
+        let (sim, ..) = check(&r).unwrap();
+        // 20 values × 200 draws each × 1,000 studies = 4·10^6 draws for n = 10.
+        assert_eq!(sim.study_cost(10) * r.studies as f64, 4e6);
+        sim.spent.set(super::super::MAX_WORK - 1e6);
+        let stage = Stage::Simulation { n: 10, sizes: 1 };
+        let e = sim
+            .power(10, 1.0, r.studies, None, 1, &mut |_| true, stage)
+            .unwrap_err();
+        assert_eq!(e.kind, ErrorKind::Limit);
+        assert!(e.message.contains("next size (10)"), "{}", e.message);
+    }
 
     #[test]
     fn no_effect_gives_the_significance_level_and_runs_repeat() {

@@ -2,6 +2,7 @@
 //! analysis runs, and the share of rejections.
 
 use super::types::*;
+use crate::base::format as fmt;
 use crate::base::*;
 use crate::classical::tables;
 use crate::num::binomial::clopper_pearson;
@@ -27,6 +28,9 @@ pub(super) struct Sim {
     pub(super) alternative: Alternative,
     pub(super) alpha: f64,
     pub(super) relabellings: u64,
+    /// Values drawn so far by this plan's simulated studies, held to
+    /// [`MAX_WORK`](crate::designs::MAX_WORK) before each size starts.
+    pub(super) spent: std::cell::Cell<f64>,
 }
 
 /// A standard normal draw by inversion (pure-Rust quantile, so the same on every machine).
@@ -37,6 +41,20 @@ pub(super) fn gauss(s: &mut Stream) -> f64 {
 }
 
 impl Sim {
+    /// Values one simulated study of `n` per group draws: its data, and each relabelling
+    /// draws one per value (the yes/no exact test computes from the two counts).
+    pub(super) fn study_cost(&self, n: u64) -> f64 {
+        let values = match self.design {
+            PlanDesign::TwoGroups | PlanDesign::YesNo => 2 * n,
+            PlanDesign::Paired => n,
+            PlanDesign::KGroups => self.means.len() as u64 * n,
+        } as f64;
+        match self.design {
+            PlanDesign::YesNo => values,
+            _ => values * (self.relabellings + 1) as f64,
+        }
+    }
+
     /// One value of a group whose shift (or ratio) is `shift`.
     pub(super) fn value(&self, s: &mut Stream, shift: f64) -> f64 {
         match &self.pilot {
@@ -128,6 +146,24 @@ impl Sim {
         stage: Stage,
     ) -> Result<PowerPoint, Error> {
         const BATCH: u64 = 100;
+        let cost = self.study_cost(n);
+        let limit = crate::designs::MAX_WORK;
+        if self.spent.get() + cost * studies as f64 > limit {
+            return Err(Error::new(
+                ErrorKind::Limit,
+                format!(
+                    "This plan has drawn about {} values in its simulated studies, and the \
+                     next size ({}) would take it past the {} one run may draw (it would take \
+                     hours). Lower the simulated studies ({}), the relabellings per study ({}) \
+                     or the largest sample size to try.",
+                    fmt::sig(self.spent.get()),
+                    fmt::count(n),
+                    fmt::sig(limit),
+                    fmt::count(studies),
+                    fmt::count(self.relabellings),
+                ),
+            ));
+        }
         let streams = rng::Streams::new(seed, rng::Purpose::Bootstrap, 0);
         let mut hits = 0u64;
         let mut done = 0u64;
@@ -160,6 +196,7 @@ impl Sim {
                 }
             }
         }
+        self.spent.set(self.spent.get() + cost * done as f64);
         let power = hits as f64 / done as f64;
         let (low, high) = clopper_pearson(hits, done, 0.95);
         Ok(PowerPoint {
