@@ -31,6 +31,11 @@ pub fn bootstrap(s: &str) -> Result<u64, String> {
     whole(s, 200, MAX_BOOTSTRAP)
 }
 
+/// Threads: 1 to 64.
+pub fn threads(s: &str) -> Result<usize, String> {
+    whole(s, 1, crate::resample::parallel::MAX_THREADS as u64).map(|v| v as usize)
+}
+
 /// The exact-enumeration limit: 0 to 10^7.
 pub fn exact_limit(s: &str) -> Result<u64, String> {
     whole(s, 0, MAX_EXACT_LIMIT)
@@ -213,6 +218,10 @@ pub struct Outputs {
     /// Also write a self-contained HTML report to this file.
     #[arg(long, value_name = "FILE")]
     pub html: Option<String>,
+    /// Threads to compute on (default: one per core, at most 64). The numbers are the same
+    /// for any count.
+    #[arg(long, value_name = "N", value_parser = threads)]
+    pub threads: Option<usize>,
 }
 
 /// The settings of a permutation test with a bootstrap interval.

@@ -177,14 +177,17 @@ fn today() -> String {
 /// Runs a job and prints its findings as asked.
 fn run_job(job: &Job, o: &Outputs, out: &mut dyn std::io::Write) -> Result<(), Error> {
     let date = today();
+    crate::resample::parallel::set_threads(o.threads.unwrap_or(0));
+    let threads = crate::resample::parallel::threads();
     progress::catch_interrupt();
     let mut meter = progress::Meter::new();
     let report = job.run(&mut |p| meter.update(p));
     meter.finish();
     let report = report?;
-    let doc = render::document(&report, &date);
+    let mut doc = render::document(&report, &date);
+    render::add_threads(&mut doc, threads);
     let text = if o.json {
-        wire::report_json(&report) + "\n"
+        wire::report_json_on(&report, Some(threads)) + "\n"
     } else if o.markdown {
         doc.markdown()
     } else {

@@ -179,7 +179,7 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
     .run(
         progress,
         &mut |cb| heap_enumerate(&kernel, observed, tol, cb),
-        &mut |s, len| random_block(&kernel, observed, tol, s, len),
+        &|s, len| random_block(&kernel, observed, tol, s, len),
     )?;
     let mut test = TestOutcome::new(
         &counts,

@@ -264,7 +264,7 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
     .run(
         progress,
         &mut |cb| setup.enumerate(rng::BLOCK, cb),
-        &mut |s, len| setup.random_block(s, len),
+        &|s, len| setup.random_block(s, len),
     )?;
     let test = TestOutcome::new(
         &counts,

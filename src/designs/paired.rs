@@ -386,7 +386,7 @@ pub(crate) fn sign_flip(
     .run(
         progress,
         &mut |cb| setup.enumerate(rng::BLOCK, cb),
-        &mut |s, len| setup.random_block(s, len),
+        &|s, len| setup.random_block(s, len),
     )?;
     let observed = setup.observed;
     let mut test = TestOutcome::new(

@@ -471,7 +471,7 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Er
     .run(
         progress,
         &mut |cb| setup.enumerate(rng::BLOCK, cb),
-        &mut |s, len| setup.random_block(s, len),
+        &|s, len| setup.random_block(s, len),
     )?;
     let test = TestOutcome::new(
         &counts,

@@ -23,6 +23,16 @@ use crate::designs::TestOutcome;
 use crate::wire::Report;
 use doc::{full, row};
 
+/// Adds to the methods paragraph how many threads (the command) or workers (the page) the run
+/// used, and that the numbers do not depend on it.
+pub fn add_threads(doc: &mut Doc, threads: usize) {
+    doc.methods.push_str(&format!(
+        " It ran on {} thread{}; the numbers are the same for any number.",
+        threads,
+        if threads == 1 { "" } else { "s" }
+    ));
+}
+
 /// The report as a document, dated `date` (YYYY-MM-DD) in its methods paragraph.
 pub fn document(report: &Report, date: &str) -> Doc {
     match report {

@@ -6,6 +6,7 @@ use crate::base::{Error, Progress, ProgressFn, Stage};
 use crate::base::{Interval, IntervalMethod, Note, Side};
 use crate::num::normal;
 use crate::num::stats;
+use crate::resample::parallel;
 use crate::resample::rng::{self, Stream};
 
 /// A statistic of one or two samples. For one sample the second slice is empty; for pairs
@@ -13,10 +14,10 @@ use crate::resample::rng::{self, Stream};
 pub type TwoSampleFn = fn(&mut [f64], &mut [f64]) -> f64;
 
 /// The same as a reference to a closure (for statistics with a parameter, like a quantile).
-pub type StatFn<'a> = &'a dyn Fn(&mut [f64], &mut [f64]) -> f64;
+pub type StatFn<'a> = &'a (dyn Fn(&mut [f64], &mut [f64]) -> f64 + Sync);
 
 /// An owned statistic closure.
-pub type BoxedStat = Box<dyn Fn(&mut [f64], &mut [f64]) -> f64>;
+pub type BoxedStat = Box<dyn Fn(&mut [f64], &mut [f64]) -> f64 + Sync>;
 
 /// How resamples are drawn.
 #[derive(Clone, Copy, Debug)]
@@ -504,23 +505,29 @@ pub fn resample(
         .map(|_| Vec::with_capacity(total as usize))
         .collect();
     let mut tvals: Vec<Vec<f64>> = stats_.iter().map(|_| Vec::new()).collect();
-    let streams = rng::Streams::new(seed, rng::Purpose::Bootstrap, 0);
     let mut done = 0;
-    for (blk, stream) in (0..rng::block_count(total)).zip(streams) {
-        let out = block(design, stats_, stream, rng::block_len(total, blk));
+    let work = |b: u64| {
+        block(
+            design,
+            stats_,
+            Stream::new(seed, rng::Purpose::Bootstrap, b),
+            rng::block_len(total, b),
+        )
+    };
+    let finished = parallel::in_order(rng::block_count(total), &work, &mut |b, out| {
         for (k, (v, t)) in out.values.into_iter().zip(out.t).enumerate() {
             values[k].extend(v);
             tvals[k].extend(t);
         }
-        done += rng::block_len(total, blk);
-        let p = Progress {
+        done += rng::block_len(total, b);
+        progress(&Progress {
             stage: Stage::Bootstrap,
             done,
             total,
-        };
-        if !progress(&p) {
-            return Err(Error::cancelled());
-        }
+        })
+    });
+    if !finished {
+        return Err(Error::cancelled());
     }
     Ok((values, tvals))
 }

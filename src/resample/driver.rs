@@ -2,35 +2,71 @@
 //! few enough, otherwise random ones in blocks of the seed's streams.
 
 use crate::base::{Error, Progress, ProgressFn, Stage};
+use crate::resample::parallel;
 use crate::resample::rng::{self, Stream};
 use crate::resample::tally::Counts;
 
 /// The most resampled statistics a report carries.
 pub const MAX_KEPT: usize = 1_000_000;
 
+/// A kernel's random block: the counts and statistics of `len` relabellings drawn from one
+/// stream. Shared by the threads, so it only reads the kernel's prepared data.
+pub type RandomBlock<'a> = &'a (dyn Fn(Stream, u64) -> (Counts, Vec<f64>) + Sync);
+
 /// Runs `total` random relabellings in blocks of [`rng::BLOCK`], block b drawing from the
-/// stream (seed, permutation, b); merges the blocks in order, reporting progress after each.
+/// stream (seed, permutation, b), on the run's threads ([`parallel::in_order`]); merges the
+/// blocks in order, reporting progress after each.
 pub fn random_null(
     seed: u64,
     total: u64,
     stage: Stage,
     progress: ProgressFn,
-    block: &mut dyn FnMut(Stream, u64) -> (Counts, Vec<f64>),
+    block: RandomBlock,
+) -> Result<(Counts, Vec<f64>), Error> {
+    random_range(
+        seed,
+        total,
+        0..rng::block_count(total),
+        stage,
+        progress,
+        block,
+    )
+}
+
+/// [`random_null`] over the blocks `blocks` only: any partition of the blocks into ranges,
+/// merged in order, gives the same counts and statistics as the whole.
+pub fn random_range(
+    seed: u64,
+    total: u64,
+    blocks: std::ops::Range<u64>,
+    stage: Stage,
+    progress: ProgressFn,
+    block: RandomBlock,
 ) -> Result<(Counts, Vec<f64>), Error> {
     let mut counts = Counts::default();
-    let mut values = Vec::with_capacity(total.min(MAX_KEPT as u64) as usize);
-    let streams = rng::Streams::new(seed, rng::Purpose::Permutation, 0);
-    for (b, stream) in (0..rng::block_count(total)).zip(streams) {
-        let (c, v) = block(stream, rng::block_len(total, b));
+    let len = (blocks.end - blocks.start)
+        .saturating_mul(rng::BLOCK)
+        .min(total);
+    let mut values = Vec::with_capacity(len.min(MAX_KEPT as u64) as usize);
+    let first = blocks.start;
+    let work = |i: u64| {
+        let b = first + i;
+        block(
+            Stream::new(seed, rng::Purpose::Permutation, b),
+            rng::block_len(total, b),
+        )
+    };
+    let finished = parallel::in_order(blocks.end - first, &work, &mut |_, (c, v)| {
         counts.add(&c);
         values.extend(v);
-        if !progress(&Progress {
+        progress(&Progress {
             stage: stage.clone(),
             done: counts.total,
             total,
-        }) {
-            return Err(Error::cancelled());
-        }
+        })
+    });
+    if !finished {
+        return Err(Error::cancelled());
     }
     Ok((counts, values))
 }
@@ -57,7 +93,7 @@ impl Relabelling {
         &self,
         progress: ProgressFn,
         enumerate: Enumerate,
-        random: &mut dyn FnMut(Stream, u64) -> (Counts, Vec<f64>),
+        random: RandomBlock,
     ) -> Result<(Counts, Vec<f64>, bool), Error> {
         if self.count <= self.exact_limit {
             let mut cb = |done: u64| {

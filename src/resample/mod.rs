@@ -7,6 +7,7 @@ pub mod combin;
 pub mod driver;
 pub mod k_groups;
 pub mod pairings;
+pub mod parallel;
 pub mod rng;
 pub mod signs;
 pub mod strata;

@@ -13,6 +13,7 @@ use serde::{Deserialize, Serialize};
 use crate::base::{Error, Progress, ProgressFn, Stage};
 use crate::num::stats;
 use crate::resample::combin::{choose, RevolvingDoor};
+use crate::resample::driver;
 #[cfg(test)]
 use crate::resample::rng::Purpose;
 use crate::resample::rng::{self, Stream};
@@ -357,23 +358,14 @@ pub fn random_blocks(
     blocks: std::ops::Range<u64>,
     progress: ProgressFn,
 ) -> Result<(Counts, Vec<f64>), Error> {
-    let mut counts = Counts::default();
-    let mut values = Vec::new();
-    let streams = rng::Streams::new(seed, rng::Purpose::Permutation, blocks.start);
-    for (b, stream) in blocks.zip(streams) {
-        let (c, v) = setup.random_block(stream, rng::block_len(total, b));
-        counts.add(&c);
-        values.extend_from_slice(&v);
-        let p = Progress {
-            stage: Stage::Relabelling,
-            done: counts.total,
-            total,
-        };
-        if !progress(&p) {
-            return Err(Error::cancelled());
-        }
-    }
-    Ok((counts, values))
+    driver::random_range(
+        seed,
+        total,
+        blocks,
+        Stage::Relabelling,
+        progress,
+        &|s, len| setup.random_block(s, len),
+    )
 }
 
 /// Every split when there are at most `exact_limit`, otherwise `resamples` random ones drawn

@@ -207,16 +207,25 @@ pub fn read_value(value: Value) -> Result<Read, Error> {
 
 /// A report as the command prints it: format and engine version, design, report.
 pub fn report_json(report: &Report) -> String {
+    report_json_on(report, None)
+}
+
+/// [`report_json`] with the number of threads (or workers) the run used, when known: it
+/// never changes a number, so it sits in the envelope, not in the report.
+pub fn report_json_on(report: &Report, threads: Option<usize>) -> String {
     #[derive(Serialize)]
     struct Out<'a> {
         format_version: u32,
         engine_version: &'a str,
+        #[serde(skip_serializing_if = "Option::is_none")]
+        threads: Option<usize>,
         #[serde(flatten)]
         report: &'a Report,
     }
     serde_json::to_string_pretty(&Out {
         format_version: FORMAT_VERSION,
         engine_version: ENGINE_VERSION,
+        threads,
         report,
     })
     .unwrap_or_default()

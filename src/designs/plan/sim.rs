@@ -9,6 +9,7 @@ use crate::num::binomial::clopper_pearson;
 use crate::num::normal;
 use crate::resample::binomial::Binomial;
 use crate::resample::k_groups::KSetup;
+use crate::resample::parallel;
 use crate::resample::rng;
 use crate::resample::rng::Stream;
 use crate::resample::signs::FlipSetup;
@@ -30,7 +31,21 @@ pub(super) struct Sim {
     pub(super) relabellings: u64,
     /// Values drawn so far by this plan's simulated studies, held to
     /// [`MAX_WORK`](crate::designs::MAX_WORK) before each size starts.
-    pub(super) spent: std::cell::Cell<f64>,
+    pub(super) spent: Spent,
+}
+
+/// Values drawn so far (an f64 kept as its bits, so that the threads may share the Sim).
+#[derive(Default)]
+pub(super) struct Spent(std::sync::atomic::AtomicU64);
+
+impl Spent {
+    pub(super) fn get(&self) -> f64 {
+        f64::from_bits(self.0.load(std::sync::atomic::Ordering::Relaxed))
+    }
+    pub(super) fn set(&self, v: f64) {
+        self.0
+            .store(v.to_bits(), std::sync::atomic::Ordering::Relaxed)
+    }
 }
 
 /// A standard normal draw by inversion (pure-Rust quantile, so the same on every machine).
@@ -164,37 +179,54 @@ impl Sim {
                 ),
             ));
         }
-        let streams = rng::Streams::new(seed, rng::Purpose::Bootstrap, 0);
         let mut hits = 0u64;
         let mut done = 0u64;
         let mut stopped_early = false;
+        let mut cancelled = false;
         let rates = (self.design == PlanDesign::YesNo).then(|| {
             (
                 Binomial::with_rate(n, (self.baseline + effect).clamp(0.0, 1.0)),
                 Binomial::with_rate(n, self.baseline),
             )
         });
-        for stream in streams.take(studies as usize) {
-            hits += u64::from(self.study(stream, n, effect, rates.as_ref()));
-            done += 1;
-            if done % BATCH == 0 {
-                if !progress(&Progress {
-                    stage: stage.clone(),
-                    done,
-                    total: studies,
-                }) {
-                    return Err(Error::cancelled());
-                }
-                if let Some(target) = early {
-                    if done >= 2 * BATCH && done < studies {
-                        let (lo, hi) = clopper_pearson(hits, done, 0.999);
-                        if hi < target || lo > target {
-                            stopped_early = true;
-                            break;
-                        }
+        // Batches of studies on the run's threads, taken in order: study i draws from
+        // stream i whichever thread runs it, and the early stop looks only at whole batches
+        // in order, so the numbers do not depend on the thread count.
+        let batches = studies.div_ceil(BATCH);
+        let work = |b: u64| {
+            let first = b * BATCH;
+            let last = (first + BATCH).min(studies);
+            let streams = rng::Streams::new(seed, rng::Purpose::Bootstrap, first);
+            let hits: u64 = streams
+                .take((last - first) as usize)
+                .map(|st| u64::from(self.study(st, n, effect, rates.as_ref())))
+                .sum();
+            (hits, last - first)
+        };
+        parallel::in_order(batches, &work, &mut |_, (h, m)| {
+            hits += h;
+            done += m;
+            if !progress(&Progress {
+                stage: stage.clone(),
+                done,
+                total: studies,
+            }) {
+                cancelled = true;
+                return false;
+            }
+            if let Some(target) = early {
+                if done >= 2 * BATCH && done < studies {
+                    let (lo, hi) = clopper_pearson(hits, done, 0.999);
+                    if hi < target || lo > target {
+                        stopped_early = true;
+                        return false;
                     }
                 }
             }
+            true
+        });
+        if cancelled {
+            return Err(Error::cancelled());
         }
         self.spent.set(self.spent.get() + cost * done as f64);
         let power = hits as f64 / done as f64;
