@@ -1,90 +1,173 @@
-//! `reshuffle bench`: the speed of the relabelling kernels, as ratios measured in one run.
+//! `reshuffle bench`: speed as ratios measured side by side in one run (kernel against a
+//! bare loop of the same draws, all threads against one), never as absolute targets. The
+//! script `tests/bench/against_scipy.py` adds Reshuffle against scipy.stats on the same work.
+
+use std::hint::black_box;
+use std::time::Instant;
 
 use crate::base::format as fmt;
 use crate::base::Error;
-use crate::resample::rng;
+use crate::designs::estimate::{self, Estimate, EstimateLayout, EstimateRequest};
+use crate::designs::two_groups::{self, TwoGroupsRequest};
+use crate::resample::parallel;
+use crate::resample::rng::{self, Stream};
 use crate::resample::two_groups::{self as perm, Statistic};
 
-/// Speed of the relabelling kernels, side by side in one run (ratios, not absolute targets).
+/// Values drawn from a fixed stream, so that every run benchmarks the same numbers.
+fn values(n: usize, centre: f64, stream: &mut Stream) -> Vec<f64> {
+    (0..n).map(|_| centre + stream.unit() * 3.0).collect()
+}
+
+fn csv_two(a: &[f64], b: &[f64]) -> String {
+    let mut t = String::from("y,g\n");
+    for v in a {
+        t.push_str(&format!("{v},a\n"));
+    }
+    for v in b {
+        t.push_str(&format!("{v},b\n"));
+    }
+    t
+}
+
+/// The best of `reps` timings of `f`, in seconds (the least disturbed by other work).
+fn best(reps: usize, f: &mut dyn FnMut()) -> f64 {
+    (0..reps)
+        .map(|_| {
+            let t0 = Instant::now();
+            f();
+            t0.elapsed().as_secs_f64()
+        })
+        .fold(f64::INFINITY, f64::min)
+}
+
+/// The bare loop the mean-difference kernel is held against: per relabelling the same k
+/// bounded draws, swaps and adds of a partial Fisher–Yates shuffle, and nothing else (no
+/// statistic, no counting, no keeping).
+fn bare_loop(pool: &[f64], k: usize, total: u64) -> f64 {
+    let mut vals = pool.to_vec();
+    let n = vals.len();
+    let mut checksum = 0.0;
+    let mut s = Stream::new(7, rng::Purpose::Permutation, 0);
+    for _ in 0..total {
+        let mut sum = 0.0;
+        for i in 0..k {
+            let j = i + s.below((n - i) as u64) as usize;
+            vals.swap(i, j);
+            sum += vals[i];
+        }
+        checksum += black_box(sum);
+    }
+    checksum
+}
+
+/// Speed, side by side in one run.
 pub fn run(out: &mut dyn std::io::Write) -> Result<(), Error> {
-    use std::time::Instant;
-    let mut s = rng::Stream::new(1, rng::Purpose::Permutation, 0);
-    let a: Vec<f64> = (0..24).map(|_| 10.0 + s.unit() * 3.0).collect();
-    let b: Vec<f64> = (0..20).map(|_| 9.5 + s.unit() * 3.0).collect();
+    let mut lines: Vec<String> = Vec::new();
+    let mut s = Stream::new(1, rng::Purpose::Permutation, 0);
+    let a = values(24, 10.0, &mut s);
+    let b = values(20, 9.5, &mut s);
     let total: u64 = 1_000_000;
-    let mut lines = Vec::new();
-    let mut rates = Vec::new();
+    let cores = parallel::threads();
+
+    // 1. Kernels against the bare loop, on one thread.
+    parallel::set_threads(1);
+    let pool: Vec<f64> = a.iter().chain(&b).copied().collect();
+    let bare = best(3, &mut || {
+        black_box(bare_loop(&pool, 20, total));
+    });
+    lines.push(format!(
+        "Kernels on one thread, 24 + 20 values, {} random relabellings",
+        fmt::count(total)
+    ));
+    lines.push(format!(
+        "  {:<44} {:>8.1} M/s",
+        "bare loop (the same draws and adds only)",
+        total as f64 / bare / 1e6
+    ));
     for st in [
         Statistic::MeanDifference,
         Statistic::WelchT,
         Statistic::MedianDifference,
+        Statistic::TrimmedMeanDifference,
     ] {
         let setup = perm::Setup::new(st, &a, &b);
-        let t0 = Instant::now();
-        let (c, _) =
-            perm::random_blocks(&setup, 7, total, 0..rng::block_count(total), &mut |_| true)?;
-        let secs = t0.elapsed().as_secs_f64();
-        rates.push(c.total as f64 / secs);
+        let secs = best(3, &mut || {
+            let r =
+                perm::random_blocks(&setup, 7, total, 0..rng::block_count(total), &mut |_| true);
+            black_box(r.ok());
+        });
         lines.push(format!(
-            "{:<28} {:>14.0} relabellings/s",
-            format!("kernel, {}", st.key()),
-            c.total as f64 / secs
+            "  {:<44} {:>8.1} M/s   {:.2}× the bare loop",
+            format!("{} kernel", st.key()),
+            total as f64 / secs / 1e6,
+            bare / secs
         ));
     }
-    // Baseline: shuffle all 44 values and recompute both means, per relabelling.
-    let pooled: Vec<f64> = a.iter().chain(&b).copied().collect();
-    let t0 = Instant::now();
-    let mut x = pooled.clone();
-    let mut acc = 0.0;
-    let mut st = rng::Stream::new(7, rng::Purpose::Permutation, 0);
-    // Like the kernel, it keeps every statistic and counts the extreme ones.
-    let mut kept = Vec::with_capacity(total as usize);
-    let mut extreme = 0u64;
-    for _ in 0..total {
-        for i in (1..x.len()).rev() {
-            let j = st.below(i as u64 + 1) as usize;
-            x.swap(i, j);
+    // 2. Exact enumeration: C(24, 12) = 2,704,156 splits.
+    let setup = perm::Setup::new(Statistic::MeanDifference, &a[..12], &b[..12]);
+    let mut splits = 0;
+    let secs = best(3, &mut || {
+        if let Some((c, v)) = setup.enumerate(u64::MAX, &mut |_| true) {
+            splits = c.total;
+            black_box(v);
         }
-        let m1 = x[..24].iter().sum::<f64>() / 24.0;
-        let m2 = x[24..].iter().sum::<f64>() / 20.0;
-        let t = m1 - m2;
-        extreme += u64::from(t.abs() >= 0.25);
-        kept.push(t);
-        acc += t;
+    });
+    lines.push(format!(
+        "  {:<44} {:>8.1} M/s",
+        format!("exact enumeration, {} splits", fmt::count(splits)),
+        splits as f64 / secs / 1e6
+    ));
+
+    // 3. All threads against one, end to end (the request as the command runs it).
+    let test_job = {
+        let mut r = TwoGroupsRequest::new(csv_two(&a, &b), 7);
+        r.settings.exact_limit = 0;
+        r.settings.resamples = total;
+        r.settings.bootstrap_resamples = 1000;
+        r
+    };
+    let mut big = Stream::new(2, rng::Purpose::Permutation, 0);
+    let one_col: String = std::iter::once("y\n".to_string())
+        .chain(values(1000, 5.0, &mut big).iter().map(|v| format!("{v}\n")))
+        .collect();
+    let mut bca_job = EstimateRequest::new(
+        one_col,
+        EstimateLayout::One {
+            value: "y".into(),
+            strata: None,
+        },
+        Estimate::Mean,
+        7,
+    );
+    bca_job.resamples = 100_000;
+    lines.push(String::new());
+    lines.push(format!(
+        "End to end, all {cores} threads against one (the numbers are identical)"
+    ));
+    let jobs: [(&str, &mut dyn FnMut()); 2] = [
+        ("10^6 relabellings, 24 + 20 values", &mut || {
+            black_box(two_groups::run(&test_job, &mut |_| true).ok());
+        }),
+        (
+            "BCa interval of a mean, n = 1000, 10^5 resamples",
+            &mut || {
+                black_box(estimate::run(&bca_job, &mut |_| true).ok());
+            },
+        ),
+    ];
+    for (name, f) in jobs {
+        parallel::set_threads(1);
+        let one = best(3, f);
+        parallel::set_threads(cores);
+        let all = best(3, f);
+        lines.push(format!(
+            "  {name:<50} 1 thread {one:>7.3} s, {cores} threads {all:>7.3} s: {:.2}×",
+            one / all
+        ));
     }
-    acc += extreme as f64 * 0.0 + kept.len() as f64 * 0.0;
-    let base = total as f64 / t0.elapsed().as_secs_f64();
-    lines.push(format!(
-        "{:<28} {:>14.0} relabellings/s   (checksum {:.3})",
-        "full shuffle, mean (baseline)",
-        base,
-        acc / total as f64
-    ));
-    // Exact enumeration rate: C(20, 10) = 184,756 splits.
-    let setup = perm::Setup::new(Statistic::MeanDifference, &a[..10], &b[..10]);
-    let t0 = Instant::now();
-    let (c, _) = setup
-        .enumerate(u64::MAX, &mut |_| true)
-        .ok_or_else(Error::cancelled)?;
-    let exact = c.total as f64 / t0.elapsed().as_secs_f64();
-    lines.push(format!(
-        "{:<28} {:>14.0} splits/s",
-        "enumeration, mean-difference", exact
-    ));
-    writeln!(
-        out,
-        "n = 24 + 20, {} relabellings per kernel\n",
-        fmt::count(total)
-    )
-    .map_err(super::io)?;
+    parallel::set_threads(0);
     for l in lines {
         writeln!(out, "{l}").map_err(super::io)?;
     }
-    writeln!(
-        out,
-        "\nratio, partial-shuffle mean kernel / full-shuffle baseline: {:.2}",
-        rates[0] / base
-    )
-    .map_err(super::io)?;
     Ok(())
 }

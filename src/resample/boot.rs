@@ -506,11 +506,12 @@ pub fn resample(
         .collect();
     let mut tvals: Vec<Vec<f64>> = stats_.iter().map(|_| Vec::new()).collect();
     let mut done = 0;
+    let streams = rng::streams_for(seed, rng::Purpose::Bootstrap, 0, rng::block_count(total));
     let work = |b: u64| {
         block(
             design,
             stats_,
-            Stream::new(seed, rng::Purpose::Bootstrap, b),
+            streams[b as usize].clone(),
             rng::block_len(total, b),
         )
     };

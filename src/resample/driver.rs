@@ -49,11 +49,11 @@ pub fn random_range(
         .min(total);
     let mut values = Vec::with_capacity(len.min(MAX_KEPT as u64) as usize);
     let first = blocks.start;
+    let streams = rng::streams_for(seed, rng::Purpose::Permutation, first, blocks.end - first);
     let work = |i: u64| {
-        let b = first + i;
         block(
-            Stream::new(seed, rng::Purpose::Permutation, b),
-            rng::block_len(total, b),
+            streams[i as usize].clone(),
+            rng::block_len(total, first + i),
         )
     };
     let finished = parallel::in_order(blocks.end - first, &work, &mut |_, (c, v)| {

@@ -193,13 +193,13 @@ impl Sim {
         // stream i whichever thread runs it, and the early stop looks only at whole batches
         // in order, so the numbers do not depend on the thread count.
         let batches = studies.div_ceil(BATCH);
+        let streams = rng::streams_for(seed, rng::Purpose::Bootstrap, 0, studies);
         let work = |b: u64| {
             let first = b * BATCH;
             let last = (first + BATCH).min(studies);
-            let streams = rng::Streams::new(seed, rng::Purpose::Bootstrap, first);
-            let hits: u64 = streams
-                .take((last - first) as usize)
-                .map(|st| u64::from(self.study(st, n, effect, rates.as_ref())))
+            let hits: u64 = streams[first as usize..last as usize]
+                .iter()
+                .map(|st| u64::from(self.study(st.clone(), n, effect, rates.as_ref())))
                 .sum();
             (hits, last - first)
         };
