@@ -769,3 +769,49 @@ fn ctrl_c_stops_a_long_run_cleanly() {
     let err = String::from_utf8_lossy(&out.stderr);
     assert!(err.contains("stopped (Ctrl-C)"), "{err}");
 }
+
+/// The sequential stop (Besag and Clifford 1991): the JSON says how the run ended and p is
+/// h/L; a stop with the doubled-tail two-sided rule, or at more extreme relabellings than
+/// are drawn, is refused with what to do.
+#[test]
+fn a_sequential_stop_is_reported_and_checked() {
+    let (code, out, err) = reshuffle(&[
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--seed",
+        "3",
+        "--exact-limit",
+        "0",
+        "--stop-after",
+        "20",
+        "--json",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let r = report(&out);
+    assert_eq!(r["sequential"]["after"], 20, "{r}");
+    assert_eq!(r["sequential"]["early"], true);
+    assert_eq!(r["extreme_count"], 20);
+    let drawn = r["resamples"].as_f64().unwrap();
+    assert!(drawn < 100_000.0);
+    assert_eq!(r["p_value"].as_f64().unwrap(), 20.0 / drawn);
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--stop-after",
+        "20",
+        "--two-sided",
+        "doubled-tail",
+    ]);
+    assert_eq!(code, 2);
+    assert!(err.contains("by absolute value"), "{err}");
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--stop-after",
+        "500",
+        "--resamples",
+        "400",
+    ]);
+    assert_eq!(code, 2);
+    assert!(err.contains("fewer than the 400"), "{err}");
+}

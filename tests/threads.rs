@@ -96,6 +96,22 @@ fn every_design_gives_the_same_numbers_on_any_number_of_threads() {
             "dist",
         ],
     ];
+    // Sequential stops land on the same relabelling whatever the thread count.
+    let mut jobs = jobs;
+    jobs.push(vec![
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--stop-after",
+        "25",
+    ]);
+    jobs.push(vec![
+        "analyze",
+        "demo-data/adhesive-shear-strength.csv",
+        "--design",
+        "k-groups",
+        "--stop-after",
+        "5",
+    ]);
     for job in jobs {
         let mut args = job.clone();
         args.extend_from_slice(&common);

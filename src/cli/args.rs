@@ -31,6 +31,11 @@ pub fn bootstrap(s: &str) -> Result<u64, String> {
     whole(s, 200, MAX_BOOTSTRAP)
 }
 
+/// The sequential stop's count: 1 to 10^4.
+pub fn stop_after(s: &str) -> Result<u64, String> {
+    whole(s, 1, crate::designs::MAX_STOP_AFTER)
+}
+
 /// Threads: 1 to 64.
 pub fn threads(s: &str) -> Result<usize, String> {
     whole(s, 1, crate::resample::parallel::MAX_THREADS as u64).map(|v| v as usize)
@@ -240,6 +245,11 @@ pub struct TestArgs {
     /// sign flips).
     #[arg(long = "exact-limit", value_name = "N", value_parser = exact_limit)]
     pub exact_limit: Option<u64>,
+    /// Sequential Monte Carlo: stop drawing once H random relabellings are at least as
+    /// extreme as the observed one (Besag and Clifford 1991; 10 to 50 is usual), or after
+    /// --resamples of them; p = H / drawn when it stops early.
+    #[arg(long = "stop-after", value_name = "H", value_parser = stop_after)]
+    pub stop_after: Option<u64>,
     /// Bootstrap resamples (default 10000).
     #[arg(long, value_name = "N", value_parser = bootstrap)]
     pub bootstrap: Option<u64>,
@@ -275,6 +285,9 @@ impl TestArgs {
         s.bootstrap_resamples = self.bootstrap.unwrap_or(s.bootstrap_resamples);
         s.exact_limit = self.exact_limit.unwrap_or(s.exact_limit);
         s.confidence = self.confidence.unwrap_or(s.confidence);
+        if self.stop_after.is_some() {
+            s.stop_after = self.stop_after;
+        }
     }
 }
 

@@ -169,29 +169,24 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
         * kernel.scale;
     let tol = crate::resample::pairings::tie_tolerance(&kernel);
     let pairings = factorial(n);
-    let (counts, values, exact) = driver::Relabelling {
+    let null = driver::Relabelling {
         count: pairings,
         exact_limit: set.exact_limit,
         resamples: set.resamples,
         seed: set.seed,
         stage: Stage::Pairings,
+        stop: set.stop(set.alternative, observed, tol),
     }
     .run(
         progress,
         &mut |cb| heap_enumerate(&kernel, observed, tol, cb),
         &|s, len| random_block(&kernel, observed, tol, s, len),
     )?;
-    let mut test = TestOutcome::new(
-        &counts,
-        &values,
-        exact,
-        set.alternative,
-        set.two_sided,
-        observed,
-        set.seed,
-    );
+    let mut test =
+        TestOutcome::from_null(&null, set.alternative, set.two_sided, observed, set.seed);
+    let values = &null.values[..];
     // The figure's range is set by the relabelled values and the observed one.
-    test.null_histogram = histogram(&values, &[observed], 48);
+    test.null_histogram = histogram(values, &[observed], 48);
 
     // Bootstrap of pairs.
     let f = estimate::estimator(estimate_of(req.statistic), 0.5);

@@ -254,27 +254,27 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
     // The omnibus test.
     let setup = KSetup::new(req.statistic, &g.values);
     let count = labellings(&setup.sizes);
-    let (counts, values, exact) = driver::Relabelling {
+    let null = driver::Relabelling {
         count,
         exact_limit: st.exact_limit,
         resamples: st.resamples,
         seed: st.seed,
         stage: Stage::Relabelling,
+        stop: st.stop(Alternative::Greater, setup.observed, setup.tolerance),
     }
     .run(
         progress,
         &mut |cb| setup.enumerate(rng::BLOCK, cb),
         &|s, len| setup.random_block(s, len),
     )?;
-    let test = TestOutcome::new(
-        &counts,
-        &values,
-        exact,
+    let test = TestOutcome::from_null(
+        &null,
         Alternative::Greater,
         TwoSidedRule::Absolute,
         setup.observed,
         st.seed,
     );
+    let values = &null.values[..];
     let infinite = values.iter().filter(|v| !v.is_finite()).count();
     if infinite > 0 {
         notes.push(Note::InfiniteStatistics {
@@ -373,6 +373,7 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
             st.exact_limit,
             st.resamples,
             seed,
+            None,
             &mut relabel_progress,
         )?;
         let pr = p_value(&null.counts, null.exact, pair_alt, st.two_sided);

@@ -376,12 +376,13 @@ pub(crate) fn sign_flip(
     }
     let setup = FlipSetup::new(statistic, d);
     let patterns: u64 = if n < 63 { 1u64 << n } else { u64::MAX };
-    let (counts, values, exact) = driver::Relabelling {
+    let null = driver::Relabelling {
         count: patterns,
         exact_limit: set.exact_limit,
         resamples: set.resamples,
         seed: set.seed,
         stage: Stage::SignPatterns,
+        stop: set.stop(set.alternative, setup.observed, setup.tolerance),
     }
     .run(
         progress,
@@ -389,17 +390,11 @@ pub(crate) fn sign_flip(
         &|s, len| setup.random_block(s, len),
     )?;
     let observed = setup.observed;
-    let mut test = TestOutcome::new(
-        &counts,
-        &values,
-        exact,
-        set.alternative,
-        set.two_sided,
-        observed,
-        set.seed,
-    );
+    let mut test =
+        TestOutcome::from_null(&null, set.alternative, set.two_sided, observed, set.seed);
+    let values = &null.values[..];
     // The figure's range is set by the relabelled values and the observed one.
-    test.null_histogram = histogram(&values, &[observed], 48);
+    test.null_histogram = histogram(values, &[observed], 48);
 
     // Bootstrap the differences as one sample.
     let f_effect: boot::BoxedStat = match statistic {

@@ -461,27 +461,20 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Er
     let count = setup.strata.iter().fold(1u64, |acc, s| {
         acc.saturating_mul(choose(s.pool.len() as u64, s.k() as u64))
     });
-    let (counts, values, exact) = driver::Relabelling {
+    let null = driver::Relabelling {
         count,
         exact_limit: st.exact_limit,
         resamples: st.resamples,
         seed: st.seed,
         stage: Stage::Relabelling,
+        stop: st.stop(st.alternative, setup.observed, setup.tolerance),
     }
     .run(
         progress,
         &mut |cb| setup.enumerate(rng::BLOCK, cb),
         &|s, len| setup.random_block(s, len),
     )?;
-    let test = TestOutcome::new(
-        &counts,
-        &values,
-        exact,
-        st.alternative,
-        st.two_sided,
-        setup.observed,
-        st.seed,
-    );
+    let test = TestOutcome::from_null(&null, st.alternative, st.two_sided, setup.observed, st.seed);
 
     // Bootstrap within each stratum × group cell.
     let s_count = data.len();

@@ -248,17 +248,17 @@ fn two_group_report(
     let mut notes = g.notes.clone();
     let st = req.statistic;
     let setup = Setup::new(st, a, b);
-    let null = null_distribution(&setup, set.exact_limit, set.resamples, set.seed, progress)?;
-    let observed = perm::statistic_value(st, a, b);
-    let test = TestOutcome::new(
-        &null.counts,
-        &null.values,
-        null.exact,
-        set.alternative,
-        set.two_sided,
-        observed,
+    let stop = set.stop(set.alternative, setup.observed, setup.tolerance);
+    let null = null_distribution(
+        &setup,
+        set.exact_limit,
+        set.resamples,
         set.seed,
-    );
+        stop,
+        progress,
+    )?;
+    let observed = perm::statistic_value(st, a, b);
+    let test = TestOutcome::from_null(&null, set.alternative, set.two_sided, observed, set.seed);
 
     // Bootstrap, within each group: the effect and Hedges' g from the same resamples.
     let effect = perm::statistic_value(st.effect(), a, b);

@@ -650,6 +650,7 @@ pub fn run(req: &YesNoRequest, progress: ProgressFn) -> Result<YesNoReport, Erro
         rng: RNG_NAME.into(),
         null_histogram,
         tail,
+        sequential: None,
     };
     if !progress(&Progress {
         stage: Stage::ExactTest,

@@ -656,6 +656,43 @@ pub fn stage(s: &crate::base::Stage) -> String {
 pub fn how(t: &crate::designs::TestOutcome, unit: &str) -> String {
     if t.exact {
         format!("exact, all {} {unit}", fmt::count(t.resamples))
+    } else if let Some(s) = t.sequential.filter(|s| s.early) {
+        let pi = t
+            .p_interval
+            .as_ref()
+            .map(|p| {
+                format!(
+                    ", approximate 99% interval {} to {}",
+                    small(p.low),
+                    small(p.high)
+                )
+            })
+            .unwrap_or_default();
+        format!(
+            "sequential Monte Carlo: stopped after {} random {unit}, when {} were at least as \
+             extreme as the observed one (at most {} would have been drawn); p = h/L = {} \
+             (Besag and Clifford 1991), standard error about {}{pi}",
+            fmt::count(t.resamples),
+            fmt::count(s.after),
+            fmt::count(s.limit),
+            small(t.p_value),
+            small(t.mc_se.unwrap_or(0.0))
+        )
+    } else if let Some(s) = t.sequential {
+        let pi = t
+            .p_interval
+            .as_ref()
+            .map(|p| format!(", 99% interval {} to {}", small(p.low), small(p.high)))
+            .unwrap_or_default();
+        format!(
+            "sequential Monte Carlo: all {} random {unit} drawn, as fewer than {} were at \
+             least as extreme as the observed one; p = (b + 1)/(m + 1) = {}, standard error \
+             {}{pi}",
+            fmt::count(t.resamples),
+            fmt::count(s.after),
+            small(t.p_value),
+            small(t.mc_se.unwrap_or(0.0))
+        )
     } else {
         let pi = t
             .p_interval

@@ -1,7 +1,9 @@
 //! The one driver for exact-or-random null distributions: every relabelling when there are
 //! few enough, otherwise random ones in blocks of the seed's streams.
 
-use crate::base::{Error, Progress, ProgressFn, Stage};
+use serde::{Deserialize, Serialize};
+
+use crate::base::{Alternative, Error, Progress, ProgressFn, Stage};
 use crate::resample::parallel;
 use crate::resample::rng::{self, Stream};
 use crate::resample::tally::Counts;
@@ -23,26 +25,94 @@ pub fn random_null(
     progress: ProgressFn,
     block: RandomBlock,
 ) -> Result<(Counts, Vec<f64>), Error> {
-    random_range(
+    let (c, v, _) = random_range(
         seed,
         total,
         0..rng::block_count(total),
+        None,
         stage,
         progress,
         block,
-    )
+    )?;
+    Ok((c, v))
+}
+
+/// Which count a sequential stop watches: the one the p-value is made from.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum StopTail {
+    /// T ≥ t (greater, and the k-group spreads).
+    Ge,
+    /// T ≤ t.
+    Le,
+    /// |T| ≥ |t| (two-sided by absolute value).
+    AbsGe,
+}
+
+/// A sequential Monte Carlo test (Besag and Clifford 1991, "Sequential Monte Carlo
+/// p-values", Biometrika 78(2)): draw until `after` relabellings are at least as extreme as
+/// the observed one, or all of the resamples asked for have been drawn.
+#[derive(Clone, Copy, Debug)]
+pub struct Stop {
+    pub after: u64,
+    pub tail: StopTail,
+    /// The observed statistic and the kernel's tie tolerance (the counts' comparisons).
+    pub observed: f64,
+    pub tolerance: f64,
+}
+
+impl Stop {
+    /// The stop for a test in `alternative`'s direction (None without `after`).
+    pub fn new(
+        after: Option<u64>,
+        alternative: Alternative,
+        observed: f64,
+        tolerance: f64,
+    ) -> Option<Stop> {
+        after.map(|after| Stop {
+            after,
+            tail: match alternative {
+                Alternative::Greater => StopTail::Ge,
+                Alternative::Less => StopTail::Le,
+                Alternative::TwoSided => StopTail::AbsGe,
+            },
+            observed,
+            tolerance,
+        })
+    }
+
+    fn extreme(&self, c: &Counts) -> u64 {
+        match self.tail {
+            StopTail::Ge => c.ge,
+            StopTail::Le => c.le,
+            StopTail::AbsGe => c.abs_ge,
+        }
+    }
+}
+
+/// How a sequential run ended, for the report.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct Stopped {
+    /// The number of relabellings at least as extreme that stops the run.
+    pub after: u64,
+    /// The most relabellings the run would draw.
+    pub limit: u64,
+    /// Whether it stopped before the limit (then p = after / drawn).
+    pub early: bool,
 }
 
 /// [`random_null`] over the blocks `blocks` only: any partition of the blocks into ranges,
-/// merged in order, gives the same counts and statistics as the whole.
+/// merged in order, gives the same counts and statistics as the whole. With a `stop`, the
+/// run ends at the relabelling that brings the watched count to `stop.after` (found in its
+/// block after the blocks are merged in order, so the point does not depend on the threads).
 pub fn random_range(
     seed: u64,
     total: u64,
     blocks: std::ops::Range<u64>,
+    stop: Option<Stop>,
     stage: Stage,
     progress: ProgressFn,
     block: RandomBlock,
-) -> Result<(Counts, Vec<f64>), Error> {
+) -> Result<(Counts, Vec<f64>, bool), Error> {
     let mut counts = Counts::default();
     let len = (blocks.end - blocks.start)
         .saturating_mul(rng::BLOCK)
@@ -56,19 +126,39 @@ pub fn random_range(
             rng::block_len(total, first + i),
         )
     };
+    let mut early = false;
     let finished = parallel::in_order(blocks.end - first, &work, &mut |_, (c, v)| {
-        counts.add(&c);
-        values.extend(v);
-        progress(&Progress {
+        match stop {
+            Some(st) if st.extreme(&counts) + st.extreme(&c) >= st.after => {
+                // The relabelling that reaches the count ends the run.
+                for t in v {
+                    counts.record(t, st.observed, st.tolerance);
+                    values.push(t);
+                    if st.extreme(&counts) >= st.after {
+                        break;
+                    }
+                }
+                early = counts.total < total;
+            }
+            _ => {
+                counts.add(&c);
+                values.extend(v);
+            }
+        }
+        let go_on = progress(&Progress {
             stage: stage.clone(),
             done: counts.total,
             total,
-        })
+        });
+        if early {
+            return false;
+        }
+        go_on
     });
-    if !finished {
+    if !finished && !early {
         return Err(Error::cancelled());
     }
-    Ok((counts, values))
+    Ok((counts, values, early))
 }
 
 /// How a design's null distribution is made: every relabelling when there are `count` of
@@ -80,6 +170,17 @@ pub struct Relabelling {
     pub seed: u64,
     /// What the progress display calls the work.
     pub stage: Stage,
+    /// A sequential stop for the random relabellings (none: draw all of them).
+    pub stop: Option<Stop>,
+}
+
+/// A null distribution: the counts and statistics of the relabellings, whether they are all
+/// of them, and how a sequential run ended.
+pub struct Null {
+    pub counts: Counts,
+    pub values: Vec<f64>,
+    pub exact: bool,
+    pub stopped: Option<Stopped>,
 }
 
 /// Enumerates every relabelling, calling its argument with the number done now and then
@@ -94,7 +195,7 @@ impl Relabelling {
         progress: ProgressFn,
         enumerate: Enumerate,
         random: RandomBlock,
-    ) -> Result<(Counts, Vec<f64>, bool), Error> {
+    ) -> Result<Null, Error> {
         if self.count <= self.exact_limit {
             let mut cb = |done: u64| {
                 progress(&Progress {
@@ -103,17 +204,105 @@ impl Relabelling {
                     total: self.count,
                 })
             };
-            let (c, v) = enumerate(&mut cb).ok_or(Error::cancelled())?;
-            Ok((c, v, true))
+            let (counts, values) = enumerate(&mut cb).ok_or(Error::cancelled())?;
+            Ok(Null {
+                counts,
+                values,
+                exact: true,
+                stopped: None,
+            })
         } else {
-            let (c, v) = random_null(
+            let total = self.resamples;
+            let (counts, values, early) = random_range(
                 self.seed,
-                self.resamples,
+                total,
+                0..rng::block_count(total),
+                self.stop,
                 self.stage.clone(),
                 progress,
                 random,
             )?;
-            Ok((c, v, false))
+            Ok(Null {
+                counts,
+                values,
+                exact: false,
+                stopped: self.stop.map(|s| Stopped {
+                    after: s.after,
+                    limit: total,
+                    early,
+                }),
+            })
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::resample::two_groups::{Setup, Statistic};
+
+    /// The sequential stop ends at the relabelling that brings the count to h, found here
+    /// independently by scanning the statistics of a run of all of them (the definition in
+    /// Besag and Clifford 1991), and the result is the same on 1, 2 and 3 threads.
+    #[test]
+    fn a_sequential_run_stops_where_the_definition_says() {
+        let a = [4.1, 5.0, 3.9, 6.2, 5.5, 4.8, 5.1, 4.4];
+        let b = [4.0, 4.6, 3.1, 5.2, 4.9, 3.8, 4.3, 4.5];
+        let setup = Setup::new(Statistic::MeanDifference, &a, &b);
+        let block = |s, len| setup.random_block(s, len);
+        let total = 50_000;
+        let (all, values, _) = random_range(
+            9,
+            total,
+            0..rng::block_count(total),
+            None,
+            Stage::Relabelling,
+            &mut |_| true,
+            &block,
+        )
+        .unwrap();
+        assert_eq!(all.total, total);
+        for h in [1, 7, 40] {
+            let stop = Stop::new(
+                Some(h),
+                Alternative::TwoSided,
+                setup.observed,
+                setup.tolerance,
+            )
+            .unwrap();
+            // The definition: the first L with h statistics at least as extreme among the
+            // first L.
+            let mut c = Counts::default();
+            let mut want = None;
+            for (i, t) in values.iter().enumerate() {
+                c.record(*t, setup.observed, setup.tolerance);
+                if c.abs_ge == h {
+                    want = Some(i as u64 + 1);
+                    break;
+                }
+            }
+            let want = want.expect("reached h");
+            for threads in [1, 2, 3] {
+                parallel::set_threads(threads);
+                let (got, vals, early) = random_range(
+                    9,
+                    total,
+                    0..rng::block_count(total),
+                    Some(stop),
+                    Stage::Relabelling,
+                    &mut |_| true,
+                    &block,
+                )
+                .unwrap();
+                assert!(early);
+                assert_eq!(
+                    (got.total, got.abs_ge),
+                    (want, h),
+                    "h = {h}, {threads} threads"
+                );
+                assert_eq!(vals[..], values[..want as usize]);
+            }
+        }
+        parallel::set_threads(0);
     }
 }

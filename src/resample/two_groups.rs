@@ -10,7 +10,7 @@
 
 use serde::{Deserialize, Serialize};
 
-use crate::base::{Error, Progress, ProgressFn, Stage};
+use crate::base::{Error, ProgressFn, Stage};
 use crate::num::stats;
 use crate::resample::combin::{choose, RevolvingDoor};
 use crate::resample::driver;
@@ -376,13 +376,6 @@ pub fn statistic_value(statistic: Statistic, a: &[f64], b: &[f64]) -> f64 {
     }
 }
 
-/// The relabelling part: counts and all statistics, exact or by random blocks.
-pub struct NullDistribution {
-    pub counts: Counts,
-    pub values: Vec<f64>,
-    pub exact: bool,
-}
-
 /// Runs random relabelling blocks `blocks` (a range of block indices) and merges them in
 /// order. Any partition of the blocks into ranges, merged in order, gives the same result.
 pub fn random_blocks(
@@ -396,49 +389,38 @@ pub fn random_blocks(
         seed,
         total,
         blocks,
+        None,
         Stage::Relabelling,
         progress,
         &|s, len| setup.random_block(s, len),
     )
+    .map(|(c, v, _)| (c, v))
 }
 
 /// Every split when there are at most `exact_limit`, otherwise `resamples` random ones drawn
-/// from `seed`'s streams.
+/// from `seed`'s streams (until `stop`, if given).
 pub fn null_distribution(
     setup: &Setup,
     exact_limit: u64,
     resamples: u64,
     seed: u64,
+    stop: Option<driver::Stop>,
     progress: ProgressFn,
-) -> Result<NullDistribution, Error> {
+) -> Result<driver::Null, Error> {
     let n = (setup.n1 + setup.n2) as u64;
-    let splits = choose(n, setup.k as u64);
-    if splits <= exact_limit {
-        let mut cb = |done: u64| {
-            progress(&Progress {
-                stage: Stage::Relabelling,
-                done,
-                total: splits,
-            })
-        };
-        let (counts, values) = setup
-            .enumerate(rng::BLOCK, &mut cb)
-            .ok_or(Error::cancelled())?;
-        Ok(NullDistribution {
-            counts,
-            values,
-            exact: true,
-        })
-    } else {
-        let total = resamples;
-        let (counts, values) =
-            random_blocks(setup, seed, total, 0..rng::block_count(total), progress)?;
-        Ok(NullDistribution {
-            counts,
-            values,
-            exact: false,
-        })
+    driver::Relabelling {
+        count: choose(n, setup.k as u64),
+        exact_limit,
+        resamples,
+        seed,
+        stage: Stage::Relabelling,
+        stop,
     }
+    .run(
+        progress,
+        &mut |cb| setup.enumerate(rng::BLOCK, cb),
+        &|s, len| setup.random_block(s, len),
+    )
 }
 
 #[cfg(test)]

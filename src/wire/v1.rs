@@ -61,6 +61,7 @@ impl Settings1 {
             intervals: vec![self.interval],
             seed: self.seed,
             keep_resamples: false,
+            stop_after: None,
         }
     }
 }
@@ -275,6 +276,7 @@ fn settings(
         intervals,
         seed,
         keep_resamples,
+        stop_after: None,
     }
 }
 
