@@ -203,7 +203,7 @@ pub fn doc(r: &KGroupsReport, date: &str) -> Doc {
     let methods = format!(
         "Design: {} independent groups ({}). Test statistic: the {}, larger values counted as \
          more extreme. Null distribution: {}; ties with the observed value counted as at least \
-         as extreme (relative tolerance 1e-9). Effect: eta squared with a {level} {} bootstrap \
+         as extreme (within the rounding error of the statistic's arithmetic). Effect: eta squared with a {level} {} bootstrap \
          interval from {} resamples drawn within each group, and omega squared. Follow-up \
          comparisons: the {} of {}, each tested by relabelling the two groups' values ({}), with \
          Holm (1979) and Benjamini–Hochberg (1995) adjusted p-values and unadjusted {} bootstrap \

@@ -179,7 +179,7 @@ pub fn doc(r: &StrataReport, date: &str) -> Doc {
         "Design: two groups ({a}, {b}) within {} strata of {}{}. Test statistic: the weighted \
          average of the per-stratum differences in means ({a} minus {b}), {}. Alternative: {}. \
          Null distribution: {}, group labels relabelled only within each stratum; ties counted \
-         as at least as extreme (relative tolerance 1e-9). Interval: {level} {} bootstrap from \
+         as at least as extreme (within the rounding error of the statistic's arithmetic). Interval: {level} {} bootstrap from \
          {} resamples drawn within each stratum and group. Cross-check: least-squares fit of \
          {} on group and stratum (no interaction), t-test of the group coefficient with N − S − 1 \
          degrees of freedom. Random numbers: {}, seed {}. Computed with Reshuffle {} on {date}.",

@@ -114,7 +114,7 @@ fn methods(r: &TwoGroupsReport, date: &str) -> String {
     format!(
         "Design: two independent groups ({a} with n = {}, {b} with n = {}). Test statistic: \
          the {} ({a} minus {b}). Alternative: {alt}. Null distribution: {}; ties with the \
-         observed value counted as at least as extreme (relative tolerance 1e-9). Effect: the \
+         observed value counted as at least as extreme (within the rounding error of the statistic's arithmetic). Effect: the \
          {} with a {} {} bootstrap interval from {} resamples drawn within each group; Hedges' \
          g with its bootstrap interval; Welch's t-test with Welch–Satterthwaite degrees of \
          freedom as a classical cross-check. Random numbers: {}, seed {}. Computed with \
