@@ -655,56 +655,36 @@ pub fn stage(s: &crate::base::Stage) -> String {
 /// random relabellings, p = (b + 1)/(m + 1) = 0.01201, standard error 0.00034, 99% interval …".
 pub fn how(t: &crate::designs::TestOutcome, unit: &str) -> String {
     if t.exact {
-        format!("exact, all {} {unit}", fmt::count(t.resamples))
-    } else if let Some(s) = t.sequential.filter(|s| s.early) {
-        let pi = t
-            .p_interval
+        return format!("exact, all {} {unit}", fmt::count(t.resamples));
+    }
+    let interval = |lead: &str| {
+        t.p_interval
             .as_ref()
-            .map(|p| {
-                format!(
-                    ", approximate 99% interval {} to {}",
-                    small(p.low),
-                    small(p.high)
-                )
-            })
-            .unwrap_or_default();
-        format!(
-            "sequential Monte Carlo: stopped after {} random {unit}, when {} were at least as \
-             extreme as the observed one (at most {} would have been drawn); p = h/L = {} \
-             (Besag and Clifford 1991), standard error about {}{pi}",
-            fmt::count(t.resamples),
+            .map(|p| format!(", {lead}99% interval {} to {}", small(p.low), small(p.high)))
+            .unwrap_or_default()
+    };
+    let (p, se) = (small(t.p_value), small(t.mc_se.unwrap_or(0.0)));
+    let m = fmt::count(t.resamples);
+    match t.sequential {
+        Some(s) if s.early => format!(
+            "sequential Monte Carlo: stopped after {m} random {unit}, when {} were at least as \
+             extreme as the observed one (at most {} would have been drawn); p = h/L = {p} \
+             (Besag and Clifford 1991), standard error about {se}{}",
             fmt::count(s.after),
             fmt::count(s.limit),
-            small(t.p_value),
-            small(t.mc_se.unwrap_or(0.0))
-        )
-    } else if let Some(s) = t.sequential {
-        let pi = t
-            .p_interval
-            .as_ref()
-            .map(|p| format!(", 99% interval {} to {}", small(p.low), small(p.high)))
-            .unwrap_or_default();
-        format!(
-            "sequential Monte Carlo: all {} random {unit} drawn, as fewer than {} were at \
-             least as extreme as the observed one; p = (b + 1)/(m + 1) = {}, standard error \
-             {}{pi}",
-            fmt::count(t.resamples),
+            interval("approximate ")
+        ),
+        Some(s) => format!(
+            "sequential Monte Carlo: all {m} random {unit} drawn, as fewer than {} were at \
+             least as extreme as the observed one; p = (b + 1)/(m + 1) = {p}, standard error \
+             {se}{}",
             fmt::count(s.after),
-            small(t.p_value),
-            small(t.mc_se.unwrap_or(0.0))
-        )
-    } else {
-        let pi = t
-            .p_interval
-            .as_ref()
-            .map(|p| format!(", 99% interval {} to {}", small(p.low), small(p.high)))
-            .unwrap_or_default();
-        format!(
-            "Monte Carlo, {} random {unit}, p = (b + 1)/(m + 1) = {}, standard error {}{pi}",
-            fmt::count(t.resamples),
-            small(t.p_value),
-            small(t.mc_se.unwrap_or(0.0))
-        )
+            interval("")
+        ),
+        None => format!(
+            "Monte Carlo, {m} random {unit}, p = (b + 1)/(m + 1) = {p}, standard error {se}{}",
+            interval("")
+        ),
     }
 }
 
