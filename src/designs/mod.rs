@@ -141,13 +141,10 @@ pub fn check_work(n: usize, runs: usize, settings: &TestSettings) -> Result<(), 
         return Ok(());
     }
     let fit = (MAX_WORK / (n as f64 * runs as f64)).floor();
-    Err(Error::new(
-        ErrorKind::Limit,
+    Err(over_work_limit(
         format!(
             "This analysis would draw about {} values ({} values × ({} relabellings + {} \
-             bootstrap resamples){}), more than the {} one run may draw (it would take hours). \
-             Lower the relabellings and bootstrap resamples to about {} in total, or analyse \
-             fewer values.",
+             bootstrap resamples){})",
             fmt::sig(work),
             fmt::count(n as u64),
             fmt::count(settings.resamples),
@@ -157,10 +154,25 @@ pub fn check_work(n: usize, runs: usize, settings: &TestSettings) -> Result<(), 
             } else {
                 String::new()
             },
-            fmt::sig(MAX_WORK),
+        ),
+        format!(
+            "Lower the relabellings and bootstrap resamples to about {} in total, or analyse \
+             fewer values.",
             fmt::count(fit.max(0.0) as u64)
         ),
     ))
+}
+
+/// The refusal of work above [`MAX_WORK`]: `what` says how much it would be, `lower` what
+/// to lower. The one wording of the limit for tests, estimates and plans.
+pub fn over_work_limit(what: String, lower: String) -> Error {
+    Error::new(
+        ErrorKind::Limit,
+        format!(
+            "{what}, more than the {} one run may draw (it would take hours). {lower}",
+            fmt::sig(MAX_WORK)
+        ),
+    )
 }
 
 /// Size, centre and spread of one group.

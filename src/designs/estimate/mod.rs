@@ -455,11 +455,9 @@ fn check_work(prepared: &Prepared, req: &EstimateRequest, total: u64) -> Result<
     if work <= limit {
         return Ok(());
     }
-    Err(Error::new(
-        ErrorKind::Limit,
+    Err(crate::designs::over_work_limit(
         format!(
-            "This estimate would draw about {} values ({} values × {} resamples{}), more than \
-             the {} one run may draw (it would take hours). Lower the resamples to about {}{}.",
+            "This estimate would draw about {} values ({} values × {} resamples{})",
             fmt::sig(work),
             fmt::count(n as u64),
             fmt::count(total),
@@ -471,7 +469,9 @@ fn check_work(prepared: &Prepared, req: &EstimateRequest, total: u64) -> Result<
             } else {
                 String::new()
             },
-            fmt::sig(limit),
+        ),
+        format!(
+            "Lower the resamples to about {}{}.",
             fmt::count((limit / (n as f64 * inner)).floor() as u64),
             if nested {
                 ", or choose another interval than the studentized one"

@@ -269,16 +269,15 @@ fn check(req: &PlanRequest) -> Result<(Sim, ModelSummary, f64, f64), Error> {
     {
         let cost = sim.study_cost(n) * req.studies as f64;
         if cost > super::MAX_WORK {
-            return Err(Error::new(
-                ErrorKind::Limit,
+            return Err(super::over_work_limit(
                 format!(
-                    "Simulating {} studies at {what} ({}) would draw about {} values, more \
-                     than the {} one run may draw (it would take hours). Lower the simulated \
-                     studies, the relabellings per study ({}) or {what}.",
+                    "Simulating {} studies at {what} ({}) would draw about {} values",
                     fmt::count(req.studies),
                     fmt::count(n),
                     fmt::sig(cost),
-                    fmt::sig(super::MAX_WORK),
+                ),
+                format!(
+                    "Lower the simulated studies, the relabellings per study ({}) or {what}.",
                     fmt::count(req.relabellings),
                 ),
             ));

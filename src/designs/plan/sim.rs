@@ -164,16 +164,17 @@ impl Sim {
         let cost = self.study_cost(n);
         let limit = crate::designs::MAX_WORK;
         if self.spent.get() + cost * studies as f64 > limit {
-            return Err(Error::new(
-                ErrorKind::Limit,
+            return Err(crate::designs::over_work_limit(
                 format!(
-                    "This plan has drawn about {} values in its simulated studies, and the \
-                     next size ({}) would take it past the {} one run may draw (it would take \
-                     hours). Lower the simulated studies ({}), the relabellings per study ({}) \
-                     or the largest sample size to try.",
+                    "This plan has drawn about {} values in its simulated studies, and with the \
+                     next size ({}) it would draw {}",
                     fmt::sig(self.spent.get()),
                     fmt::count(n),
-                    fmt::sig(limit),
+                    fmt::sig(self.spent.get() + cost * studies as f64),
+                ),
+                format!(
+                    "Lower the simulated studies ({}), the relabellings per study ({}) or the \
+                     largest sample size to try.",
                     fmt::count(studies),
                     fmt::count(self.relabellings),
                 ),
