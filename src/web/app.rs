@@ -42,6 +42,12 @@ fn App() -> impl IntoView {
     Effect::new(move |_| {
         let Ok(view) = parsed.get() else { return };
         choose_columns(fm, &view.columns);
+        // Large tables stop early by default (the sequential rule), unless the stop was
+        // set by hand or by a link.
+        if !fm.stop_set.get_untracked() {
+            let large = view.rows >= super::form::LARGE_TABLE;
+            fm.stop_after.set(if large { "20".into() } else { String::new() });
+        }
     });
 
     // The groups on offer: labels of the group column, the chosen columns, or typed counts.

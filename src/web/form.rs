@@ -20,6 +20,9 @@ use crate::input::suggest::Suggestion;
 use crate::input::table::{self, ColumnKind, HeaderChoice};
 use crate::wire::Job;
 
+/// Tables of this many rows or more start with the sequential stop filled in (20).
+pub const LARGE_TABLE: usize = 20_000;
+
 /// Invented example tables, built into the page so it works without fetching anything.
 pub const EXAMPLES: [(&str, &str, &str); 5] = [
     (
@@ -72,6 +75,11 @@ pub struct Form {
     pub two_sided: RwSignal<TwoSidedRule>,
     pub resamples: RwSignal<String>,
     pub exact_limit: RwSignal<String>,
+    /// The sequential stop (blank: draw every relabelling asked for).
+    pub stop_after: RwSignal<String>,
+    /// Whether the user (or a restored link) set the stop, so that the large-table default
+    /// leaves it alone.
+    pub stop_set: RwSignal<bool>,
     pub bootstrap: RwSignal<String>,
     pub confidence: RwSignal<String>,
     pub interval_choice: RwSignal<String>,
@@ -244,6 +252,8 @@ impl Form {
             // Blank: the design's own limit (all splits up to 1,000,000; all sign patterns
             // up to 2^20), as the command does without --exact-limit.
             exact_limit: text(""),
+            stop_after: text(""),
+            stop_set: RwSignal::new(false),
             bootstrap: text(&d.bootstrap_resamples.to_string()),
             confidence: text(&percent_text(d.confidence)),
             interval_choice: text("bca"),
@@ -313,6 +323,7 @@ impl Form {
             self.two_sided.get(),
             self.resamples.get(),
             self.exact_limit.get(),
+            self.stop_after.get(),
         );
         let _ = (
             self.bootstrap.get(),
@@ -385,6 +396,12 @@ impl Form {
         if !limit.trim().is_empty() {
             s.exact_limit = parse_count("Enumerate every possibility up to", &limit)?;
         }
+        let stop = self.stop_after.get_untracked();
+        s.stop_after = if stop.trim().is_empty() {
+            None
+        } else {
+            Some(parse_count("Stop early once this many", &stop)?)
+        };
         s.bootstrap_resamples =
             parse_count("Bootstrap resamples", &self.bootstrap.get_untracked())?;
         s.confidence = share("Confidence level", &self.confidence.get_untracked())?;

@@ -400,6 +400,9 @@ pub fn Settings(fm: Form) -> impl IntoView {
                         <label class="compare-only" for="exact-limit">"Enumerate every possible relabelling when there are at most (blank: the design's default)"</label>
                         <input class="compare-only" id="exact-limit" inputmode="numeric" prop:value=move || fm.exact_limit.get()
                             on:input=move |ev| fm.exact_limit.set(event_target_value(&ev))/>
+                        <label class="compare-only" for="stop-after">{format!("Stop early once this many relabellings are at least as extreme as the observed one (blank: draw them all; 20 is filled in for tables of {} rows or more)", crate::base::format::count(super::form::LARGE_TABLE as u64))}</label>
+                        <input class="compare-only" id="stop-after" inputmode="numeric" prop:value=move || fm.stop_after.get()
+                            on:input=move |ev| { fm.stop_set.set(true); fm.stop_after.set(event_target_value(&ev)) }/>
                         <label for="bootstrap">"Bootstrap resamples"</label>
                         <input id="bootstrap" inputmode="numeric" prop:value=move || fm.bootstrap.get()
                             on:input=move |ev| fm.bootstrap.set(event_target_value(&ev))/>

@@ -51,6 +51,9 @@ impl Form {
         } else {
             st.exact_limit.to_string()
         });
+        self.stop_after
+            .set(st.stop_after.map(|h| h.to_string()).unwrap_or_default());
+        self.stop_set.set(true);
         self.bootstrap.set(st.bootstrap_resamples.to_string());
         self.confidence.set(percent_text(st.confidence));
         self.seed.set(st.seed.to_string());

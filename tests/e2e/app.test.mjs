@@ -644,3 +644,38 @@ test("planning: sample size and detectable effect by simulation, same numbers as
   await again.close();
   await page.close();
 });
+
+test("a large table stops early by the sequential rule, with the native command's numbers", async () => {
+  // 20,000 rows: the stop is filled in with 20 (Besag and Clifford 1991), and the page's
+  // numbers equal the command's with --stop-after 20.
+  let csv = "y,g\n";
+  for (let i = 0; i < 20000; i++) {
+    const g = i % 2 === 0 ? "a" : "b";
+    csv += `${((i * 7919) % 1000) / 10 + (g === "a" ? 0.4 : 0)},${g}\n`;
+  }
+  const file = path.join(out, "large-two-groups.csv");
+  fs.writeFileSync(file, csv);
+  const json = nativeRun(["analyze", file, "--stop-after", "20", "--seed", "4242", "--bootstrap", "1000"]);
+  assert.equal(json.sequential.early, true);
+  const { page } = await openPage();
+  await page.evaluate((text) => {
+    const t = document.querySelector("#data");
+    t.value = text;
+    t.dispatchEvent(new Event("input", { bubbles: true }));
+  }, csv);
+  await page.waitForFunction(() => /20,000 rows/.test(document.querySelector("#preview")?.textContent || ""), null, { timeout: 30000 });
+  assert.equal(await page.inputValue("#stop-after"), "20");
+  await page.click("details:has(#seed) > summary");
+  await page.fill("#bootstrap", "1000");
+  await runWithSeed(page, 4242);
+  await page.waitForSelector("#finding", { timeout: 120000 });
+  assert.equal(await num(page, "data-p-value"), json.p_value);
+  assert.equal(await page.textContent("#finding"), json.finding);
+  assert.match(await page.textContent("#findings"), /sequential Monte Carlo: stopped after/);
+  // Cleared by hand, the fixed number is drawn.
+  await page.fill("#stop-after", "");
+  await page.fill("#resamples", "999");
+  await page.click("#run");
+  await page.waitForFunction(() => /999 random relabellings/.test(document.querySelector("#findings")?.textContent || ""), null, { timeout: 120000 });
+  await page.close();
+});
