@@ -815,3 +815,51 @@ fn a_sequential_stop_is_reported_and_checked() {
     assert_eq!(code, 2);
     assert!(err.contains("fewer than the 400"), "{err}");
 }
+
+/// The settling rule: the demo's p-value (about 0.044, by the Welch cross-check 0.045) is
+/// settled below 0.05 after whole blocks of 4,096, p stays (b + 1)/(m + 1), the text says
+/// which rule stopped the run, and a level outside 0.0001 to 0.5 is refused.
+#[test]
+fn a_settled_p_value_is_reported_and_checked() {
+    let args = [
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--seed",
+        "3",
+        "--exact-limit",
+        "0",
+        "--settle-at",
+        "0.05",
+    ];
+    let mut json = args.to_vec();
+    json.push("--json");
+    let (code, out, err) = reshuffle(&json);
+    assert_eq!(code, 0, "{err}");
+    let r = report(&out);
+    assert_eq!(r["sequential"]["settle"], 0.05, "{r}");
+    assert_eq!(r["sequential"]["early"], true);
+    assert_eq!(r["sequential"]["settled"], "below");
+    assert!(r["sequential"].get("after").is_none(), "{r}");
+    let m = r["resamples"].as_u64().unwrap();
+    let b = r["extreme_count"].as_u64().unwrap();
+    assert!(m < 100_000 && m % 4096 == 0, "{m}");
+    assert_eq!(
+        r["p_value"].as_f64().unwrap(),
+        (b + 1) as f64 / (m + 1) as f64
+    );
+    assert!(r["p_value"].as_f64().unwrap() < 0.05);
+    let (code, out, err) = reshuffle(&args);
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        out.contains("once the p-value was settled below 0.05"),
+        "{out}"
+    );
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--settle-at",
+        "0.7",
+    ]);
+    assert_eq!(code, 2);
+    assert!(err.contains("from 0.0001 to 0.5"), "{err}");
+}

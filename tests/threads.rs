@@ -112,6 +112,21 @@ fn every_design_gives_the_same_numbers_on_any_number_of_threads() {
         "--stop-after",
         "5",
     ]);
+    // Settled against a level after whole blocks, checked in order.
+    jobs.push(vec![
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--settle-at",
+        "0.05",
+    ]);
+    jobs.push(vec![
+        "analyze",
+        "demo-data/adhesive-shear-strength.csv",
+        "--design",
+        "k-groups",
+        "--settle-at",
+        "0.01",
+    ]);
     for job in jobs {
         let mut args = job.clone();
         args.extend_from_slice(&common);

@@ -36,6 +36,21 @@ pub fn stop_after(s: &str) -> Result<u64, String> {
     whole(s, 1, crate::designs::MAX_STOP_AFTER)
 }
 
+/// The level a sequential run settles its p-value against: 0.0001 to 0.5.
+pub fn settle_at(s: &str) -> Result<f64, String> {
+    let v: f64 = s
+        .trim()
+        .parse()
+        .map_err(|_| format!("a significance level such as 0.05, not {s}"))?;
+    if (0.0001..=0.5).contains(&v) {
+        Ok(v)
+    } else {
+        Err(format!(
+            "a significance level from 0.0001 to 0.5 (such as 0.05), not {s}"
+        ))
+    }
+}
+
 /// Threads: 1 to 64.
 pub fn threads(s: &str) -> Result<usize, String> {
     whole(s, 1, crate::resample::parallel::MAX_THREADS as u64).map(|v| v as usize)
@@ -250,6 +265,11 @@ pub struct TestArgs {
     /// --resamples of them; p = H / drawn when it stops early.
     #[arg(long = "stop-after", value_name = "H", value_parser = stop_after)]
     pub stop_after: Option<u64>,
+    /// Sequential Monte Carlo: stop drawing once the p-value is settled below or above the
+    /// level ALPHA (checked after each block of 4096, with at most a 0.1% chance over all
+    /// checks of settling on the wrong side), or after --resamples of them.
+    #[arg(long = "settle-at", value_name = "ALPHA", value_parser = settle_at)]
+    pub settle_at: Option<f64>,
     /// Bootstrap resamples (default 10000).
     #[arg(long, value_name = "N", value_parser = bootstrap)]
     pub bootstrap: Option<u64>,
@@ -287,6 +307,9 @@ impl TestArgs {
         s.confidence = self.confidence.unwrap_or(s.confidence);
         if self.stop_after.is_some() {
             s.stop_after = self.stop_after;
+        }
+        if self.settle_at.is_some() {
+            s.settle_at = self.settle_at;
         }
     }
 }

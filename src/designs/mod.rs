@@ -235,6 +235,11 @@ pub struct TestSettings {
     /// extreme as the observed one (Besag and Clifford 1991); none: draw all of them.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub stop_after: Option<u64>,
+    /// Sequential Monte Carlo: stop drawing random relabellings once the p-value is settled
+    /// below or above this level (checked after each block, with a total risk of a wrong side
+    /// of [`crate::resample::driver::SETTLE_RISK`]); none: no such check.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub settle_at: Option<f64>,
 }
 
 impl TestSettings {
@@ -251,13 +256,20 @@ impl TestSettings {
             seed,
             keep_resamples: false,
             stop_after: None,
+            settle_at: None,
         }
     }
 
     /// The sequential stop of a test with this observed statistic and tie tolerance, in the
     /// direction of `alternative` (the k-group spreads pass Greater).
     pub fn stop(&self, alternative: Alternative, observed: f64, tolerance: f64) -> Option<Stop> {
-        Stop::new(self.stop_after, alternative, observed, tolerance)
+        Stop::new(
+            self.stop_after,
+            self.settle_at,
+            alternative,
+            observed,
+            tolerance,
+        )
     }
 
     /// The headline interval method.
@@ -302,14 +314,23 @@ impl TestSettings {
                     fmt::count(h)
                 )));
             }
-            if self.two_sided == TwoSidedRule::DoubledTail
-                && self.alternative == Alternative::TwoSided
-            {
-                return Err(Error::settings(
-                    "A sequential stop watches one count, so it needs the two-sided p-value by \
-                     absolute value (or a one-sided test), not twice the smaller tail.",
-                ));
+        }
+        if let Some(level) = self.settle_at {
+            if !(0.0001..=0.5).contains(&level) {
+                return Err(Error::settings(format!(
+                    "Settle the p-value against a level from 0.0001 to 0.5 (it is {level}); \
+                     0.05 or 0.01 is usual."
+                )));
             }
+        }
+        if (self.stop_after.is_some() || self.settle_at.is_some())
+            && self.two_sided == TwoSidedRule::DoubledTail
+            && self.alternative == Alternative::TwoSided
+        {
+            return Err(Error::settings(
+                "A sequential stop watches one count, so it needs the two-sided p-value by \
+                 absolute value (or a one-sided test), not twice the smaller tail.",
+            ));
         }
         Ok(())
     }
@@ -482,7 +503,9 @@ impl TestOutcome {
     /// that stopped early at the relabelling bringing the watched count to h, after L drawn,
     /// has p = h/L (Besag and Clifford 1991), a standard error of about p·sqrt((1 − p)/h)
     /// (the negative binomial's, by the delta method) and a 99% interval from the
-    /// Clopper–Pearson interval of h in L (approximate: L is the random part here).
+    /// Clopper–Pearson interval of h in L (approximate: L is the random part here). A run
+    /// stopped because the p-value was settled keeps the usual (b + 1)/(m + 1) and its Monte
+    /// Carlo interval; the guarantee is about the side of the level, not the estimate.
     pub fn from_null(
         null: &Null,
         alternative: Alternative,
@@ -500,7 +523,7 @@ impl TestOutcome {
             seed,
         );
         t.sequential = null.stopped;
-        if let Some(s) = null.stopped.filter(|s| s.early) {
+        if let Some(s) = null.stopped.filter(|s| s.early && s.settled.is_none()) {
             let (h, l) = (t.extreme_count, t.resamples);
             let p = h as f64 / l as f64;
             t.p_value = p;
@@ -511,7 +534,7 @@ impl TestOutcome {
                 high,
                 level: 0.99,
             });
-            debug_assert_eq!(h, s.after);
+            debug_assert_eq!(Some(h), s.after);
         }
         t
     }
@@ -643,8 +666,8 @@ mod tests {
                 }
                 (c, v)
             };
-            let stop = Stop::new(Some(10), Alternative::Greater, obs, 0.0);
-            let (counts, values, early) = random_range(
+            let stop = Stop::new(Some(10), None, Alternative::Greater, obs, 0.0);
+            let (counts, values, ended) = random_range(
                 r,
                 999,
                 0..1,
@@ -659,9 +682,11 @@ mod tests {
                 values,
                 exact: false,
                 stopped: Some(Stopped {
-                    after: 10,
+                    after: Some(10),
+                    settle: None,
                     limit: 999,
-                    early,
+                    early: ended.is_some(),
+                    settled: None,
                 }),
             };
             let t =

@@ -666,21 +666,55 @@ pub fn how(t: &crate::designs::TestOutcome, unit: &str) -> String {
     let (p, se) = (small(t.p_value), small(t.mc_se.unwrap_or(0.0)));
     let m = fmt::count(t.resamples);
     match t.sequential {
-        Some(s) if s.early => format!(
-            "sequential Monte Carlo: stopped after {m} random {unit}, when {} were at least as \
-             extreme as the observed one (at most {} would have been drawn); p = h/L = {p} \
-             (Besag and Clifford 1991), standard error about {se}{}",
-            fmt::count(s.after),
-            fmt::count(s.limit),
-            interval("approximate ")
-        ),
-        Some(s) => format!(
-            "sequential Monte Carlo: all {m} random {unit} drawn, as fewer than {} were at \
-             least as extreme as the observed one; p = (b + 1)/(m + 1) = {p}, standard error \
-             {se}{}",
-            fmt::count(s.after),
-            interval("")
-        ),
+        Some(s) if s.early => match (s.settled, s.settle) {
+            (Some(side), Some(level)) => format!(
+                "sequential Monte Carlo: stopped after {m} random {unit}, once the p-value was \
+                 settled {} {} (checked after each block of {}, with at most a {} chance over \
+                 all checks of settling on the wrong side; at most {} would have been drawn); \
+                 p = (b + 1)/(m + 1) = {p}, standard error {se}{}",
+                match side {
+                    crate::resample::driver::Side::Below => "below",
+                    crate::resample::driver::Side::Above => "above",
+                },
+                fmt::plain(level),
+                fmt::count(crate::resample::rng::BLOCK),
+                fmt::percent(crate::resample::driver::SETTLE_RISK),
+                fmt::count(s.limit),
+                interval("")
+            ),
+            _ => format!(
+                "sequential Monte Carlo: stopped after {m} random {unit}, when {} were at \
+                 least as extreme as the observed one (at most {} would have been drawn); \
+                 p = h/L = {p} (Besag and Clifford 1991), standard error about {se}{}",
+                fmt::count(s.after.unwrap_or(t.extreme_count)),
+                fmt::count(s.limit),
+                interval("approximate ")
+            ),
+        },
+        Some(s) => {
+            let why = match (s.after, s.settle) {
+                (Some(h), Some(level)) => format!(
+                    "fewer than {} were at least as extreme as the observed one and the p-value \
+                     was not settled against {}",
+                    fmt::count(h),
+                    fmt::plain(level)
+                ),
+                (Some(h), None) => format!(
+                    "fewer than {} were at least as extreme as the observed one",
+                    fmt::count(h)
+                ),
+                (None, Some(level)) => format!(
+                    "the p-value was not settled against {} before",
+                    fmt::plain(level)
+                ),
+                (None, None) => "no stopping rule was met".into(),
+            };
+            format!(
+                "sequential Monte Carlo: all {m} random {unit} drawn, as {why}; p = (b + 1)/(m \
+                 + 1) = {p}, standard error {se}{}",
+                interval("")
+            )
+        }
         None => format!(
             "Monte Carlo, {m} random {unit}, p = (b + 1)/(m + 1) = {p}, standard error {se}{}",
             interval("")

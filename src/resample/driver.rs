@@ -48,12 +48,19 @@ pub enum StopTail {
     AbsGe,
 }
 
-/// A sequential Monte Carlo test (Besag and Clifford 1991, "Sequential Monte Carlo
-/// p-values", Biometrika 78(2)): draw until `after` relabellings are at least as extreme as
-/// the observed one, or all of the resamples asked for have been drawn.
+/// The chance, over all the checks of a run, that a settling rule puts the p-value on the
+/// wrong side of its level: [`Stop::settle`] spends SETTLE_RISK / (c(c + 1)) at the c-th
+/// check, and these add up to SETTLE_RISK.
+pub const SETTLE_RISK: f64 = 1e-3;
+
+/// Sequential Monte Carlo rules for random relabellings: stop once `after` relabellings are
+/// at least as extreme as the observed one (Besag and Clifford 1991, "Sequential Monte Carlo
+/// p-values", Biometrika 78(2)), or once the p-value is settled below or above the level
+/// `settle` (checked after each block), or when all of the resamples asked for are drawn.
 #[derive(Clone, Copy, Debug)]
 pub struct Stop {
-    pub after: u64,
+    pub after: Option<u64>,
+    pub settle: Option<f64>,
     pub tail: StopTail,
     /// The observed statistic and the kernel's tie tolerance (the counts' comparisons).
     pub observed: f64,
@@ -61,15 +68,20 @@ pub struct Stop {
 }
 
 impl Stop {
-    /// The stop for a test in `alternative`'s direction (None without `after`).
+    /// The rules for a test in `alternative`'s direction (None without either rule).
     pub fn new(
         after: Option<u64>,
+        settle: Option<f64>,
         alternative: Alternative,
         observed: f64,
         tolerance: f64,
     ) -> Option<Stop> {
-        after.map(|after| Stop {
+        if after.is_none() && settle.is_none() {
+            return None;
+        }
+        Some(Stop {
             after,
+            settle,
             tail: match alternative {
                 Alternative::Greater => StopTail::Ge,
                 Alternative::Less => StopTail::Le,
@@ -89,21 +101,91 @@ impl Stop {
     }
 }
 
-/// How a sequential run ended, for the report.
+/// Which side of the level a settled p-value is on.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Side {
+    Below,
+    Above,
+}
+
+/// Whether `b` extreme relabellings in `m` settle the p-value below or above `level` at the
+/// c-th check (c ≥ 1): below when P(X ≤ b) < ε_c/2 for X ~ Binomial(m, level), above when
+/// P(X ≥ b) < ε_c/2, with ε_c = SETTLE_RISK / (c(c + 1)). Each is the one-sided
+/// Clopper–Pearson bound at ε_c/2 lying beyond the level, so by the union bound the chance
+/// that any check of a run settles on the wrong side is at most SETTLE_RISK (a
+/// Bonferroni-spent form of the procedures in Gandy 2009, JASA 104(488)). The binomial
+/// probabilities come from the ratios of successive terms (only +, ×, ÷), so the decision is
+/// the same on every machine.
+pub fn settle_check(b: u64, m: u64, level: f64, c: u64) -> Option<Side> {
+    settle_check_with(b, m, level, c, SETTLE_RISK)
+}
+
+/// [`settle_check`] with another total risk (for tests of the rule's guarantee).
+pub fn settle_check_with(b: u64, m: u64, level: f64, c: u64, risk: f64) -> Option<Side> {
+    if m == 0 || c == 0 || !(level > 0.0 && level < 1.0) {
+        return None;
+    }
+    let eps = risk / (c as f64 * (c as f64 + 1.0)) / 2.0;
+    let odds = level / (1.0 - level);
+    let mode = (((m + 1) as f64 * level).floor() as u64).min(m);
+    let (start, p) =
+        crate::num::binomial::pmf_window(0, m, mode, |x| (m - x) as f64 / (x + 1) as f64 * odds);
+    let end = start + p.len() as u64;
+    // P(X ≤ b) and P(X ≥ b) over the window (terms outside it are below 1e-300 of the mode's).
+    let below: f64 = if b < start {
+        0.0
+    } else {
+        p[..((b.min(end - 1) - start) as usize + 1)].iter().sum()
+    };
+    let above: f64 = if b >= end {
+        0.0
+    } else {
+        p[(b.max(start) - start) as usize..].iter().sum()
+    };
+    if below < eps {
+        Some(Side::Below)
+    } else if above < eps {
+        Some(Side::Above)
+    } else {
+        None
+    }
+}
+
+/// How a sequential run ended, for the report.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
 pub struct Stopped {
-    /// The number of relabellings at least as extreme that stops the run.
-    pub after: u64,
+    /// The number of relabellings at least as extreme that stops the run (if that rule is on).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub after: Option<u64>,
+    /// The level the p-value is settled against (if that rule is on).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub settle: Option<f64>,
     /// The most relabellings the run would draw.
     pub limit: u64,
-    /// Whether it stopped before the limit (then p = after / drawn).
+    /// Whether it stopped before the limit.
     pub early: bool,
+    /// Why it stopped early: the p-value was settled on this side of the level (none: the
+    /// count was reached, then p = after / drawn, or it did not stop early).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub settled: Option<Side>,
+}
+
+/// How a random run ended early.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Ended {
+    /// The count of extreme relabellings reached `after`.
+    Count,
+    /// The p-value was settled on this side of the level.
+    Settled(Side),
 }
 
 /// [`random_null`] over the blocks `blocks` only: any partition of the blocks into ranges,
 /// merged in order, gives the same counts and statistics as the whole. With a `stop`, the
-/// run ends at the relabelling that brings the watched count to `stop.after` (found in its
-/// block after the blocks are merged in order, so the point does not depend on the threads).
+/// run ends at the relabelling that brings the watched count to `stop.after`, or after the
+/// block whose end settles the p-value; both are found after the blocks are merged in order
+/// (the settling checks count the blocks from the first of the run, `blocks.start` = 0), so
+/// the point does not depend on the threads.
 pub fn random_range(
     seed: u64,
     total: u64,
@@ -112,7 +194,7 @@ pub fn random_range(
     stage: Stage,
     progress: ProgressFn,
     block: RandomBlock,
-) -> Result<(Counts, Vec<f64>, bool), Error> {
+) -> Result<(Counts, Vec<f64>, Option<Ended>), Error> {
     let mut counts = Counts::default();
     let len = (blocks.end - blocks.start)
         .saturating_mul(rng::BLOCK)
@@ -126,23 +208,34 @@ pub fn random_range(
             rng::block_len(total, first + i),
         )
     };
-    let mut early = false;
-    let finished = parallel::in_order(blocks.end - first, &work, &mut |_, (c, v)| {
-        match stop {
-            Some(st) if st.extreme(&counts) + st.extreme(&c) >= st.after => {
+    let mut ended = None;
+    let finished = parallel::in_order(blocks.end - first, &work, &mut |i, (c, v)| {
+        let count_stop = stop.and_then(|st| st.after.map(|after| (st, after)));
+        match count_stop {
+            Some((st, after)) if st.extreme(&counts) + st.extreme(&c) >= after => {
                 // The relabelling that reaches the count ends the run.
                 for t in v {
                     counts.record(t, st.observed, st.tolerance);
                     values.push(t);
-                    if st.extreme(&counts) >= st.after {
+                    if st.extreme(&counts) >= after {
                         break;
                     }
                 }
-                early = counts.total < total;
+                if counts.total < total {
+                    ended = Some(Ended::Count);
+                }
             }
             _ => {
                 counts.add(&c);
                 values.extend(v);
+            }
+        }
+        if let Some((st, level)) = stop.and_then(|st| st.settle.map(|l| (st, l))) {
+            if ended.is_none() && counts.total < total {
+                let check = first + i + 1;
+                if let Some(side) = settle_check(st.extreme(&counts), counts.total, level, check) {
+                    ended = Some(Ended::Settled(side));
+                }
             }
         }
         let go_on = progress(&Progress {
@@ -150,15 +243,15 @@ pub fn random_range(
             done: counts.total,
             total,
         });
-        if early {
+        if ended.is_some() {
             return false;
         }
         go_on
     });
-    if !finished && !early {
+    if !finished && ended.is_none() {
         return Err(Error::cancelled());
     }
-    Ok((counts, values, early))
+    Ok((counts, values, ended))
 }
 
 /// How a design's null distribution is made: every relabelling when there are `count` of
@@ -213,7 +306,7 @@ impl Relabelling {
             })
         } else {
             let total = self.resamples;
-            let (counts, values, early) = random_range(
+            let (counts, values, ended) = random_range(
                 self.seed,
                 total,
                 0..rng::block_count(total),
@@ -228,8 +321,13 @@ impl Relabelling {
                 exact: false,
                 stopped: self.stop.map(|s| Stopped {
                     after: s.after,
+                    settle: s.settle,
                     limit: total,
-                    early,
+                    early: ended.is_some(),
+                    settled: match ended {
+                        Some(Ended::Settled(side)) => Some(side),
+                        _ => None,
+                    },
                 }),
             })
         }
@@ -265,6 +363,7 @@ mod tests {
         for h in [1, 7, 40] {
             let stop = Stop::new(
                 Some(h),
+                None,
                 Alternative::TwoSided,
                 setup.observed,
                 setup.tolerance,
@@ -284,7 +383,7 @@ mod tests {
             let want = want.expect("reached h");
             for threads in [1, 2, 3] {
                 parallel::set_threads(threads);
-                let (got, vals, early) = random_range(
+                let (got, vals, ended) = random_range(
                     9,
                     total,
                     0..rng::block_count(total),
@@ -294,13 +393,152 @@ mod tests {
                     &block,
                 )
                 .unwrap();
-                assert!(early);
+                assert_eq!(ended, Some(Ended::Count));
                 assert_eq!(
                     (got.total, got.abs_ge),
                     (want, h),
                     "h = {h}, {threads} threads"
                 );
                 assert_eq!(vals[..], values[..want as usize]);
+            }
+        }
+        parallel::set_threads(0);
+    }
+
+    /// The decision against the binomial tails computed by statrs (a general-purpose
+    /// library; statrs 0.19 `Binomial::cdf`/`sf`), on every count b of runs of several sizes,
+    /// levels and check numbers; counts whose tail lies within 1e-9 (relative) of the
+    /// threshold are skipped, as the two computations may round differently there.
+    #[test]
+    fn settling_agrees_with_the_binomial_tails_of_statrs() {
+        use statrs::distribution::{Binomial, DiscreteCDF};
+        let mut decided = [0u32; 2];
+        for &m in &[50u64, 4096, 3 * 4096, 40_000, 250_000] {
+            for &level in &[0.0001, 0.01, 0.05, 0.2, 0.5] {
+                for &c in &[1u64, 3, 30] {
+                    let eps = SETTLE_RISK / (c as f64 * (c as f64 + 1.0)) / 2.0;
+                    let d = Binomial::new(level, m).unwrap();
+                    let step = (m / 400).max(1);
+                    for b in (0..=m).step_by(step as usize) {
+                        let below = d.cdf(b);
+                        let above = if b == 0 { 1.0 } else { d.sf(b - 1) };
+                        let near = |x: f64| (x - eps).abs() <= 1e-9 * eps;
+                        if near(below) || near(above) {
+                            continue;
+                        }
+                        let want = if below < eps {
+                            Some(Side::Below)
+                        } else if above < eps {
+                            Some(Side::Above)
+                        } else {
+                            None
+                        };
+                        let got = settle_check(b, m, level, c);
+                        assert_eq!(got, want, "b = {b}, m = {m}, level = {level}, c = {c}");
+                        match got {
+                            Some(Side::Below) => decided[0] += 1,
+                            Some(Side::Above) => decided[1] += 1,
+                            None => {}
+                        }
+                    }
+                }
+            }
+        }
+        // Both decisions were exercised.
+        assert!(decided[0] > 100 && decided[1] > 100, "{decided:?}");
+    }
+
+    /// The rule's guarantee, simulated with a larger total risk (0.1) so that it can be seen:
+    /// with the true p-value exactly at the level, a run settles below it at most risk/2 of
+    /// the time, and with the true p-value at a tenth (or ten times) the level it settles on
+    /// the right side, early. Extreme relabellings are drawn as Bernoulli(p) in blocks of
+    /// 256, checked after each block as the driver does.
+    #[test]
+    fn settling_rarely_lands_on_the_wrong_side() {
+        let risk = 0.1;
+        let level = 0.05;
+        let run = |p: f64, seed: u64| -> (Option<Side>, u64) {
+            let mut s = Stream::new(seed, rng::Purpose::Permutation, 0);
+            let (mut b, mut m) = (0u64, 0u64);
+            for c in 1..=60 {
+                for _ in 0..256 {
+                    b += u64::from(s.unit() < p);
+                }
+                m += 256;
+                if let Some(side) = settle_check_with(b, m, level, c, risk) {
+                    return (Some(side), m);
+                }
+            }
+            (None, m)
+        };
+        let reps = 3000;
+        let mut below = 0;
+        for r in 0..reps {
+            below += u32::from(run(level, r).0 == Some(Side::Below));
+        }
+        let rate = below as f64 / reps as f64;
+        // At most risk/2 = 0.05, with four standard errors of a 3,000-run estimate to spare.
+        assert!(
+            rate <= 0.05 + 4.0 * (0.05f64 * 0.95 / 3000.0).sqrt(),
+            "{rate}"
+        );
+        for r in 0..50 {
+            let (side, m) = run(level / 10.0, 10_000 + r);
+            assert_eq!(side, Some(Side::Below), "small p, run {r}");
+            assert!(m <= 4 * 256, "small p settled only after {m}");
+            let (side, _) = run(level * 10.0, 20_000 + r);
+            assert_eq!(side, Some(Side::Above), "large p, run {r}");
+        }
+    }
+
+    /// A run of real relabellings settles after its first block when the groups differ
+    /// clearly (below 0.05) or not at all (above 0.05), at the same point and with the same
+    /// counts on 1, 2 and 3 threads; the counts are those of the first blocks of the run with
+    /// no stop (same seed).
+    #[test]
+    fn a_settled_run_is_the_start_of_the_full_run_on_any_thread_count() {
+        let a = [4.1, 5.0, 3.9, 6.2, 5.5, 4.8, 5.1, 4.4, 5.9, 6.0, 5.2, 5.7];
+        let b = [4.0, 3.6, 3.1, 4.2, 3.9, 3.8, 4.3, 3.5, 4.4, 3.7, 4.1, 3.3];
+        let c = [4.0, 5.6, 3.1, 6.1, 4.9, 4.8, 5.3, 4.5, 5.8, 5.9, 5.0, 5.6];
+        for (other, want) in [(&b, Side::Below), (&c, Side::Above)] {
+            let setup = Setup::new(Statistic::MeanDifference, &a, other);
+            let block = |s, len| setup.random_block(s, len);
+            let total = 100_000;
+            let (_, full, _) = random_range(
+                5,
+                total,
+                0..rng::block_count(total),
+                None,
+                Stage::Relabelling,
+                &mut |_| true,
+                &block,
+            )
+            .unwrap();
+            let stop = Stop::new(
+                None,
+                Some(0.05),
+                Alternative::TwoSided,
+                setup.observed,
+                setup.tolerance,
+            );
+            let mut first = None;
+            for threads in [1, 2, 3] {
+                parallel::set_threads(threads);
+                let (got, vals, ended) = random_range(
+                    5,
+                    total,
+                    0..rng::block_count(total),
+                    stop,
+                    Stage::Relabelling,
+                    &mut |_| true,
+                    &block,
+                )
+                .unwrap();
+                assert_eq!(ended, Some(Ended::Settled(want)));
+                assert!(got.total < total && got.total % rng::BLOCK == 0);
+                assert_eq!(vals[..], full[..got.total as usize]);
+                let key = (got.total, got.abs_ge);
+                assert_eq!(*first.get_or_insert(key), key, "{threads} threads");
             }
         }
         parallel::set_threads(0);

@@ -42,11 +42,13 @@ fn App() -> impl IntoView {
     Effect::new(move |_| {
         let Ok(view) = parsed.get() else { return };
         choose_columns(fm, &view.columns);
-        // Large tables stop early by default (the sequential rule), unless the stop was
+        // Large tables stop early by default (the sequential rules), unless a rule was
         // set by hand or by a link.
         if !fm.stop_set.get_untracked() {
             let large = view.rows >= super::form::LARGE_TABLE;
-            fm.stop_after.set(if large { "20".into() } else { String::new() });
+            let fill = |v: &str| if large { v.to_string() } else { String::new() };
+            fm.stop_after.set(fill("20"));
+            fm.settle_at.set(fill("0.05"));
         }
     });
 

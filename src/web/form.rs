@@ -20,7 +20,8 @@ use crate::input::suggest::Suggestion;
 use crate::input::table::{self, ColumnKind, HeaderChoice};
 use crate::wire::Job;
 
-/// Tables of this many rows or more start with the sequential stop filled in (20).
+/// Tables of this many rows or more start with the sequential rules filled in (stop after
+/// 20 at least as extreme; settle against 0.05).
 pub const LARGE_TABLE: usize = 20_000;
 
 /// Invented example tables, built into the page so it works without fetching anything.
@@ -77,8 +78,10 @@ pub struct Form {
     pub exact_limit: RwSignal<String>,
     /// The sequential stop (blank: draw every relabelling asked for).
     pub stop_after: RwSignal<String>,
-    /// Whether the user (or a restored link) set the stop, so that the large-table default
-    /// leaves it alone.
+    /// The level the p-value is settled against (blank: no such check).
+    pub settle_at: RwSignal<String>,
+    /// Whether the user (or a restored link) set either sequential rule, so that the
+    /// large-table default leaves them alone.
     pub stop_set: RwSignal<bool>,
     pub bootstrap: RwSignal<String>,
     pub confidence: RwSignal<String>,
@@ -253,6 +256,7 @@ impl Form {
             // up to 2^20), as the command does without --exact-limit.
             exact_limit: text(""),
             stop_after: text(""),
+            settle_at: text(""),
             stop_set: RwSignal::new(false),
             bootstrap: text(&d.bootstrap_resamples.to_string()),
             confidence: text(&percent_text(d.confidence)),
@@ -324,6 +328,7 @@ impl Form {
             self.resamples.get(),
             self.exact_limit.get(),
             self.stop_after.get(),
+            self.settle_at.get(),
         );
         let _ = (
             self.bootstrap.get(),
@@ -401,6 +406,15 @@ impl Form {
             None
         } else {
             Some(parse_count("Stop early once this many", &stop)?)
+        };
+        let settle = self.settle_at.get_untracked();
+        s.settle_at = if settle.trim().is_empty() {
+            None
+        } else {
+            Some(parse_number(
+                "Stop once the p-value is settled against",
+                &settle,
+            )?)
         };
         s.bootstrap_resamples =
             parse_count("Bootstrap resamples", &self.bootstrap.get_untracked())?;

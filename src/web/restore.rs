@@ -53,6 +53,8 @@ impl Form {
         });
         self.stop_after
             .set(st.stop_after.map(|h| h.to_string()).unwrap_or_default());
+        self.settle_at
+            .set(st.settle_at.map(|v| v.to_string()).unwrap_or_default());
         self.stop_set.set(true);
         self.bootstrap.set(st.bootstrap_resamples.to_string());
         self.confidence.set(percent_text(st.confidence));

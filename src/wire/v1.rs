@@ -62,6 +62,7 @@ impl Settings1 {
             seed: self.seed,
             keep_resamples: false,
             stop_after: None,
+            settle_at: None,
         }
     }
 }
@@ -277,6 +278,7 @@ fn settings(
         seed,
         keep_resamples,
         stop_after: None,
+        settle_at: None,
     }
 }
 

@@ -645,9 +645,10 @@ test("planning: sample size and detectable effect by simulation, same numbers as
   await page.close();
 });
 
-test("a large table stops early by the sequential rule, with the native command's numbers", async () => {
-  // 20,000 rows: the stop is filled in with 20 (Besag and Clifford 1991), and the page's
-  // numbers equal the command's with --stop-after 20.
+test("a large table stops early by the sequential rules, with the native command's numbers", async () => {
+  // 20,000 rows: both rules are filled in, stop after 20 at least as extreme (Besag and
+  // Clifford 1991) and settle against 0.05; the page's numbers equal the command's with the
+  // same options, for each rule on its own, and cleared by hand the fixed number is drawn.
   let csv = "y,g\n";
   for (let i = 0; i < 20000; i++) {
     const g = i % 2 === 0 ? "a" : "b";
@@ -655,27 +656,40 @@ test("a large table stops early by the sequential rule, with the native command'
   }
   const file = path.join(out, "large-two-groups.csv");
   fs.writeFileSync(file, csv);
-  const json = nativeRun(["analyze", file, "--stop-after", "20", "--seed", "4242", "--bootstrap", "1000"]);
-  assert.equal(json.sequential.early, true);
-  const { page } = await openPage();
+  const common = ["--seed", "4242", "--bootstrap", "1000"];
+  const both = nativeRun(["analyze", file, "--stop-after", "20", "--settle-at", "0.05", ...common]);
+  assert.equal(both.sequential.early, true);
+  assert.equal(both.sequential.settled, undefined);
+  const settled = nativeRun(["analyze", file, "--settle-at", "0.05", ...common]);
+  assert.equal(settled.sequential.settled, "above");
+  const { page, errors } = await openPage();
   await page.evaluate((text) => {
     const t = document.querySelector("#data");
     t.value = text;
     t.dispatchEvent(new Event("input", { bubbles: true }));
   }, csv);
   await page.waitForFunction(() => /20,000 rows/.test(document.querySelector("#preview")?.textContent || ""), null, { timeout: 30000 });
-  assert.equal(await page.inputValue("#stop-after"), "20");
   await page.click("details:has(#seed) > summary");
+  assert.equal(await page.inputValue("#stop-after"), "20");
+  assert.equal(await page.inputValue("#settle-at"), "0.05");
   await page.fill("#bootstrap", "1000");
   await runWithSeed(page, 4242);
   await page.waitForSelector("#finding", { timeout: 120000 });
-  assert.equal(await num(page, "data-p-value"), json.p_value);
-  assert.equal(await page.textContent("#finding"), json.finding);
+  assert.equal(await num(page, "data-p-value"), both.p_value);
+  assert.equal(await page.textContent("#finding"), both.finding);
   assert.match(await page.textContent("#findings"), /sequential Monte Carlo: stopped after/);
-  // Cleared by hand, the fixed number is drawn.
+  // The count rule cleared: the p-value is settled above 0.05 after whole blocks.
   await page.fill("#stop-after", "");
+  await page.click("#run");
+  await page.waitForFunction(() => /settled above 0\.05/.test(document.querySelector("#findings")?.textContent || ""), null, { timeout: 120000 });
+  assert.equal(await num(page, "data-p-value"), settled.p_value);
+  assert.equal(await page.textContent("#finding"), settled.finding);
+  // Both cleared by hand: the fixed number is drawn.
+  await page.fill("#settle-at", "");
   await page.fill("#resamples", "999");
   await page.click("#run");
-  await page.waitForFunction(() => /999 random relabellings/.test(document.querySelector("#findings")?.textContent || ""), null, { timeout: 120000 });
+  await page.waitForFunction(() => /Monte Carlo, 999 random relabellings/.test(document.querySelector("#findings")?.textContent || ""), null, { timeout: 120000 });
+  await page.screenshot({ path: path.join(out, "large-table.png"), fullPage: true });
+  assert.deepEqual(errors, []);
   await page.close();
 });
