@@ -144,6 +144,7 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
     let t = table::parse(&req.data, req.header)?;
     let mut notes = t.notes();
     let (x, y) = groups::paired_columns(&t, &req.x, &req.y, &mut notes)?;
+    drop(t); // before the resampling (memory on large tables)
     let n = x.len();
     super::check_work(2 * n, 1, set)?;
     if n < 3 {

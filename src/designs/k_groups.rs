@@ -201,6 +201,7 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
     let st = &req.settings;
     let t = table::parse(&req.data, req.header)?;
     let g = groups::k_groups(&t, &req.layout)?;
+    drop(t); // before the resampling (memory on large tables)
     let k = g.names.len();
     if k > u16::MAX as usize {
         return Err(Error::data(format!(

@@ -65,6 +65,7 @@ impl Design for OneSampleDesign {
         let mut notes = t.notes();
         nums.push_notes(&req.value, &mut notes);
         let d: Vec<f64> = nums.values.iter().map(|v| v.1 - req.reference).collect();
+        drop((t, nums)); // before the resampling (memory on large tables)
         sign_flip(
             &d,
             Differences::Reference {

@@ -305,7 +305,7 @@ fn differences(
                 if l != lf && l != ls {
                     continue;
                 }
-                let cell = &ucol.cells[row];
+                let cell = ucol.cell(row);
                 let id = cell.text.trim();
                 if id.is_empty() {
                     no_unit += 1;

@@ -288,7 +288,7 @@ fn read(req: &StrataRequest, notes: &mut Vec<Note>) -> Result<ReadStrata, Error>
         if level != first && level != second {
             continue;
         }
-        let cell = &scol.cells[row];
+        let cell = scol.cell(row);
         let name = cell.text.trim();
         if name.is_empty() {
             no_stratum.push(cell.line);

@@ -122,13 +122,16 @@ impl Design for TwoGroupsDesign {
 
     fn run(req: &TwoGroupsRequest, progress: ProgressFn) -> Result<TwoGroupsReport, Error> {
         Self::check(req)?;
-        let table = table::parse(&req.data, req.header)?;
-        let g = groups::two_groups(
-            &table,
-            &req.layout,
-            req.first.as_deref(),
-            req.second.as_deref(),
-        )?;
+        // The parsed table is dropped before the resampling (memory on large tables).
+        let g = {
+            let table = table::parse(&req.data, req.header)?;
+            groups::two_groups(
+                &table,
+                &req.layout,
+                req.first.as_deref(),
+                req.second.as_deref(),
+            )?
+        };
         two_group_report(req, g, progress)
     }
 
@@ -257,6 +260,7 @@ fn two_group_report(
         stop,
         progress,
     )?;
+    drop(setup); // its pooled copy of the values, before the bootstrap
     let observed = perm::statistic_value(st, a, b);
     let test = TestOutcome::from_null(&null, set.alternative, set.two_sided, observed, set.seed);
 

@@ -295,8 +295,8 @@ fn read(req: &YesNoRequest, notes: &mut Vec<Note>) -> Result<([String; 2], Table
             notes.extend(t.notes());
             let (mut missing, mut unlabelled) = (Vec::new(), 0usize);
             let mut index: std::collections::HashMap<&str, usize> = Default::default();
-            for (cell, gcell) in vcol.cells.iter().zip(&gcol.cells) {
-                let yes = match table::read_yes_no(&cell.text) {
+            for (cell, gcell) in vcol.cells().zip(gcol.cells()) {
+                let yes = match table::read_yes_no(cell.text) {
                     Some(Some(y)) => y,
                     Some(None) => {
                         missing.push(cell);

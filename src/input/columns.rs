@@ -144,9 +144,9 @@ pub fn labelled_values(
     let mut unlabelled: Vec<u64> = Vec::new();
     let mut rows = Vec::new();
     for &(i, v) in &nums.values {
-        let label = gcol.cells[i].text.trim();
+        let label = gcol.cell(i).text.trim();
         if label.is_empty() || table::is_spreadsheet_error(label) {
-            unlabelled.push(gcol.cells[i].line);
+            unlabelled.push(gcol.cell(i).line);
             continue;
         }
         let li = *index.entry(label).or_insert_with(|| {
@@ -192,7 +192,7 @@ pub fn wide_values(
         // Blank cells below a shorter column's last value are expected in wide format and
         // not worth a note.
         let last = nums.values.last().map_or(0, |v| v.0 + 1);
-        let inner = nums.missing - (col.cells.len() - last);
+        let inner = nums.missing - (col.len() - last);
         let blank = inner.saturating_sub(nums.spreadsheet_errors);
         if blank > 0 {
             notes.push(Note::MissingCells {

@@ -30,7 +30,7 @@ pub struct Suggestion {
 /// Distinct non-blank labels of a column, in order of first appearance (at most `cap`).
 fn levels(col: &Column, cap: usize) -> Vec<String> {
     let mut out: Vec<String> = Vec::new();
-    for c in &col.cells {
+    for c in col.cells() {
         let l = c.text.trim();
         if !l.is_empty() && !out.iter().any(|o| o == l) {
             out.push(l.to_string());
@@ -59,7 +59,7 @@ fn crosses(t: &Table, group: &Column, strata: &Column) -> bool {
     }
     let mut counts: Vec<(String, usize, usize)> = Vec::new();
     for r in 0..t.rows {
-        let (gl, sl) = (group.cells[r].text.trim(), strata.cells[r].text.trim());
+        let (gl, sl) = (group.cell(r).text.trim(), strata.cell(r).text.trim());
         if gl.is_empty() || sl.is_empty() {
             continue;
         }
@@ -91,7 +91,7 @@ fn is_unit_column(t: &Table, group: &Column, unit: &Column) -> bool {
     }
     let mut counts: Vec<(String, usize, usize)> = Vec::new();
     for r in 0..t.rows {
-        let (gl, ul) = (group.cells[r].text.trim(), unit.cells[r].text.trim());
+        let (gl, ul) = (group.cell(r).text.trim(), unit.cell(r).text.trim());
         if gl.is_empty() || ul.is_empty() {
             continue;
         }
@@ -245,7 +245,7 @@ pub fn suggest(t: &Table) -> Option<Suggestion> {
         }
         2 => {
             let filled = |c: &Column| -> Vec<bool> {
-                c.cells.iter().map(|x| !x.text.trim().is_empty()).collect()
+                c.cells().map(|x| !x.text.trim().is_empty()).collect()
             };
             let names = vec![measures[0].name.clone(), measures[1].name.clone()];
             if filled(measures[0]) == filled(measures[1]) {

@@ -21,17 +21,99 @@ pub enum ColumnKind {
 }
 
 /// One cell as typed, with the line of the pasted text it came from (1-based).
-#[derive(Clone, Debug, PartialEq)]
-pub struct Cell {
-    pub text: String,
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Cell<'a> {
+    pub text: &'a str,
     pub line: u64,
 }
 
+/// A column: its cells' text end to end, where each ends, and the line of each row (shared
+/// by the table's columns), about 4 bytes per cell beyond its text.
 #[derive(Clone, Debug)]
 pub struct Column {
     pub name: String,
-    pub cells: Vec<Cell>,
     pub kind: ColumnKind,
+    text: String,
+    ends: Vec<u32>,
+    lines: std::sync::Arc<[u64]>,
+}
+
+impl Column {
+    /// The number of cells (the table's rows).
+    pub fn len(&self) -> usize {
+        self.ends.len()
+    }
+
+    /// Whether the column has no cells.
+    pub fn is_empty(&self) -> bool {
+        self.ends.is_empty()
+    }
+
+    /// The cell in row `i` (0-based).
+    pub fn cell(&self, i: usize) -> Cell<'_> {
+        let start = if i == 0 { 0 } else { self.ends[i - 1] as usize };
+        Cell {
+            text: &self.text[start..self.ends[i] as usize],
+            line: self.lines[i],
+        }
+    }
+
+    /// Every cell, in row order.
+    pub fn cells(&self) -> impl ExactSizeIterator<Item = Cell<'_>> + '_ {
+        (0..self.len()).map(|i| self.cell(i))
+    }
+}
+
+/// The records of a table as read: every field's text end to end, where each field ends,
+/// where each record's fields end, and each record's line.
+struct Records {
+    text: String,
+    field_ends: Vec<u32>,
+    record_ends: Vec<u32>,
+    lines: Vec<u64>,
+}
+
+impl Records {
+    fn len(&self) -> usize {
+        self.lines.len()
+    }
+
+    fn is_empty(&self) -> bool {
+        self.lines.is_empty()
+    }
+
+    /// The fields of record `r`.
+    fn record(&self, r: usize) -> impl ExactSizeIterator<Item = &str> + '_ {
+        let first = if r == 0 {
+            0
+        } else {
+            self.record_ends[r - 1] as usize
+        };
+        (first..self.record_ends[r] as usize).map(move |f| {
+            let start = if f == 0 {
+                0
+            } else {
+                self.field_ends[f - 1] as usize
+            };
+            &self.text[start..self.field_ends[f] as usize]
+        })
+    }
+
+    /// Field `i` of record `r`, or "" if the record is shorter.
+    fn field(&self, r: usize, i: usize) -> &str {
+        self.record(r).nth(i).unwrap_or("")
+    }
+}
+
+/// The most text a table may hold (offsets are kept in 32 bits): 4 GiB.
+const MAX_TABLE_TEXT: u64 = u32::MAX as u64;
+
+fn too_large() -> Error {
+    Error::new(
+        ErrorKind::Table,
+        "The table holds more than 4 GiB of text, more than can be analysed at once. Keep \
+         only the columns the analysis needs, or split the table.",
+    )
 }
 
 /// A parsed table.
@@ -165,8 +247,8 @@ pub fn read_yes_no(text: &str) -> Option<Option<bool>> {
 /// Whether every filled cell of a column reads as yes/no (and at least one is filled).
 pub fn is_yes_no(col: &Column) -> bool {
     let mut any = false;
-    for c in &col.cells {
-        match read_yes_no(&c.text) {
+    for c in col.cells() {
+        match read_yes_no(c.text) {
             None => return false,
             Some(Some(_)) => any = true,
             Some(None) => {}
@@ -194,7 +276,7 @@ fn comment_block(text: &str) -> (usize, usize) {
     (comments, at)
 }
 
-fn records(text: &str, delimiter: u8) -> Result<Vec<(u64, Vec<String>)>, Error> {
+fn records(text: &str, delimiter: u8) -> Result<Records, Error> {
     let blanked: String;
     let (comments, start) = comment_block(text);
     let text = if comments > 0 {
@@ -215,10 +297,16 @@ fn records(text: &str, delimiter: u8) -> Result<Vec<(u64, Vec<String>)>, Error> 
         .flexible(true)
         .trim(csv::Trim::All)
         .from_reader(text.as_bytes());
-    let mut out = Vec::new();
+    let mut out = Records {
+        text: String::new(),
+        field_ends: Vec::new(),
+        record_ends: Vec::new(),
+        lines: Vec::new(),
+    };
     let mut cursor = (0usize, 0u64);
-    for rec in reader.records() {
-        let rec = rec.map_err(|e| {
+    let mut rec = csv::StringRecord::new();
+    loop {
+        let more = reader.read_record(&mut rec).map_err(|e| {
             let line = e
                 .position()
                 .map_or(0, |p| line_of(text, p.byte() as usize, &mut cursor));
@@ -230,14 +318,25 @@ fn records(text: &str, delimiter: u8) -> Result<Vec<(u64, Vec<String>)>, Error> 
             )
             .at_line(line)
         })?;
+        if !more {
+            break;
+        }
         let line = rec
             .position()
             .map_or(0, |p| line_of(text, p.byte() as usize, &mut cursor));
-        let cells: Vec<String> = rec.iter().map(|c| c.to_string()).collect();
-        if cells.iter().all(|c| c.is_empty()) {
+        if rec.iter().all(|c| c.is_empty()) {
             continue; // blank line
         }
-        out.push((line, cells));
+        let over = |have: usize, more: usize| have as u64 + more as u64 > MAX_TABLE_TEXT;
+        if over(out.text.len(), rec.as_slice().len()) || over(out.field_ends.len(), rec.len()) {
+            return Err(too_large());
+        }
+        for c in rec.iter() {
+            out.text.push_str(c);
+            out.field_ends.push(out.text.len() as u32);
+        }
+        out.record_ends.push(out.field_ends.len() as u32);
+        out.lines.push(line);
     }
     Ok(out)
 }
@@ -274,8 +373,8 @@ fn detect_delimiter(text: &str) -> u8 {
             if recs.is_empty() {
                 continue;
             }
-            let first = recs[0].1.len();
-            if first > 1 && recs.iter().all(|(_, r)| r.len() == first) {
+            let first = recs.record(0).len();
+            if first > 1 && (0..recs.len()).all(|r| recs.record(r).len() == first) {
                 return d;
             }
         }
@@ -320,20 +419,28 @@ pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, Error> {
         HeaderChoice::Names => true,
         HeaderChoice::Data => false,
         HeaderChoice::Detect => {
-            let first_has_number = recs[0].1.iter().any(|c| is_num(c));
-            let later_has_number = recs[1..].iter().any(|(_, r)| r.iter().any(|c| is_num(c)));
+            let first_has_number = recs.record(0).any(is_num);
+            let later_has_number = (1..recs.len()).any(|r| recs.record(r).any(is_num));
             !first_has_number && (later_has_number || recs.len() > 1)
         }
     };
     let width = if has_header {
-        recs[0].1.len()
+        recs.record(0).len()
     } else {
-        recs.iter().map(|(_, r)| r.len()).max().unwrap_or(0)
+        (0..recs.len())
+            .map(|r| recs.record(r).len())
+            .max()
+            .unwrap_or(0)
     };
-    let body = if has_header { &recs[1..] } else { &recs[..] };
+    let body = usize::from(has_header)..recs.len();
     if has_header {
-        for (line, r) in body {
-            let filled = r.iter().rposition(|c| !c.is_empty()).map_or(0, |i| i + 1);
+        for r in body.clone() {
+            let line = &recs.lines[r];
+            let fields: Vec<&str> = recs.record(r).collect();
+            let filled = fields
+                .iter()
+                .rposition(|c| !c.is_empty())
+                .map_or(0, |i| i + 1);
             if filled > width {
                 return Err(Error::new(
                     ErrorKind::Table,
@@ -349,7 +456,7 @@ pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, Error> {
     let mut names: Vec<String> = Vec::with_capacity(width);
     for i in 0..width {
         let raw = if has_header {
-            recs[0].1.get(i).cloned().unwrap_or_default()
+            recs.field(0, i).to_string()
         } else {
             String::new()
         };
@@ -366,26 +473,31 @@ pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, Error> {
         }
         names.push(name);
     }
+    let lines: std::sync::Arc<[u64]> = recs.lines[body.clone()].into();
+    let rows = body.len();
     let mut columns: Vec<Column> = names
         .into_iter()
         .map(|name| Column {
             name,
-            cells: Vec::with_capacity(body.len()),
             kind: ColumnKind::Empty,
+            text: String::new(),
+            ends: Vec::with_capacity(rows),
+            lines: lines.clone(),
         })
         .collect();
-    for (line, r) in body {
-        for (i, col) in columns.iter_mut().enumerate() {
-            col.cells.push(Cell {
-                text: r.get(i).cloned().unwrap_or_default(),
-                line: *line,
-            });
+    for r in body {
+        let mut fields = recs.record(r);
+        for col in columns.iter_mut() {
+            col.text.push_str(fields.next().unwrap_or(""));
+            col.ends.push(col.text.len() as u32);
         }
     }
+    drop(recs);
     for col in &mut columns {
+        col.text.shrink_to_fit();
         let (mut num, mut text) = (0usize, 0usize);
-        for c in &col.cells {
-            match read_value(&c.text, decimal_comma) {
+        for c in col.cells() {
+            match read_value(c.text, decimal_comma) {
                 Value::Number(_) => num += 1,
                 Value::Text => text += 1,
                 Value::Missing => {}
@@ -402,7 +514,7 @@ pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, Error> {
         };
     }
     Ok(Table {
-        rows: body.len(),
+        rows,
         columns,
         delimiter,
         header: has_header,
@@ -417,11 +529,10 @@ impl Table {
             // A first row of numbers (years, say) is read as data; if the name asked for is
             // one of its cells, say how to make that row the header.
             let in_first_row = !self.header
-                && self.columns.iter().any(|c| {
-                    c.cells
-                        .first()
-                        .is_some_and(|f| f.text.trim() == name.trim())
-                });
+                && self
+                    .columns
+                    .iter()
+                    .any(|c| !c.is_empty() && c.cell(0).text.trim() == name.trim());
             if in_first_row {
                 return Error::new(
                     ErrorKind::Column,
@@ -431,7 +542,7 @@ impl Table {
                          to \"holds column names\" (in the command: --header names)."
                     ),
                 )
-                .at_line(self.columns[0].cells[0].line);
+                .at_line(self.columns[0].cell(0).line);
             }
             let names: Vec<String> = self
                 .columns
@@ -482,10 +593,10 @@ pub fn significant_digits(text: &str) -> usize {
 
 /// Notes on the cells of column `name` left out as missing: blank or NA cells, and
 /// spreadsheet error values with the lines of the first few.
-pub fn left_out_notes(name: &str, missing: &[&Cell]) -> Vec<Note> {
-    let errors: Vec<&&Cell> = missing
+pub fn left_out_notes(name: &str, missing: &[Cell]) -> Vec<Note> {
+    let errors: Vec<&Cell> = missing
         .iter()
-        .filter(|c| is_spreadsheet_error(&c.text))
+        .filter(|c| is_spreadsheet_error(c.text))
         .collect();
     let mut notes = Vec::new();
     if missing.len() > errors.len() {
@@ -547,14 +658,14 @@ impl NumericColumn {
 impl Column {
     /// Reads every cell as a number; a cell holding text is an error that names it.
     pub fn numbers(&self, decimal_comma: bool) -> Result<NumericColumn, Error> {
-        let mut values = Vec::with_capacity(self.cells.len());
+        let mut values = Vec::with_capacity(self.len());
         let mut missing = 0;
         let mut decimal_commas = 0;
         let (mut spreadsheet_errors, mut spreadsheet_error_cells) = (0, Vec::new());
         let (mut too_precise, mut too_precise_first) = (0, None);
-        let mut bad: Vec<&Cell> = Vec::new();
-        for (i, c) in self.cells.iter().enumerate() {
-            match read_value(&c.text, decimal_comma) {
+        let mut bad: Vec<Cell> = Vec::new();
+        for (i, c) in self.cells().enumerate() {
+            match read_value(c.text, decimal_comma) {
                 Value::Number(v) => {
                     if v.abs() > MAX_MAGNITUDE {
                         return Err(Error::new(
@@ -575,7 +686,7 @@ impl Column {
                     if c.text.contains(',') {
                         decimal_commas += 1;
                     }
-                    if significant_digits(&c.text) > 17 {
+                    if significant_digits(c.text) > 17 {
                         too_precise += 1;
                         if too_precise_first.is_none() {
                             too_precise_first = Some((c.line, brief(c.text.trim())));
@@ -585,7 +696,7 @@ impl Column {
                 }
                 Value::Missing => {
                     missing += 1;
-                    if is_spreadsheet_error(&c.text) {
+                    if is_spreadsheet_error(c.text) {
                         spreadsheet_errors += 1;
                         if spreadsheet_error_cells.len() < 5 {
                             spreadsheet_error_cells.push((c.line, c.text.trim().to_string()));
@@ -622,7 +733,7 @@ impl Column {
                      clear the cell to leave it out.{more}",
                     first.line,
                     self.name,
-                    crate::base::format::brief(&first.text)
+                    crate::base::format::brief(first.text)
                 ),
             )
             .at_line(first.line)
@@ -656,7 +767,7 @@ mod tests {
         assert_eq!(t.notes(), vec![Note::CommentLinesSkipped { count: 2 }]);
         assert_eq!(t.rows, 5, "every row after the header is data");
         let batch = t.column("batch").unwrap();
-        assert_eq!(batch.cells[0].text, "#1");
+        assert_eq!(batch.cell(0).text, "#1");
         assert_eq!(batch.kind, ColumnKind::Label);
         // Spreadsheet errors in a numeric column: missing, with their lines.
         let nums = t
@@ -697,7 +808,7 @@ mod tests {
         assert!(e.message.contains("holds column names"), "{}", e.message);
         assert_eq!(e.line, Some(1));
         let t = parse(text, HeaderChoice::Names).unwrap();
-        assert_eq!(t.column("2019").unwrap().cells.len(), 3);
+        assert_eq!(t.column("2019").unwrap().len(), 3);
     }
 
     /// Class: more significant digits than a double keeps get a note (17 digits suffice to
@@ -753,8 +864,8 @@ mod tests {
         let text = "\u{feff}# invented example\r\n\"time, s\",desk\r\n12.5,\"North, upper\"\r\n13,South\r\n";
         let t = parse(text, HeaderChoice::Detect).unwrap();
         assert_eq!(t.columns[0].name, "time, s");
-        assert_eq!(t.columns[1].cells[0].text, "North, upper");
-        assert_eq!(t.columns[1].cells[1].line, 4);
+        assert_eq!(t.columns[1].cell(0).text, "North, upper");
+        assert_eq!(t.columns[1].cell(1).line, 4);
     }
 
     #[test]

@@ -321,7 +321,7 @@ fn levels_of(fm: Form) -> Vec<String> {
         return vec![];
     };
     let mut out: Vec<String> = Vec::new();
-    for c in &col.cells {
+    for c in col.cells() {
         let l = c.text.trim();
         if !l.is_empty() && !out.iter().any(|o| o == l) {
             out.push(l.to_string());

@@ -37,7 +37,12 @@ pub fn table_view(data: &str, header: HeaderChoice) -> Result<TableView, String>
                 .map(|c| (c.name.clone(), c.kind.clone()))
                 .collect(),
             preview: (0..t.rows.min(6))
-                .map(|r| t.columns.iter().map(|c| c.cells[r].text.clone()).collect())
+                .map(|r| {
+                    t.columns
+                        .iter()
+                        .map(|c| c.cell(r).text.to_string())
+                        .collect()
+                })
                 .collect(),
             rows: t.rows,
             delimiter: table::delimiter_name(t.delimiter),

@@ -195,8 +195,8 @@ fn zero_one(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<f64>, Err
     let c = t.column(col)?;
     let mut out = Vec::new();
     let mut missing = Vec::new();
-    for cell in &c.cells {
-        let v = match table::read_yes_no(&cell.text) {
+    for cell in c.cells() {
+        let v = match table::read_yes_no(cell.text) {
             Some(None) => {
                 missing.push(cell);
                 continue;
@@ -209,7 +209,7 @@ fn zero_one(t: &Table, col: &str, notes: &mut Vec<Note>) -> Result<Vec<f64>, Err
                         "Line {} of column \"{col}\" holds \"{}\"; a proportion needs 0/1, \
                          yes/no, true/false or pass/fail values.",
                         cell.line,
-                        crate::base::format::brief(&cell.text)
+                        crate::base::format::brief(cell.text)
                     ),
                 )
                 .at_line(cell.line)
@@ -282,11 +282,11 @@ fn prepare(req: &EstimateRequest, t: &Table, notes: &mut Vec<Note>) -> Result<Pr
                     let mut groups_: Vec<Vec<usize>> = Vec::new();
                     let mut xs = Vec::new();
                     for (k, &r) in rows.iter().enumerate() {
-                        let l = col.cells[r].text.trim().to_string();
+                        let l = col.cell(r).text.trim().to_string();
                         if l.is_empty() {
                             return Err(Error::data(format!(
                                 "Line {} has a value but no stratum in column \"{sc}\".",
-                                col.cells[r].line
+                                col.cell(r).line
                             )));
                         }
                         let i = match labels.iter().position(|x| *x == l) {
@@ -489,6 +489,7 @@ pub fn run(req: &EstimateRequest, progress: ProgressFn) -> Result<EstimateReport
     let t = table::parse(&req.data, req.header)?;
     notes.extend(t.notes());
     let prepared = prepare(req, &t, &mut notes)?;
+    drop(t); // before the resampling (memory on large tables)
     check_work(&prepared, req, total)?;
     let q = req.q.unwrap_or(0.5);
     let e = req.estimate;
