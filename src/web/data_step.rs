@@ -166,7 +166,7 @@ pub fn DataStep(
                     Err(e) => view! { <p class="error" role="alert" id="data-error">{e}</p> }.into_any(),
                     Ok(v) => view! {
                         <div class="preview" id="preview">
-                            <p class="meta">{format!("{} rows, {} columns, {}-separated{}.", v.rows, v.columns.len(), v.delimiter,
+                            <p class="meta">{format!("{} rows, {} columns, {}-separated{}.", crate::base::format::count(v.rows as u64), v.columns.len(), v.delimiter,
                                 if v.header { ", names from the first row" } else { "" })}</p>
                             <div class="table-scroll" tabindex="0" role="region" aria-label="Preview of the table">
                             <table>
