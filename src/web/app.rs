@@ -28,8 +28,15 @@ fn App() -> impl IntoView {
     let link_error = RwSignal::new(String::new());
     let status = RwSignal::new(Status::Idle);
     let result = RwSignal::new(None::<Report>);
+    let sent = RwSignal::new(None::<Job>);
+    // The job the findings on screen were computed from.
     let last_job = RwSignal::new(None::<Job>);
-    let sinks = Sinks { status, result };
+    let sinks = Sinks {
+        status,
+        result,
+        sent,
+        result_job: last_job,
+    };
     // The result on screen: the last one, if it belongs to the question now chosen.
     let shown = Memo::new(move |_| -> Option<Report> {
         let r = result.get()?;
@@ -99,7 +106,7 @@ fn App() -> impl IntoView {
             return settings_error.set(render::words::error(&e));
         }
         let text = wire::write_job(&job);
-        last_job.set(Some(job));
+        sent.set(Some(job));
         status.set(Status::Starting);
         if let Err(e) = runner::send(sinks, text) {
             status.set(Status::Failed(e));
@@ -110,7 +117,9 @@ fn App() -> impl IntoView {
         status.set(Status::Stopped);
     };
     let running = Memo::new(move |_| matches!(status.get(), Status::Starting | Status::Running(_)));
-    // Whether the shown result still matches the settings on screen.
+    // Whether the shown result still matches the data and settings on screen (the job it
+    // was computed from against the job the form makes now; a table that no longer reads
+    // counts as changed).
     let stale = Memo::new(move |_| {
         let Some(last) = last_job.get() else {
             return false;
@@ -220,10 +229,12 @@ fn App() -> impl IntoView {
             <section class="step" aria-labelledby="step-findings">
                 <h2 id="step-findings"><span class="step-no">"3"</span>" The findings"</h2>
                 <RunStatus status=status/>
-                {move || stale.get().then(|| view! {
-                    <p class="stale">"The settings have changed since these findings were computed; run the analysis again to update them."</p>
+                {move || (stale.get() && shown.get().is_some()).then(|| view! {
+                    <p class="stale" id="stale-note" role="status">"These findings belong to an earlier input: the data or the settings have changed since they were computed. Run the analysis again to update them."</p>
                 })}
-                {move || shown.get().map(|r| view! { <Findings doc=render::document(&r, &share::today())/> })}
+                <div class="findings-wrap" class:is-stale=move || stale.get() aria-describedby=move || stale.get().then_some("stale-note")>
+                    {move || shown.get().map(|r| view! { <Findings doc=render::document(&r, &share::today())/> })}
+                </div>
                 {move || shown.get().is_some().then(|| view! { <SharePanel shown=shown last_job=last_job/> })}
             </section>
         </main>

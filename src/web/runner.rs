@@ -9,7 +9,7 @@ use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
 
 use crate::base::{Error, Progress};
-use crate::wire::{Report, WorkerMessage};
+use crate::wire::{Job, Report, WorkerMessage};
 
 /// Script that starts the worker (written by Trunk's loader shim for the `worker` program).
 const WORKER_URL: &str = "./worker_loader.js";
@@ -38,6 +38,11 @@ pub struct Sinks {
     pub status: RwSignal<Status>,
     /// The last report.
     pub result: RwSignal<Option<Report>>,
+    /// The job handed to the worker last.
+    pub sent: RwSignal<Option<Job>>,
+    /// The job of the last report (set when the report arrives, so a run that fails or is
+    /// stopped leaves it with the findings it belongs to).
+    pub result_job: RwSignal<Option<Job>>,
 }
 
 struct WorkerHandle {
@@ -68,6 +73,7 @@ fn on_message(sinks: Sinks, text: &str) {
         }
         Ok(WorkerMessage::Progress(p)) => sinks.status.set(Status::Running(p)),
         Ok(WorkerMessage::Done { report }) => {
+            sinks.result_job.set(sinks.sent.get_untracked());
             sinks.result.set(Some(*report));
             sinks.status.set(Status::Done);
         }
