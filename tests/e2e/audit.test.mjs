@@ -157,3 +157,19 @@ test("findings of an earlier input are marked, also after a failed or stopped ru
   assert.deepEqual(errors, []);
   await page.close();
 });
+
+test("the main controls are reached with the Tab key alone, and Enter runs the analysis", async () => {
+  const { page, errors } = await openPage();
+  const reached = new Set();
+  for (let i = 0; i < 80; i++) {
+    await page.keyboard.press("Tab");
+    const id = await page.evaluate(() => document.activeElement?.id || document.activeElement?.tagName);
+    reached.add(id);
+    if (id === "run") break;
+  }
+  for (const id of ["example", "data", "design", "run"]) assert.ok(reached.has(id), `${id} not reached: ${[...reached]}`);
+  await page.keyboard.press("Enter");
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  assert.deepEqual(errors, []);
+  await page.close();
+});
