@@ -16,7 +16,7 @@ use super::share;
 use crate::base::Alternative;
 use crate::designs::yes_no::parse_counts;
 use crate::input::suggest;
-use crate::input::table::{self, ColumnKind};
+use crate::input::table::ColumnKind;
 use crate::render;
 use crate::resample::rng::fresh_seed;
 use crate::wire::{self, link, Job, Report, ENGINE_VERSION};
@@ -181,6 +181,8 @@ fn App() -> impl IntoView {
             return;
         };
         if let Ok(job) = fm.job(seed) {
+            let large = fm.data.with_untracked(|d| d.len()) > super::form::ADDRESS_DATA_LIMIT;
+            let job = if large { link::without_data(&job) } else { job };
             share::set_fragment(&link::encode(&job));
         }
     });
@@ -280,7 +282,7 @@ fn choose_columns(fm: Form, columns: &[(String, ColumnKind)]) {
     let shape = shape_of(&data, header);
     if shape != fm.shape_seen.get_untracked() {
         fm.shape_seen.set(shape);
-        if let Some(sg) = table::parse(&data, header)
+        if let Some(sg) = super::data_step::read_table(&data, header)
             .ok()
             .and_then(|t| suggest::suggest(&t))
         {
@@ -325,7 +327,7 @@ fn levels_of(fm: Form) -> Vec<String> {
         }
         return vec![fm.col_a.get(), fm.col_b.get()];
     }
-    let Ok(t) = table::parse(&fm.data.get(), fm.header.get()) else {
+    let Ok(t) = super::data_step::read_table(&fm.data.get(), fm.header.get()) else {
         return vec![];
     };
     let Some(col) = t.columns.iter().find(|c| c.name == fm.group_col.get()) else {

@@ -27,9 +27,35 @@ pub struct TableView {
     pub header: bool,
 }
 
+/// A table read, or why it could not be.
+type Read = Result<std::rc::Rc<table::Table>, crate::base::Error>;
+
+thread_local! {
+    /// The last table read, with the text and header choice it was read from.
+    static LAST_READ: std::cell::RefCell<Option<(String, HeaderChoice, Read)>> =
+        const { std::cell::RefCell::new(None) };
+}
+
+/// The table in the data box, read once per text and header choice: the preview, the column
+/// choice, the design suggestion and the group labels all ask for it after each change, and
+/// a large table takes a while to read.
+pub fn read_table(data: &str, header: HeaderChoice) -> Read {
+    LAST_READ.with(|last| {
+        let mut last = last.borrow_mut();
+        if let Some((text, h, result)) = last.as_ref() {
+            if *h == header && text == data {
+                return result.clone();
+            }
+        }
+        let result = table::parse(data, header).map(std::rc::Rc::new);
+        *last = Some((data.to_string(), header, result.clone()));
+        result
+    })
+}
+
 /// The table in the data box as the preview shows it, or what is wrong with it.
 pub fn table_view(data: &str, header: HeaderChoice) -> Result<TableView, String> {
-    table::parse(data, header)
+    read_table(data, header)
         .map(|t| TableView {
             columns: t
                 .columns
@@ -58,6 +84,18 @@ pub fn DataStep(
     parsed: Memo<Result<TableView, String>>,
     link_error: RwSignal<String>,
 ) -> impl IntoView {
+    // The box shows the data; its text is written only when it differs from what the box
+    // holds (an example, a file, a link), not after every keystroke or paste: writing a
+    // large text back makes the browser lay the whole box out again.
+    let area = NodeRef::<leptos::html::Textarea>::new();
+    Effect::new(move |_| {
+        let data = fm.data.get();
+        if let Some(el) = area.get() {
+            if el.value() != data {
+                el.set_value(&data);
+            }
+        }
+    });
     let load_text = move |text: String, note: String| {
         fm.data.set(text);
         fm.file_note.set(note);
@@ -144,8 +182,7 @@ pub fn DataStep(
                         }/>
                 </label>
                 <label for="data" class="block-label">"Paste a table here (from a spreadsheet, or comma-, semicolon- or tab-separated text), or drop a file on it"</label>
-                <textarea id="data" rows="10" spellcheck="false"
-                    prop:value=move || fm.data.get()
+                <textarea id="data" rows="10" spellcheck="false" node_ref=area
                     on:input=move |ev| { fm.data.set(event_target_value(&ev)); fm.example.set(String::new()); }
                     on:dragover=move |ev: web_sys::DragEvent| ev.prevent_default()
                     on:drop=on_drop></textarea>
@@ -168,6 +205,9 @@ pub fn DataStep(
                         <div class="preview" id="preview">
                             <p class="meta">{format!("{} rows, {} columns, {}-separated{}.", crate::base::format::count(v.rows as u64), v.columns.len(), v.delimiter,
                                 if v.header { ", names from the first row" } else { "" })}</p>
+                            {(fm.data.with_untracked(|d| d.len()) > super::form::ADDRESS_DATA_LIMIT).then(|| view! {
+                                <p class="hint" id="large-data-note">"A table this large is not kept in the address bar (it holds the settings only): to keep the data with the analysis, use \"Copy link\" or \"Save analysis file\" with the findings."</p>
+                            })}
                             <div class="table-scroll" tabindex="0" role="region" aria-label="Preview of the table">
                             <table>
                                 <thead>

@@ -17,12 +17,17 @@ use crate::designs::yes_no::{parse_counts, YesNoInput, YesNoRequest, YesNoStatis
 use crate::designs::TestSettings;
 use crate::input::columns::{self, Layout};
 use crate::input::suggest::Suggestion;
-use crate::input::table::{self, ColumnKind, HeaderChoice};
+use crate::input::table::{ColumnKind, HeaderChoice};
 use crate::wire::Job;
 
 /// Tables of this many rows or more start with the sequential rules filled in (stop after
 /// 20 at least as extreme; settle against 0.05).
 pub const LARGE_TABLE: usize = 20_000;
+
+/// Data texts longer than this (bytes) are left out of the link kept in the address bar,
+/// which then holds the settings only: rewriting a multi-megabyte address on every change
+/// would slow the page and the browser's history.
+pub const ADDRESS_DATA_LIMIT: usize = 256 * 1024;
 
 /// Invented example tables, built into the page so it works without fetching anything.
 pub const EXAMPLES: [(&str, &str, &str); 5] = [
@@ -219,7 +224,7 @@ pub fn kind_label(k: &ColumnKind) -> &'static str {
 
 /// The shape of a table (column names and kinds), to notice when a different table arrives.
 pub fn shape_of(data: &str, header: HeaderChoice) -> String {
-    match table::parse(data, header) {
+    match super::data_step::read_table(data, header) {
         Ok(t) => t
             .columns
             .iter()
@@ -670,7 +675,9 @@ impl Form {
     /// Sets the columns from the detected layout of the table in the data box; false when
     /// no layout could be detected.
     pub fn apply_detected(&self) -> bool {
-        let Ok(t) = table::parse(&self.data.get_untracked(), self.header.get_untracked()) else {
+        let Ok(t) =
+            super::data_step::read_table(&self.data.get_untracked(), self.header.get_untracked())
+        else {
             return false;
         };
         match columns::detect_layout(&t) {

@@ -693,3 +693,26 @@ test("a large table stops early by the sequential rules, with the native command
   assert.deepEqual(errors, []);
   await page.close();
 });
+
+test("a 200,000-row paste: preview, a settings-only address, and the data kept in the box", async () => {
+  const { page, errors } = await openPage();
+  let csv = "weight,line\n";
+  for (let i = 0; i < 200000; i++) csv += `${(500 + ((i * 7919) % 1000) / 10).toFixed(1)},${i % 2 ? "east" : "west"}\n`;
+  await page.evaluate((text) => {
+    const t = document.querySelector("#data");
+    t.value = text;
+    t.dispatchEvent(new Event("input", { bubbles: true }));
+  }, csv);
+  await page.waitForFunction(() => /200,000 rows/.test(document.querySelector("#preview")?.textContent || ""), null, { timeout: 60000 });
+  assert.match(await page.textContent("#large-data-note"), /not kept in the address bar/);
+  // The address holds the settings only: short, and it says so when opened.
+  const hash = await page.evaluate(() => location.hash);
+  assert.ok(hash.length > 0 && hash.length < 5000, `address of ${hash.length} characters`);
+  const again = await context.newPage();
+  await again.goto(base + hash);
+  await again.waitForFunction(() => /settings only/.test(document.body.textContent || ""), null, { timeout: 30000 });
+  await again.close();
+  assert.equal((await page.inputValue("#data")).length, csv.length);
+  assert.deepEqual(errors, []);
+  await page.close();
+});
