@@ -143,6 +143,20 @@ pub struct Progress {
     pub done: u64,
     /// How much there is.
     pub total: u64,
+    /// The p-value so far, in a run of random relabellings.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub running: Option<Running>,
+}
+
+/// The Monte Carlo p-value of the relabellings drawn so far, (b + 1)/(m + 1), with its 99%
+/// interval: what a run would report if it ended here.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Running {
+    /// Relabellings at least as extreme as the observed one so far (b).
+    pub extreme: u64,
+    pub p: f64,
+    pub low: f64,
+    pub high: f64,
 }
 
 /// Callback for progress; return false to stop the run.

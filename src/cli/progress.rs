@@ -71,7 +71,10 @@ impl Meter {
         if let Some(bar) = &self.bar {
             bar.set_length(p.total.max(1));
             bar.set_position(p.done.min(p.total));
-            bar.set_message(words::stage(&p.stage));
+            bar.set_message(match words::running(p) {
+                Some(r) => format!("{} ({r})", words::stage(&p.stage)),
+                None => words::stage(&p.stage),
+            });
         }
         true
     }

@@ -263,13 +263,14 @@ impl TestSettings {
     /// The sequential stop of a test with this observed statistic and tie tolerance, in the
     /// direction of `alternative` (the k-group spreads pass Greater).
     pub fn stop(&self, alternative: Alternative, observed: f64, tolerance: f64) -> Option<Stop> {
-        Stop::new(
+        Some(Stop::new(
             self.stop_after,
             self.settle_at,
             alternative,
+            self.two_sided,
             observed,
             tolerance,
-        )
+        ))
     }
 
     /// The headline interval method.
@@ -666,7 +667,14 @@ mod tests {
                 }
                 (c, v)
             };
-            let stop = Stop::new(Some(10), None, Alternative::Greater, obs, 0.0);
+            let stop = Some(Stop::new(
+                Some(10),
+                None,
+                Alternative::Greater,
+                TwoSidedRule::Absolute,
+                obs,
+                0.0,
+            ));
             let (counts, values, ended) = random_range(
                 r,
                 999,

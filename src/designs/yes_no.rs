@@ -441,6 +441,7 @@ fn bootstrap(
             stage: Stage::Bootstrap,
             done: values.len() as u64,
             total,
+            running: None,
         }) {
             return Err(Error::cancelled());
         }
@@ -656,6 +657,7 @@ pub fn run(req: &YesNoRequest, progress: ProgressFn) -> Result<YesNoReport, Erro
         stage: Stage::ExactTest,
         done: 1,
         total: 1,
+        running: None,
     }) {
         return Err(Error::cancelled());
     }

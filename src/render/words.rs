@@ -651,6 +651,20 @@ pub fn stage(s: &crate::base::Stage) -> String {
     }
 }
 
+/// The p-value so far of a run of random relabellings, for a progress display: "so far
+/// p ≈ 0.04312 (b = 431 of 9,999; 99% interval 0.03836 to 0.04826)".
+pub fn running(p: &crate::base::Progress) -> Option<String> {
+    let r = p.running?;
+    Some(format!(
+        "so far p ≈ {} (b = {} of {}; 99% interval {} to {})",
+        small(r.p),
+        fmt::count(r.extreme),
+        fmt::count(p.done),
+        small(r.low),
+        small(r.high)
+    ))
+}
+
 /// How a test's p-value was found: "exact, all 34,650 relabellings" or "Monte Carlo, 100,000
 /// random relabellings, p = (b + 1)/(m + 1) = 0.01201, standard error 0.00034, 99% interval …".
 pub fn how(t: &crate::designs::TestOutcome, unit: &str) -> String {

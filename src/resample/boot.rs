@@ -541,6 +541,7 @@ pub fn resample(
             stage: Stage::Bootstrap,
             done,
             total,
+            running: None,
         })
     });
     if !finished {

@@ -3,7 +3,7 @@
 
 use serde::{Deserialize, Serialize};
 
-use crate::base::{Alternative, Error, Progress, ProgressFn, Stage};
+use crate::base::{Alternative, Error, Progress, ProgressFn, Running, Stage, TwoSidedRule};
 use crate::resample::parallel;
 use crate::resample::rng::{self, Stream};
 use crate::resample::tally::Counts;
@@ -62,26 +62,30 @@ pub struct Stop {
     pub after: Option<u64>,
     pub settle: Option<f64>,
     pub tail: StopTail,
+    /// The test's direction and two-sided rule (for the running p-value).
+    pub alternative: Alternative,
+    pub rule: TwoSidedRule,
     /// The observed statistic and the kernel's tie tolerance (the counts' comparisons).
     pub observed: f64,
     pub tolerance: f64,
 }
 
 impl Stop {
-    /// The rules for a test in `alternative`'s direction (None without either rule).
+    /// The rules for a test in `alternative`'s direction with `rule` for two sides; with
+    /// neither rule the run only reports its running p-value.
     pub fn new(
         after: Option<u64>,
         settle: Option<f64>,
         alternative: Alternative,
+        rule: TwoSidedRule,
         observed: f64,
         tolerance: f64,
-    ) -> Option<Stop> {
-        if after.is_none() && settle.is_none() {
-            return None;
-        }
-        Some(Stop {
+    ) -> Stop {
+        Stop {
             after,
             settle,
+            alternative,
+            rule,
             tail: match alternative {
                 Alternative::Greater => StopTail::Ge,
                 Alternative::Less => StopTail::Le,
@@ -89,7 +93,24 @@ impl Stop {
             },
             observed,
             tolerance,
-        })
+        }
+    }
+
+    /// Whether a stopping rule is on (not only the running p-value).
+    pub fn is_rule(&self) -> bool {
+        self.after.is_some() || self.settle.is_some()
+    }
+
+    /// The p-value so far.
+    fn running(&self, c: &Counts) -> Running {
+        let pr = crate::resample::tally::p_value(c, false, self.alternative, self.rule);
+        let (low, high) = pr.interval.map_or((0.0, 1.0), |i| (i.low, i.high));
+        Running {
+            extreme: pr.extreme,
+            p: pr.p,
+            low,
+            high,
+        }
     }
 
     fn extreme(&self, c: &Counts) -> u64 {
@@ -242,6 +263,9 @@ pub fn random_range(
             stage: stage.clone(),
             done: counts.total,
             total,
+            running: stop
+                .filter(|_| counts.total > 0)
+                .map(|st| st.running(&counts)),
         });
         if ended.is_some() {
             return false;
@@ -295,6 +319,7 @@ impl Relabelling {
                     stage: self.stage.clone(),
                     done,
                     total: self.count,
+                    running: None,
                 })
             };
             let (counts, values) = enumerate(&mut cb).ok_or(Error::cancelled())?;
@@ -319,7 +344,7 @@ impl Relabelling {
                 counts,
                 values,
                 exact: false,
-                stopped: self.stop.map(|s| Stopped {
+                stopped: self.stop.filter(Stop::is_rule).map(|s| Stopped {
                     after: s.after,
                     settle: s.settle,
                     limit: total,
@@ -365,10 +390,10 @@ mod tests {
                 Some(h),
                 None,
                 Alternative::TwoSided,
+                TwoSidedRule::Absolute,
                 setup.observed,
                 setup.tolerance,
-            )
-            .unwrap();
+            );
             // The definition: the first L with h statistics at least as extreme among the
             // first L.
             let mut c = Counts::default();
@@ -514,13 +539,14 @@ mod tests {
                 &block,
             )
             .unwrap();
-            let stop = Stop::new(
+            let stop = Some(Stop::new(
                 None,
                 Some(0.05),
                 Alternative::TwoSided,
+                TwoSidedRule::Absolute,
                 setup.observed,
                 setup.tolerance,
-            );
+            ));
             let mut first = None;
             for threads in [1, 2, 3] {
                 parallel::set_threads(threads);
@@ -542,5 +568,58 @@ mod tests {
             }
         }
         parallel::set_threads(0);
+    }
+
+    /// The running p-value each progress report carries is (b + 1)/(m + 1) of the
+    /// relabellings drawn so far, b counted here afresh from the statistics of the whole run
+    /// (its first m), and the last one is the run's p-value.
+    #[test]
+    fn the_running_p_value_is_that_of_the_relabellings_so_far() {
+        let a = [4.1, 5.0, 3.9, 6.2, 5.5, 4.8, 5.1, 4.4];
+        let b = [4.0, 4.6, 3.1, 5.2, 4.9, 3.8, 4.3, 4.5];
+        let setup = Setup::new(Statistic::MeanDifference, &a, &b);
+        let block = |s, len| setup.random_block(s, len);
+        let total = 30_000;
+        let watch = Stop::new(
+            None,
+            None,
+            Alternative::TwoSided,
+            TwoSidedRule::Absolute,
+            setup.observed,
+            setup.tolerance,
+        );
+        let mut seen = Vec::new();
+        let (counts, values, ended) = random_range(
+            4,
+            total,
+            0..rng::block_count(total),
+            Some(watch),
+            Stage::Relabelling,
+            &mut |p| {
+                seen.push((p.done, p.running.expect("a running p-value")));
+                true
+            },
+            &block,
+        )
+        .unwrap();
+        assert_eq!(ended, None);
+        assert_eq!(seen.len() as u64, rng::block_count(total));
+        for (m, r) in &seen {
+            let mut c = Counts::default();
+            for t in &values[..*m as usize] {
+                c.record(*t, setup.observed, setup.tolerance);
+            }
+            assert_eq!(r.extreme, c.abs_ge, "m = {m}");
+            assert_eq!(r.p, (c.abs_ge + 1) as f64 / (*m + 1) as f64, "m = {m}");
+            assert!(r.low <= r.p && r.p <= r.high);
+        }
+        let last = seen.last().unwrap().1;
+        let pr = crate::resample::tally::p_value(
+            &counts,
+            false,
+            Alternative::TwoSided,
+            TwoSidedRule::Absolute,
+        );
+        assert_eq!((last.p, last.extreme), (pr.p, pr.extreme));
     }
 }

@@ -96,6 +96,7 @@ pub fn RunStatus(status: RwSignal<Status>) -> impl IntoView {
                             <label for="progress">{format!("{}: {} of {}", words::stage(&p.stage), fmt::count(p.done), fmt::count(p.total))}</label>
                             <progress id="progress" max="100" value=format!("{pct:.0}")></progress>
                         </div>
+                        {words::running(&p).map(|r| view! { <p class="hint" id="running-p">{r}</p> })}
                     }.into_any()
                 }
                 Status::Failed(e) => view! {

@@ -124,6 +124,8 @@ test("a long run shows progress and can be stopped", async () => {
   await page.selectOption("#statistic", "median-difference");
   await page.click("#run");
   await page.waitForSelector("#progress", { timeout: 30000 });
+  // The p-value so far, with its interval, while the run goes.
+  await page.waitForFunction(() => /so far p ≈ [\d.e-]+ \(b = [\d,]+ of [\d,]+; 99% interval/.test(document.querySelector("#running-p")?.textContent || ""), null, { timeout: 30000 });
   await page.click("#stop");
   await page.waitForFunction(() => /Stopped/.test(document.querySelector("#status")?.textContent || ""));
   // The page still works after stopping: a small run completes.

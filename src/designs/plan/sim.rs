@@ -211,6 +211,7 @@ impl Sim {
                 stage: stage.clone(),
                 done,
                 total: studies,
+                running: None,
             }) {
                 cancelled = true;
                 return false;
