@@ -64,47 +64,6 @@ impl Column {
     }
 }
 
-/// The records of a table as read: every field's text end to end, where each field ends,
-/// where each record's fields end, and each record's line.
-struct Records {
-    text: String,
-    field_ends: Vec<u32>,
-    record_ends: Vec<u32>,
-    lines: Vec<u64>,
-}
-
-impl Records {
-    fn len(&self) -> usize {
-        self.lines.len()
-    }
-
-    fn is_empty(&self) -> bool {
-        self.lines.is_empty()
-    }
-
-    /// The fields of record `r`.
-    fn record(&self, r: usize) -> impl ExactSizeIterator<Item = &str> + '_ {
-        let first = if r == 0 {
-            0
-        } else {
-            self.record_ends[r - 1] as usize
-        };
-        (first..self.record_ends[r] as usize).map(move |f| {
-            let start = if f == 0 {
-                0
-            } else {
-                self.field_ends[f - 1] as usize
-            };
-            &self.text[start..self.field_ends[f] as usize]
-        })
-    }
-
-    /// Field `i` of record `r`, or "" if the record is shorter.
-    fn field(&self, r: usize, i: usize) -> &str {
-        self.record(r).nth(i).unwrap_or("")
-    }
-}
-
 /// The most text a table may hold (offsets are kept in 32 bits): 4 GiB.
 const MAX_TABLE_TEXT: u64 = u32::MAX as u64;
 
@@ -276,69 +235,61 @@ fn comment_block(text: &str) -> (usize, usize) {
     (comments, at)
 }
 
-fn records(text: &str, delimiter: u8) -> Result<Records, Error> {
-    let blanked: String;
-    let (comments, start) = comment_block(text);
-    let text = if comments > 0 {
-        // Blanked rather than cut, so that line numbers match the pasted text.
-        blanked = text[..start]
-            .split('\n')
-            .map(|_| "")
-            .collect::<Vec<_>>()
-            .join("\n")
-            + &text[start..];
-        &blanked
-    } else {
-        text
-    };
-    let mut reader = csv::ReaderBuilder::new()
-        .delimiter(delimiter)
-        .has_headers(false)
-        .flexible(true)
-        .trim(csv::Trim::All)
-        .from_reader(text.as_bytes());
-    let mut out = Records {
-        text: String::new(),
-        field_ends: Vec::new(),
-        record_ends: Vec::new(),
-        lines: Vec::new(),
-    };
-    let mut cursor = (0usize, 0u64);
-    let mut rec = csv::StringRecord::new();
-    loop {
-        let more = reader.read_record(&mut rec).map_err(|e| {
-            let line = e
-                .position()
-                .map_or(0, |p| line_of(text, p.byte() as usize, &mut cursor));
-            Error::new(
-                ErrorKind::Table,
-                format!(
-                    "Line {line} could not be read as a table row ({e}). Check for a stray quote mark."
-                ),
-            )
-            .at_line(line)
-        })?;
-        if !more {
-            break;
+/// Reads a table's records one at a time: each with the line it starts on, blank lines
+/// skipped, the comment block before the table passed over (its lines still counted).
+struct RecordReader<'a> {
+    text: &'a str,
+    /// Lines of the comment block before `text`.
+    skipped_lines: u64,
+    reader: csv::Reader<&'a [u8]>,
+    cursor: (usize, u64),
+}
+
+impl<'a> RecordReader<'a> {
+    fn new(text: &'a str, delimiter: u8) -> RecordReader<'a> {
+        let start = comment_block(text).1;
+        let skipped_lines = text[..start].matches('\n').count() as u64;
+        let text = &text[start..];
+        let reader = csv::ReaderBuilder::new()
+            .delimiter(delimiter)
+            .has_headers(false)
+            .flexible(true)
+            .trim(csv::Trim::All)
+            .from_reader(text.as_bytes());
+        RecordReader {
+            text,
+            skipped_lines,
+            reader,
+            cursor: (0, 0),
         }
-        let line = rec
-            .position()
-            .map_or(0, |p| line_of(text, p.byte() as usize, &mut cursor));
-        if rec.iter().all(|c| c.is_empty()) {
-            continue; // blank line
-        }
-        let over = |have: usize, more: usize| have as u64 + more as u64 > MAX_TABLE_TEXT;
-        if over(out.text.len(), rec.as_slice().len()) || over(out.field_ends.len(), rec.len()) {
-            return Err(too_large());
-        }
-        for c in rec.iter() {
-            out.text.push_str(c);
-            out.field_ends.push(out.text.len() as u32);
-        }
-        out.record_ends.push(out.field_ends.len() as u32);
-        out.lines.push(line);
     }
-    Ok(out)
+
+    /// The next record that is not blank, into `rec`, and its line; None at the end.
+    fn next(&mut self, rec: &mut csv::StringRecord) -> Result<Option<u64>, Error> {
+        loop {
+            let more = self.reader.read_record(rec).map_err(|e| {
+                let line = e.position().map_or(0, |p| {
+                    line_of(self.text, p.byte() as usize, &mut self.cursor) + self.skipped_lines
+                });
+                Error::new(
+                    ErrorKind::Table,
+                    format!(
+                        "Line {line} could not be read as a table row ({e}). Check for a stray quote mark."
+                    ),
+                )
+                .at_line(line)
+            })?;
+            if !more {
+                return Ok(None);
+            }
+            let line = rec.position().map_or(0, |p| {
+                line_of(self.text, p.byte() as usize, &mut self.cursor) + self.skipped_lines
+            });
+            if !rec.iter().all(|c| c.is_empty()) {
+                return Ok(Some(line));
+            }
+        }
+    }
 }
 
 /// The 1-based line on which the record starting at byte `at` has its first character
@@ -369,14 +320,17 @@ fn detect_delimiter(text: &str) -> u8 {
         .collect::<Vec<_>>()
         .join("\n");
     for d in [b'\t', b';', b','] {
-        if let Ok(recs) = records(&sample, d) {
-            if recs.is_empty() {
-                continue;
-            }
-            let first = recs.record(0).len();
-            if first > 1 && (0..recs.len()).all(|r| recs.record(r).len() == first) {
-                return d;
-            }
+        let mut reader = RecordReader::new(&sample, d);
+        let mut rec = csv::StringRecord::new();
+        let mut lens = Vec::new();
+        while let Ok(Some(_)) = reader.next(&mut rec) {
+            lens.push(rec.len());
+        }
+        if lens
+            .first()
+            .is_some_and(|&first| first > 1 && lens.iter().all(|&l| l == first))
+        {
+            return d;
         }
     }
     // Ragged or single-column: take the first delimiter that appears at all.
@@ -396,6 +350,46 @@ pub fn delimiter_name(d: u8) -> &'static str {
     }
 }
 
+/// The table's body as it is read: each column's cell text end to end with where each cell
+/// ends, and each row's line. A row longer than the rows before it adds columns, empty above.
+#[derive(Default)]
+struct Body {
+    columns: Vec<(String, Vec<u32>)>,
+    lines: Vec<u64>,
+}
+
+impl Body {
+    fn add_columns(&mut self, width: usize) {
+        let rows = self.lines.len();
+        while self.columns.len() < width {
+            let mut ends = Vec::with_capacity(self.lines.capacity());
+            ends.resize(rows, 0);
+            self.columns.push((String::new(), ends));
+        }
+    }
+
+    fn push<'f>(&mut self, line: u64, fields: impl Iterator<Item = &'f str>) -> Result<(), Error> {
+        let mut n = 0;
+        for (i, f) in fields.enumerate() {
+            if i >= self.columns.len() {
+                self.add_columns(i + 1);
+            }
+            let (text, ends) = &mut self.columns[i];
+            if text.len() as u64 + f.len() as u64 > MAX_TABLE_TEXT {
+                return Err(too_large());
+            }
+            text.push_str(f);
+            ends.push(text.len() as u32);
+            n = i + 1;
+        }
+        for (text, ends) in &mut self.columns[n..] {
+            ends.push(text.len() as u32);
+        }
+        self.lines.push(line);
+        Ok(())
+    }
+}
+
 /// Parses pasted or dropped text into a table.
 pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, Error> {
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
@@ -407,56 +401,64 @@ pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, Error> {
     }
     let delimiter = detect_delimiter(text);
     let decimal_comma = delimiter != b',';
-    let recs = records(text, delimiter)?;
-    if recs.is_empty() {
+    let is_num = |s: &str| matches!(read_value(s, decimal_comma), Value::Number(_));
+    let mut reader = RecordReader::new(text, delimiter);
+    let mut rec = csv::StringRecord::new();
+    // The first record waits until the second shows whether it names the columns.
+    let Some(first_line) = reader.next(&mut rec)? else {
         return Err(Error::new(
             ErrorKind::Table,
             "No rows were found in the data.",
         ));
-    }
-    let is_num = |s: &str| matches!(read_value(s, decimal_comma), Value::Number(_));
+    };
+    let first: Vec<String> = rec.iter().map(str::to_string).collect();
+    let second = reader.next(&mut rec)?;
     let has_header = match header {
         HeaderChoice::Names => true,
         HeaderChoice::Data => false,
-        HeaderChoice::Detect => {
-            let first_has_number = recs.record(0).any(is_num);
-            let later_has_number = (1..recs.len()).any(|r| recs.record(r).any(is_num));
-            !first_has_number && (later_has_number || recs.len() > 1)
-        }
+        HeaderChoice::Detect => second.is_some() && !first.iter().any(|c| is_num(c)),
     };
-    let width = if has_header {
-        recs.record(0).len()
-    } else {
-        (0..recs.len())
-            .map(|r| recs.record(r).len())
-            .max()
-            .unwrap_or(0)
+    // Room for every row at once (one per line at most), so that no column grows by copying.
+    let mut body = Body {
+        columns: Vec::new(),
+        lines: Vec::with_capacity(text.bytes().filter(|&b| b == b'\n').count() + 1),
     };
-    let body = usize::from(has_header)..recs.len();
     if has_header {
-        for r in body.clone() {
-            let line = &recs.lines[r];
-            let fields: Vec<&str> = recs.record(r).collect();
-            let filled = fields
+        body.add_columns(first.len());
+    } else {
+        body.push(first_line, first.iter().map(String::as_str))?;
+    }
+    let mut next = second;
+    while let Some(line) = next {
+        if has_header {
+            let filled = rec
                 .iter()
-                .rposition(|c| !c.is_empty())
-                .map_or(0, |i| i + 1);
-            if filled > width {
+                .enumerate()
+                .filter(|(_, c)| !c.is_empty())
+                .last()
+                .map_or(0, |(i, _)| i + 1);
+            if filled > first.len() {
                 return Err(Error::new(
                     ErrorKind::Table,
                     format!(
-                        "Line {line} has {filled} fields but the first row names only {width} \
-                         columns. Remove the extra fields or add a name for each column."
+                        "Line {line} has {filled} fields but the first row names only {} \
+                         columns. Remove the extra fields or add a name for each column.",
+                        first.len()
                     ),
                 )
-                .at_line(*line));
+                .at_line(line));
             }
+            body.push(line, rec.iter().take(first.len()))?;
+        } else {
+            body.push(line, rec.iter())?;
         }
+        next = reader.next(&mut rec)?;
     }
+    let width = body.columns.len();
     let mut names: Vec<String> = Vec::with_capacity(width);
     for i in 0..width {
         let raw = if has_header {
-            recs.field(0, i).to_string()
+            first.get(i).cloned().unwrap_or_default()
         } else {
             String::new()
         };
@@ -473,26 +475,19 @@ pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, Error> {
         }
         names.push(name);
     }
-    let lines: std::sync::Arc<[u64]> = recs.lines[body.clone()].into();
-    let rows = body.len();
+    let rows = body.lines.len();
+    let lines: std::sync::Arc<[u64]> = body.lines.into();
     let mut columns: Vec<Column> = names
         .into_iter()
-        .map(|name| Column {
+        .zip(body.columns)
+        .map(|(name, (text, ends))| Column {
             name,
             kind: ColumnKind::Empty,
-            text: String::new(),
-            ends: Vec::with_capacity(rows),
+            text,
+            ends,
             lines: lines.clone(),
         })
         .collect();
-    for r in body {
-        let mut fields = recs.record(r);
-        for col in columns.iter_mut() {
-            col.text.push_str(fields.next().unwrap_or(""));
-            col.ends.push(col.text.len() as u32);
-        }
-    }
-    drop(recs);
     for col in &mut columns {
         col.text.shrink_to_fit();
         let (mut num, mut text) = (0usize, 0usize);

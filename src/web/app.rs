@@ -282,7 +282,7 @@ fn choose_columns(fm: Form, columns: &[(String, ColumnKind)]) {
     let shape = shape_of(&data, header);
     if shape != fm.shape_seen.get_untracked() {
         fm.shape_seen.set(shape);
-        if let Some(sg) = super::data_step::read_table(&data, header)
+        if let Some(sg) = super::form::read_table(&data, header)
             .ok()
             .and_then(|t| suggest::suggest(&t))
         {
@@ -327,7 +327,7 @@ fn levels_of(fm: Form) -> Vec<String> {
         }
         return vec![fm.col_a.get(), fm.col_b.get()];
     }
-    let Ok(t) = super::data_step::read_table(&fm.data.get(), fm.header.get()) else {
+    let Ok(t) = super::form::read_table(&fm.data.get(), fm.header.get()) else {
         return vec![];
     };
     let Some(col) = t.columns.iter().find(|c| c.name == fm.group_col.get()) else {

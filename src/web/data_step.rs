@@ -27,35 +27,9 @@ pub struct TableView {
     pub header: bool,
 }
 
-/// A table read, or why it could not be.
-type Read = Result<std::rc::Rc<table::Table>, crate::base::Error>;
-
-thread_local! {
-    /// The last table read, with the text and header choice it was read from.
-    static LAST_READ: std::cell::RefCell<Option<(String, HeaderChoice, Read)>> =
-        const { std::cell::RefCell::new(None) };
-}
-
-/// The table in the data box, read once per text and header choice: the preview, the column
-/// choice, the design suggestion and the group labels all ask for it after each change, and
-/// a large table takes a while to read.
-pub fn read_table(data: &str, header: HeaderChoice) -> Read {
-    LAST_READ.with(|last| {
-        let mut last = last.borrow_mut();
-        if let Some((text, h, result)) = last.as_ref() {
-            if *h == header && text == data {
-                return result.clone();
-            }
-        }
-        let result = table::parse(data, header).map(std::rc::Rc::new);
-        *last = Some((data.to_string(), header, result.clone()));
-        result
-    })
-}
-
 /// The table in the data box as the preview shows it, or what is wrong with it.
 pub fn table_view(data: &str, header: HeaderChoice) -> Result<TableView, String> {
-    read_table(data, header)
+    super::form::read_table(data, header)
         .map(|t| TableView {
             columns: t
                 .columns

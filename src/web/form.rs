@@ -222,9 +222,35 @@ pub fn kind_label(k: &ColumnKind) -> &'static str {
     }
 }
 
+/// A table read, or why it could not be.
+type Read = Result<std::rc::Rc<crate::input::table::Table>, crate::base::Error>;
+
+thread_local! {
+    /// The last table read, with the text and header choice it was read from.
+    static LAST_READ: std::cell::RefCell<Option<(String, HeaderChoice, Read)>> =
+        const { std::cell::RefCell::new(None) };
+}
+
+/// The table in the data box, read once per text and header choice: the preview, the column
+/// choice, the design suggestion and the group labels all ask for it after each change, and
+/// a large table takes a while to read.
+pub fn read_table(data: &str, header: HeaderChoice) -> Read {
+    LAST_READ.with(|last| {
+        let mut last = last.borrow_mut();
+        if let Some((text, h, result)) = last.as_ref() {
+            if *h == header && text == data {
+                return result.clone();
+            }
+        }
+        let result = crate::input::table::parse(data, header).map(std::rc::Rc::new);
+        *last = Some((data.to_string(), header, result.clone()));
+        result
+    })
+}
+
 /// The shape of a table (column names and kinds), to notice when a different table arrives.
 pub fn shape_of(data: &str, header: HeaderChoice) -> String {
-    match super::data_step::read_table(data, header) {
+    match read_table(data, header) {
         Ok(t) => t
             .columns
             .iter()
@@ -675,9 +701,7 @@ impl Form {
     /// Sets the columns from the detected layout of the table in the data box; false when
     /// no layout could be detected.
     pub fn apply_detected(&self) -> bool {
-        let Ok(t) =
-            super::data_step::read_table(&self.data.get_untracked(), self.header.get_untracked())
-        else {
+        let Ok(t) = read_table(&self.data.get_untracked(), self.header.get_untracked()) else {
             return false;
         };
         match columns::detect_layout(&t) {

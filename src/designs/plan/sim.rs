@@ -59,11 +59,13 @@ impl Sim {
     /// Values one simulated study of `n` per group draws: its data, and each relabelling
     /// draws one per value (the yes/no exact test computes from the two counts).
     pub(super) fn study_cost(&self, n: u64) -> f64 {
+        // In floating point: a hostile request's sizes may not fit a u64 product.
+        let n = n as f64;
         let values = match self.design {
-            PlanDesign::TwoGroups | PlanDesign::YesNo => 2 * n,
+            PlanDesign::TwoGroups | PlanDesign::YesNo => 2.0 * n,
             PlanDesign::Paired => n,
-            PlanDesign::KGroups => self.means.len() as u64 * n,
-        } as f64;
+            PlanDesign::KGroups => self.means.len() as f64 * n,
+        };
         match self.design {
             PlanDesign::YesNo => values,
             _ => values * (self.relabellings + 1) as f64,
