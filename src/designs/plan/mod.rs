@@ -473,6 +473,26 @@ mod tests {
     use super::*;
     use crate::input::table::HeaderChoice;
 
+    /// Sizes whose work does not fit a u64 (a hostile link or file; the fuzz test found one)
+    /// get the work-limit message, not an overflow.
+    #[test]
+    fn sizes_beyond_any_count_are_refused_by_the_work_limit() {
+        for design in [PlanDesign::TwoGroups, PlanDesign::Paired] {
+            let mut r = PlanRequest::new(design, PlanModel::Normal { sd: 1.0 }, 0.5, 5);
+            r.mde_n = Some(u64::MAX);
+            match run(&r, &mut |_| panic!("no study may run")) {
+                Err(e) => {
+                    assert_eq!(e.kind, ErrorKind::Limit, "{design:?}: {e:?}");
+                    assert!(
+                        e.message.contains("the size for the detectable effect"),
+                        "{e:?}"
+                    );
+                }
+                Ok(_) => panic!("{design:?}: a plan at 2^64 - 1 per group ran"),
+            }
+        }
+    }
+
     /// Bounded work: one size that would draw more than the limit is refused before any
     /// study runs, and the search as a whole stops at the limit instead of running on.
     #[test]
