@@ -364,6 +364,38 @@ mod tests {
     use super::*;
     use crate::resample::two_groups::{Setup, Statistic};
 
+    /// A whole random run of `total` mean-difference relabellings of `setup` from `seed`.
+    fn run(
+        setup: &Setup,
+        seed: u64,
+        total: u64,
+        stop: Option<Stop>,
+    ) -> (Counts, Vec<f64>, Option<Ended>) {
+        let block = |s, len| setup.random_block(s, len);
+        random_range(
+            seed,
+            total,
+            0..rng::block_count(total),
+            stop,
+            Stage::Relabelling,
+            &mut |_| true,
+            &block,
+        )
+        .expect("no cancel")
+    }
+
+    /// The rules `after` and `settle` for a two-sided test of `setup`'s statistic.
+    fn rules(setup: &Setup, after: Option<u64>, settle: Option<f64>) -> Stop {
+        Stop::new(
+            after,
+            settle,
+            Alternative::TwoSided,
+            TwoSidedRule::Absolute,
+            setup.observed,
+            setup.tolerance,
+        )
+    }
+
     /// The sequential stop ends at the relabelling that brings the count to h, found here
     /// independently by scanning the statistics of a run of all of them (the definition in
     /// Besag and Clifford 1991), and the result is the same on 1, 2 and 3 threads.
@@ -372,28 +404,11 @@ mod tests {
         let a = [4.1, 5.0, 3.9, 6.2, 5.5, 4.8, 5.1, 4.4];
         let b = [4.0, 4.6, 3.1, 5.2, 4.9, 3.8, 4.3, 4.5];
         let setup = Setup::new(Statistic::MeanDifference, &a, &b);
-        let block = |s, len| setup.random_block(s, len);
         let total = 50_000;
-        let (all, values, _) = random_range(
-            9,
-            total,
-            0..rng::block_count(total),
-            None,
-            Stage::Relabelling,
-            &mut |_| true,
-            &block,
-        )
-        .unwrap();
+        let (all, values, _) = run(&setup, 9, total, None);
         assert_eq!(all.total, total);
         for h in [1, 7, 40] {
-            let stop = Stop::new(
-                Some(h),
-                None,
-                Alternative::TwoSided,
-                TwoSidedRule::Absolute,
-                setup.observed,
-                setup.tolerance,
-            );
+            let stop = rules(&setup, Some(h), None);
             // The definition: the first L with h statistics at least as extreme among the
             // first L.
             let mut c = Counts::default();
@@ -408,16 +423,7 @@ mod tests {
             let want = want.expect("reached h");
             for threads in [1, 2, 3] {
                 parallel::set_threads(threads);
-                let (got, vals, ended) = random_range(
-                    9,
-                    total,
-                    0..rng::block_count(total),
-                    Some(stop),
-                    Stage::Relabelling,
-                    &mut |_| true,
-                    &block,
-                )
-                .unwrap();
+                let (got, vals, ended) = run(&setup, 9, total, Some(stop));
                 assert_eq!(ended, Some(Ended::Count));
                 assert_eq!(
                     (got.total, got.abs_ge),
@@ -527,39 +533,13 @@ mod tests {
         let c = [4.0, 5.6, 3.1, 6.1, 4.9, 4.8, 5.3, 4.5, 5.8, 5.9, 5.0, 5.6];
         for (other, want) in [(&b, Side::Below), (&c, Side::Above)] {
             let setup = Setup::new(Statistic::MeanDifference, &a, other);
-            let block = |s, len| setup.random_block(s, len);
             let total = 100_000;
-            let (_, full, _) = random_range(
-                5,
-                total,
-                0..rng::block_count(total),
-                None,
-                Stage::Relabelling,
-                &mut |_| true,
-                &block,
-            )
-            .unwrap();
-            let stop = Some(Stop::new(
-                None,
-                Some(0.05),
-                Alternative::TwoSided,
-                TwoSidedRule::Absolute,
-                setup.observed,
-                setup.tolerance,
-            ));
+            let (_, full, _) = run(&setup, 5, total, None);
+            let stop = Some(rules(&setup, None, Some(0.05)));
             let mut first = None;
             for threads in [1, 2, 3] {
                 parallel::set_threads(threads);
-                let (got, vals, ended) = random_range(
-                    5,
-                    total,
-                    0..rng::block_count(total),
-                    stop,
-                    Stage::Relabelling,
-                    &mut |_| true,
-                    &block,
-                )
-                .unwrap();
+                let (got, vals, ended) = run(&setup, 5, total, stop);
                 assert_eq!(ended, Some(Ended::Settled(want)));
                 assert!(got.total < total && got.total % rng::BLOCK == 0);
                 assert_eq!(vals[..], full[..got.total as usize]);
@@ -580,14 +560,7 @@ mod tests {
         let setup = Setup::new(Statistic::MeanDifference, &a, &b);
         let block = |s, len| setup.random_block(s, len);
         let total = 30_000;
-        let watch = Stop::new(
-            None,
-            None,
-            Alternative::TwoSided,
-            TwoSidedRule::Absolute,
-            setup.observed,
-            setup.tolerance,
-        );
+        let watch = rules(&setup, None, None);
         let mut seen = Vec::new();
         let (counts, values, ended) = random_range(
             4,
