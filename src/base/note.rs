@@ -195,6 +195,17 @@ pub enum Note {
     /// The bootstrap SE of a ratio exceeds the ratio.
     UnstableRatio,
 
+    /// Relabellings and/or bootstrap resamples of a large sample were drawn by the streaming
+    /// kernels of generation 2.
+    StreamingKernels {
+        /// The values analysed.
+        values: usize,
+        /// Whether the random relabellings streamed.
+        relabelling: bool,
+        /// Whether the bootstrap resamples streamed.
+        bootstrap: bool,
+    },
+
     // ----- intervals ----------------------------------------------------------------
     /// The estimate itself is not a finite number.
     EstimateNotFinite,

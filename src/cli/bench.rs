@@ -60,6 +60,95 @@ fn bare_loop(pool: &[f64], k: usize, total: u64) -> f64 {
     checksum
 }
 
+/// Large samples, one thread: the partial shuffle and the index-drawing bootstrap (kernel
+/// generation 1) against the streaming kernels (generation 2), and both against a plain sum
+/// over the same values (the speed of reading them from memory).
+fn large_samples(lines: &mut Vec<String>) {
+    use crate::resample::boot;
+    use crate::resample::large_boot::Weights;
+    let n = 1_000_000;
+    let mut s = Stream::new(3, rng::Purpose::Permutation, 0);
+    let a = values(n, 10.0, &mut s);
+    let b = values(n, 10.1, &mut s);
+    parallel::set_threads(1);
+    lines.push(format!(
+        "Large samples on one thread, {} + {} values, time per resample",
+        fmt::count(n as u64),
+        fmt::count(n as u64)
+    ));
+    // Four running sums, so that the adds keep pace with reading memory.
+    let sum4 = |x: &[f64]| {
+        let mut acc = [0.0f64; 4];
+        for q in x.chunks_exact(4) {
+            for l in 0..4 {
+                acc[l] += q[l];
+            }
+        }
+        acc.iter().sum::<f64>()
+    };
+    let plain = best(3, &mut || {
+        black_box(sum4(&a) + sum4(&b));
+    });
+    lines.push(format!(
+        "  {:<44} {:>8.2} ms",
+        "plain sum over the values (reading them once)",
+        plain * 1e3
+    ));
+    let rows: [(&str, u32, u64); 2] = [
+        ("relabelling, partial shuffle (generation 1)", 1, 4),
+        ("relabelling, streaming (generation 2)", 2, 64),
+    ];
+    for (name, kernels, len) in rows {
+        let setup = perm::Setup::for_run(Statistic::MeanDifference, &a, &b, kernels, 0);
+        let secs = best(3, &mut || {
+            black_box(setup.random_block(Stream::new(7, rng::Purpose::Permutation, 0), len));
+        }) / len as f64;
+        lines.push(format!(
+            "  {:<44} {:>8.2} ms   {:.2}× the plain sum",
+            name,
+            secs * 1e3,
+            secs / plain
+        ));
+    }
+    let mean_diff =
+        |x: &mut [f64], y: &mut [f64]| crate::num::stats::mean(x) - crate::num::stats::mean(y);
+    let stat = boot::Stat {
+        f: &mean_diff,
+        estimate: 0.0,
+        se: boot::SeMethod::None,
+    };
+    let design = boot::Design::Two { a: &a, b: &b };
+    let drawn = best(2, &mut || {
+        black_box(boot::block(
+            &design,
+            &[stat],
+            Stream::new(7, rng::Purpose::Bootstrap, 0),
+            4,
+        ));
+    }) / 4.0;
+    let (mut wa, mut wb) = (Weights::new(n), Weights::new(n));
+    let counted = best(3, &mut || {
+        let mut st = Stream::new(7, rng::Purpose::Bootstrap, 0);
+        for _ in 0..16 {
+            wa.draw(&a, &mut st);
+            wb.draw(&b, &mut st);
+            black_box(wa.sum() / n as f64 - wb.sum() / n as f64);
+        }
+    }) / 16.0;
+    for (name, secs) in [
+        ("bootstrap, drawn positions (generation 1)", drawn),
+        ("bootstrap, Poisson counts (generation 2)", counted),
+    ] {
+        lines.push(format!(
+            "  {:<44} {:>8.2} ms   {:.2}× the plain sum",
+            name,
+            secs * 1e3,
+            secs / plain
+        ));
+    }
+    parallel::set_threads(0);
+}
+
 /// Speed, side by side in one run.
 pub fn run(out: &mut dyn std::io::Write) -> Result<(), Error> {
     let mut lines: Vec<String> = Vec::new();
@@ -166,6 +255,8 @@ pub fn run(out: &mut dyn std::io::Write) -> Result<(), Error> {
         ));
     }
     parallel::set_threads(0);
+    lines.push(String::new());
+    large_samples(&mut lines);
     for l in lines {
         writeln!(out, "{l}").map_err(super::io)?;
     }

@@ -177,6 +177,7 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
         seed: set.seed,
         stage: Stage::Pairings,
         stop: set.stop(set.alternative, observed, tol),
+        block: crate::resample::rng::BLOCK,
     }
     .run(
         progress,

@@ -262,6 +262,7 @@ pub fn run(req: &KGroupsRequest, progress: ProgressFn) -> Result<KGroupsReport, 
         seed: st.seed,
         stage: Stage::Relabelling,
         stop: st.stop(Alternative::Greater, setup.observed, setup.tolerance),
+        block: crate::resample::rng::BLOCK,
     }
     .run(
         progress,

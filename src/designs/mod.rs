@@ -240,6 +240,38 @@ pub struct TestSettings {
     /// of [`crate::resample::driver::SETTLE_RISK`]); none: no such check.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub settle_at: Option<f64>,
+    /// The generation of the resampling kernels that computes the run (see [`KERNELS`]):
+    /// a request keeps the generation it was made with, so that its link or file gives the
+    /// same numbers in later versions. Requests that do not say (made before generation 2)
+    /// are generation 1.
+    #[serde(default = "first_kernels")]
+    pub kernels: u32,
+}
+
+/// The newest generation of the resampling kernels, the one new requests use:
+/// 1. the kernels of Reshuffle 0.1;
+/// 2. as 1, except that samples of at least [`crate::resample::large::LARGE`] values are
+///    relabelled and bootstrapped by streaming kernels ([`crate::resample::large`],
+///    [`crate::resample::large_boot`]), which draw different (equally valid) resamples.
+pub const KERNELS: u32 = 2;
+
+fn first_kernels() -> u32 {
+    1
+}
+
+/// Refuses a kernel generation this version does not know (a request from a newer version).
+pub fn check_kernels(kernels: u32) -> Result<(), Error> {
+    if (1..=KERNELS).contains(&kernels) {
+        Ok(())
+    } else {
+        Err(Error::new(
+            ErrorKind::Version,
+            format!(
+                "This request asks for resampling kernels of generation {kernels}; this version \
+                 of Reshuffle knows generations 1 to {KERNELS}. Open it with a newer version."
+            ),
+        ))
+    }
 }
 
 impl TestSettings {
@@ -257,6 +289,7 @@ impl TestSettings {
             keep_resamples: false,
             stop_after: None,
             settle_at: None,
+            kernels: KERNELS,
         }
     }
 
@@ -283,6 +316,7 @@ impl TestSettings {
 
     /// Checks the numbers; `unit` names a random resample ("relabellings").
     pub fn check(&self, unit: &str) -> Result<(), Error> {
+        check_kernels(self.kernels)?;
         check_confidence(self.confidence)?;
         if !(99..=MAX_RESAMPLES).contains(&self.resamples)
             || !(200..=MAX_BOOTSTRAP).contains(&self.bootstrap_resamples)

@@ -302,6 +302,7 @@ fn differences(
             let mut units: Vec<(String, Slot, Slot)> = Vec::new();
             let mut no_unit = 0;
             for &(row, l, v) in &lab.rows {
+                let (row, l) = (row as usize, l as usize);
                 if l != lf && l != ls {
                     continue;
                 }
@@ -383,6 +384,7 @@ pub(crate) fn sign_flip(
         seed: set.seed,
         stage: Stage::SignPatterns,
         stop: set.stop(set.alternative, setup.observed, setup.tolerance),
+        block: crate::resample::rng::BLOCK,
     }
     .run(
         progress,

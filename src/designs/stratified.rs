@@ -285,6 +285,7 @@ fn read(req: &StrataRequest, notes: &mut Vec<Note>) -> Result<ReadStrata, Error>
     let mut strata: Vec<StratumData> = Vec::new();
     let mut no_stratum: Vec<u64> = Vec::new();
     for &(row, level, v) in &lab.rows {
+        let (row, level) = (row as usize, level as usize);
         if level != first && level != second {
             continue;
         }
@@ -468,6 +469,7 @@ pub fn run(req: &StrataRequest, progress: ProgressFn) -> Result<StrataReport, Er
         seed: st.seed,
         stage: Stage::Relabelling,
         stop: st.stop(st.alternative, setup.observed, setup.tolerance),
+        block: crate::resample::rng::BLOCK,
     }
     .run(
         progress,

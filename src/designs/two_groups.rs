@@ -16,6 +16,8 @@ use crate::input::table::{self, HeaderChoice};
 use crate::num::stats;
 use crate::resample::boot::{self, resample, TwoSampleFn};
 pub use crate::resample::driver::MAX_KEPT;
+use crate::resample::large::LARGE;
+use crate::resample::large_boot::{self, Weights};
 pub use crate::resample::two_groups::Statistic;
 use crate::resample::two_groups::{self as perm, null_distribution, Setup};
 
@@ -208,17 +210,14 @@ fn hedges_leave_one_out(a: &[f64], b: &[f64]) -> [Vec<f64>; 2] {
         (ma + ca - mb - cb) / sp * stats::hedges_j(df)
     };
     let (ma, mb) = (moments(a), moments(b));
-    let loo = |x: &[f64], mom: (f64, f64, f64, f64)| -> Vec<(f64, f64, f64, f64)> {
-        x.iter()
-            .map(|v| {
-                let d = v - mom.0;
-                (mom.0, mom.1 - d, mom.2 - d * d, mom.3 - 1.0)
-            })
-            .collect()
+    // Each value's leave-one-out moments, turned into g at once (no list of moments).
+    let drop = |mom: (f64, f64, f64, f64), v: f64| {
+        let d = v - mom.0;
+        (mom.0, mom.1 - d, mom.2 - d * d, mom.3 - 1.0)
     };
     [
-        loo(a, ma).into_iter().map(|m| g_from(m, mb)).collect(),
-        loo(b, mb).into_iter().map(|m| g_from(ma, m)).collect(),
+        a.iter().map(|&v| g_from(drop(ma, v), mb)).collect(),
+        b.iter().map(|&v| g_from(ma, drop(mb, v))).collect(),
     ]
 }
 
@@ -240,6 +239,81 @@ fn hedges_fn(a: &mut [f64], b: &mut [f64]) -> f64 {
     stats::hedges_g(a, b)
 }
 
+/// The bootstrap of two large groups by counts over their sorted values (kernel generation
+/// 2, [`large_boot`]): per resample the effect, Hedges' g and (for a studentized interval of
+/// a difference in means) the t value with Welch's standard error, in the shapes
+/// [`resample`] returns.
+#[allow(clippy::too_many_arguments)]
+fn streaming_bootstrap(
+    st: Statistic,
+    a: &[f64],
+    b: &[f64],
+    effect: f64,
+    seed: u64,
+    total: u64,
+    studentize: bool,
+    progress: ProgressFn,
+) -> Result<boot::Resampled, Error> {
+    let kind = st.effect();
+    // Each group as deviations from its mean (accurate sums of squares), sorted when order
+    // statistics are read.
+    let prep = |x: &[f64]| {
+        let m = stats::mean(x);
+        let mut d: Vec<f64> = x.iter().map(|v| v - m).collect();
+        if kind != Statistic::MeanDifference {
+            d.sort_by(f64::total_cmp);
+        }
+        (m, d)
+    };
+    let ((ma, xa), (mb, xb)) = (prep(a), prep(b));
+    let (na, nb) = (a.len() as f64, b.len() as f64);
+    let df = na + nb - 2.0;
+    let j = stats::hedges_j(df);
+    let centre = |w: &Weights, x: &[f64]| -> f64 {
+        let n = x.len() as u64;
+        match kind {
+            Statistic::MedianDifference => {
+                let lo = w.select(x, (n - 1) / 2);
+                if n % 2 == 1 {
+                    lo
+                } else {
+                    (lo + w.select(x, n / 2)) / 2.0
+                }
+            }
+            Statistic::TrimmedMeanDifference => {
+                let g = stats::trim_count(n as usize) as u64;
+                w.rank_sum(x, g, n - g) / (n - 2 * g) as f64
+            }
+            _ => w.sum() / n as f64,
+        }
+    };
+    let f = |wa: &Weights, wb: &Weights| -> [f64; 3] {
+        let (sa, sb) = (wa.sum(), wb.sum());
+        let va = ((wa.sum_sq() - sa * sa / na) / (na - 1.0)).max(0.0);
+        let vb = ((wb.sum_sq() - sb * sb / nb) / (nb - 1.0)).max(0.0);
+        let mean_diff = (ma - mb) + (sa / na - sb / nb);
+        let e = match kind {
+            Statistic::MeanDifference => mean_diff,
+            _ => (ma + centre(wa, &xa)) - (mb + centre(wb, &xb)),
+        };
+        let t = if studentize {
+            let se = (va / na + vb / nb).sqrt();
+            if se > 0.0 && se.is_finite() {
+                (e - effect) / se
+            } else {
+                f64::NAN
+            }
+        } else {
+            f64::NAN
+        };
+        let sp = (((na - 1.0) * va + (nb - 1.0) * vb) / df).sqrt();
+        [e, t, mean_diff / sp * j]
+    };
+    let [e, t, g] = large_boot::resample_two(&xa, &xb, seed, total, progress, &f)?;
+    let t = if studentize { t } else { Vec::new() };
+    Ok((vec![e, g], vec![t, Vec::new()]))
+}
+
 fn two_group_report(
     req: &TwoGroupsRequest,
     g: TwoGroups,
@@ -250,7 +324,8 @@ fn two_group_report(
     super::check_work(a.len() + b.len(), 1, set)?;
     let mut notes = g.notes.clone();
     let st = req.statistic;
-    let setup = Setup::new(st, a, b);
+    let setup = Setup::for_run(st, a, b, set.kernels, set.exact_limit);
+    let streaming_null = setup.is_streaming();
     let stop = set.stop(set.alternative, setup.observed, setup.tolerance);
     let null = null_distribution(
         &setup,
@@ -262,7 +337,8 @@ fn two_group_report(
     )?;
     drop(setup); // its pooled copy of the values, before the bootstrap
     let observed = perm::statistic_value(st, a, b);
-    let test = TestOutcome::from_null(&null, set.alternative, set.two_sided, observed, set.seed);
+    let mut test =
+        TestOutcome::from_null(&null, set.alternative, set.two_sided, observed, set.seed);
 
     // Bootstrap, within each group: the effect and Hedges' g from the same resamples.
     let effect = perm::statistic_value(st.effect(), a, b);
@@ -286,7 +362,16 @@ fn two_group_report(
         se: boot::SeMethod::None,
     };
     let total_b = set.bootstrap_resamples;
-    let (values, tvals) = resample(&design, &[effect_stat, g_stat], set.seed, total_b, progress)?;
+    // Generation 2 bootstraps large groups by counts, except a studentized interval of a
+    // median or trimmed-mean difference (its standard error needs the values themselves).
+    let streaming_boot = set.kernels >= 2
+        && a.len() + b.len() >= LARGE
+        && !(studentize && st.effect() != Statistic::MeanDifference);
+    let (values, tvals) = if streaming_boot {
+        streaming_bootstrap(st, a, b, effect, set.seed, total_b, studentize, progress)?
+    } else {
+        resample(&design, &[effect_stat, g_stat], set.seed, total_b, progress)?
+    };
     let (boot_effect, boot_g) = (&values[0], &values[1]);
     let se_hat = match effect_stat.se {
         boot::SeMethod::Formula(f) => f(&mut a.clone(), &mut b.clone()),
@@ -351,6 +436,14 @@ fn two_group_report(
         });
     }
     super::few_resamples_note(set, &mut notes);
+    if streaming_null || streaming_boot {
+        test.rng = crate::resample::rng::RNG_NAME_LARGE.into();
+        notes.push(Note::StreamingKernels {
+            values: a.len() + b.len(),
+            relabelling: streaming_null,
+            bootstrap: streaming_boot,
+        });
+    }
     let groups_out = vec![
         group_summary(&g.names[0], a, g.shift),
         group_summary(&g.names[1], b, g.shift),

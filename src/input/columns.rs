@@ -99,16 +99,21 @@ pub fn detect_layout(table: &Table) -> Result<Layout, Error> {
 /// first appearance.
 pub struct Labelled {
     pub levels: Vec<String>,
-    /// (row index in the table, level index, value) for every row with both.
-    pub rows: Vec<(usize, usize, f64)>,
+    /// (row index in the table, level index, value) for every row with both (16 bytes a
+    /// row: tables hold at most 2^32 rows).
+    pub rows: Vec<(u32, u32, f64)>,
 }
 
 impl Labelled {
-    /// The values of each level, in level order.
+    /// The values of each level, in level order (each list made at its final size).
     pub fn by_level(&self) -> Vec<Vec<f64>> {
-        let mut out = vec![Vec::new(); self.levels.len()];
+        let mut sizes = vec![0usize; self.levels.len()];
+        for &(_, l, _) in &self.rows {
+            sizes[l as usize] += 1;
+        }
+        let mut out: Vec<Vec<f64>> = sizes.into_iter().map(Vec::with_capacity).collect();
         for &(_, l, v) in &self.rows {
-            out[l].push(v);
+            out[l as usize].push(v);
         }
         out
     }
@@ -142,19 +147,23 @@ pub fn labelled_values(
     // Label → its index, so that thousands of labels are found in linear time.
     let mut index: std::collections::HashMap<&str, usize> = std::collections::HashMap::new();
     let mut unlabelled: Vec<u64> = Vec::new();
-    let mut rows = Vec::new();
-    for &(i, v) in &nums.values {
-        let label = gcol.cell(i).text.trim();
-        if label.is_empty() || table::is_spreadsheet_error(label) {
-            unlabelled.push(gcol.cell(i).line);
-            continue;
-        }
-        let li = *index.entry(label).or_insert_with(|| {
-            levels.push(label.to_string());
-            levels.len() - 1
-        });
-        rows.push((i, li, v));
-    }
+    // Made in the numbers' own memory (an in-place collect: same size and alignment).
+    let rows: Vec<(u32, u32, f64)> = nums
+        .values
+        .into_iter()
+        .filter_map(|(i, v)| {
+            let label = gcol.cell(i).text.trim();
+            if label.is_empty() || table::is_spreadsheet_error(label) {
+                unlabelled.push(gcol.cell(i).line);
+                return None;
+            }
+            let li = *index.entry(label).or_insert_with(|| {
+                levels.push(label.to_string());
+                levels.len() - 1
+            });
+            Some((i as u32, li as u32, v))
+        })
+        .collect();
     if !unlabelled.is_empty() {
         notes.push(Note::Unlabelled {
             column: group.to_string(),
@@ -168,6 +177,91 @@ pub fn labelled_values(
         ));
     }
     Ok(Labelled { levels, rows })
+}
+
+/// The values of a numeric column split by the label column (long format), as
+/// [`labelled_values`] reads them but straight into one list per level, each made at its
+/// final size (no list of rows: 8 bytes a value, for large tables); the levels in order of
+/// first appearance.
+pub fn labelled_groups(
+    table: &Table,
+    value: &str,
+    group: &str,
+    notes: &mut Vec<Note>,
+) -> Result<(Vec<String>, Vec<Vec<f64>>), Error> {
+    if value == group {
+        return labelled_values(table, value, group, notes).map(|l| (l.levels, Vec::new()));
+    }
+    let vcol = table.column(value)?;
+    let gcol = table.column(group)?;
+    let mut levels: Vec<String> = Vec::new();
+    let mut index: std::collections::HashMap<&str, usize> = std::collections::HashMap::new();
+    // Row → level (u32::MAX: no label), and the rows of each level, from the label column.
+    let mut level_of: Vec<u32> = Vec::with_capacity(gcol.len());
+    let mut sizes: Vec<usize> = Vec::new();
+    for c in gcol.cells() {
+        let label = c.text.trim();
+        if label.is_empty() || table::is_spreadsheet_error(label) {
+            level_of.push(u32::MAX);
+            continue;
+        }
+        let li = *index.entry(label).or_insert_with(|| {
+            levels.push(label.to_string());
+            sizes.push(0);
+            levels.len() - 1
+        });
+        sizes[li] += 1;
+        level_of.push(li as u32);
+    }
+    let mut out: Vec<Vec<f64>> = sizes.iter().map(|&n| Vec::with_capacity(n)).collect();
+    // The first row of each level that holds a value: the levels' order.
+    let mut first_row = vec![usize::MAX; levels.len()];
+    let mut unlabelled: Vec<u64> = Vec::new();
+    let mut unlabelled_count = 0usize;
+    let nums = vcol.numbers_each(table.decimal_comma, &mut |i, v| match level_of[i] {
+        u32::MAX => {
+            unlabelled_count += 1;
+            if unlabelled.len() < 5 {
+                unlabelled.push(gcol.cell(i).line);
+            }
+        }
+        li => {
+            let li = li as usize;
+            first_row[li] = first_row[li].min(i);
+            out[li].push(v);
+        }
+    })?;
+    drop(level_of);
+    nums.push_notes(value, notes);
+    if nums.decimal_commas > 0 {
+        notes.push(Note::DecimalCommas {
+            column: value.to_string(),
+            count: nums.decimal_commas,
+        });
+    }
+    if unlabelled_count > 0 {
+        notes.push(Note::Unlabelled {
+            column: group.to_string(),
+            count: unlabelled_count,
+            lines: unlabelled,
+        });
+    }
+    // Levels in the order of their first row with a value; a level whose every row lacks a
+    // value is not a group of values.
+    let mut order: Vec<usize> = (0..levels.len())
+        .filter(|&l| first_row[l] != usize::MAX)
+        .collect();
+    order.sort_by_key(|&l| first_row[l]);
+    let mut named: Vec<Option<String>> = levels.into_iter().map(Some).collect();
+    let mut lists: Vec<Option<Vec<f64>>> = out.into_iter().map(Some).collect();
+    let levels: Vec<String> = order.iter().filter_map(|&l| named[l].take()).collect();
+    let out: Vec<Vec<f64>> = order.iter().filter_map(|&l| lists[l].take()).collect();
+    if levels.is_empty() {
+        return err(format!(
+            "Column \"{group}\" has no group labels next to the values in \"{value}\"."
+        ));
+    }
+    Ok((levels, out))
 }
 
 /// Reads one column per group (wide format), noting blank cells inside a column and
@@ -243,8 +337,8 @@ pub fn two_groups(
     let (names, a, b, value_label) = match &layout {
         Layout::Detect => unreachable!("resolved above"),
         Layout::Long { value, group } => {
-            let lab = labelled_values(table, value, group, &mut notes)?;
-            let levels = &lab.levels;
+            let (levels, mut by) = labelled_groups(table, value, group, &mut notes)?;
+            let levels = &levels;
             let (first, second) = match levels.len() {
                 1 => {
                     return err(format!(
@@ -300,7 +394,6 @@ pub fn two_groups(
                     }
                 },
             };
-            let mut by = lab.by_level();
             let b = std::mem::take(&mut by[second]);
             let a = std::mem::take(&mut by[first]);
             (
@@ -338,8 +431,9 @@ pub fn two_groups(
             (ordered, a, b, "value".to_string())
         }
     };
-    check_sizes(&names, &[a.clone(), b.clone()])?;
-    let (mut a, mut b) = (a, b);
+    let ab = [a, b];
+    check_sizes(&names, &ab)?;
+    let [mut a, mut b] = ab;
     let shift = shift_values(&mut [&mut a, &mut b], &mut notes);
     Ok(TwoGroups {
         names,
@@ -386,9 +480,8 @@ pub fn k_groups(table: &Table, layout: &Layout) -> Result<KGroups, Error> {
     let (names, values, value_label) = match &layout {
         Layout::Detect => unreachable!("resolved above"),
         Layout::Long { value, group } => {
-            let lab = labelled_values(table, value, group, &mut notes)?;
-            let values = lab.by_level();
-            (lab.levels, values, value.clone())
+            let (levels, values) = labelled_groups(table, value, group, &mut notes)?;
+            (levels, values, value.clone())
         }
         Layout::Wide { columns } => {
             let values = wide_values(table, columns, &mut notes)?;
@@ -514,6 +607,27 @@ pub(crate) fn paired_columns(
 mod tests {
     use super::*;
     use crate::input::table::{parse, HeaderChoice};
+
+    /// The per-level reader gives what the row list gives (levels in the order of their first
+    /// row with a value, values in row order, the same notes), on a table where a level's
+    /// first row has no value, rows lack labels, a cell holds a spreadsheet error and a
+    /// level has no value at all.
+    #[test]
+    fn per_level_reading_equals_the_row_list() {
+        let text = "y,g\n,B\n1.5,A\n2.5,\n3.5,B\n#N/A,C\n4.5,A\n5.5,#N/A\n6.5,B\n,D\n";
+        let t = parse(text, HeaderChoice::Detect).unwrap();
+        let (mut n1, mut n2) = (Vec::new(), Vec::new());
+        let lab = labelled_values(&t, "y", "g", &mut n1).unwrap();
+        let (levels, by) = labelled_groups(&t, "y", "g", &mut n2).unwrap();
+        assert_eq!(levels, lab.levels);
+        assert_eq!(levels, vec!["A".to_string(), "B".to_string()]);
+        assert_eq!(by, lab.by_level());
+        assert_eq!(by, vec![vec![1.5, 4.5], vec![3.5, 6.5]]);
+        assert_eq!(n2, n1);
+        assert!(n1
+            .iter()
+            .any(|n| matches!(n, Note::Unlabelled { count: 2, .. })));
+    }
 
     /// What the two-group design asks of a table when the user picked nothing.
     struct Ask {

@@ -28,14 +28,14 @@ pub struct Cell<'a> {
 }
 
 /// A column: its cells' text end to end, where each ends, and the line of each row (shared
-/// by the table's columns), about 4 bytes per cell beyond its text.
+/// by the table's columns, 32 bits each), about 4 bytes per cell beyond its text.
 #[derive(Clone, Debug)]
 pub struct Column {
     pub name: String,
     pub kind: ColumnKind,
     text: String,
     ends: Vec<u32>,
-    lines: std::sync::Arc<[u64]>,
+    lines: std::sync::Arc<Vec<u32>>,
 }
 
 impl Column {
@@ -54,7 +54,7 @@ impl Column {
         let start = if i == 0 { 0 } else { self.ends[i - 1] as usize };
         Cell {
             text: &self.text[start..self.ends[i] as usize],
-            line: self.lines[i],
+            line: u64::from(self.lines[i]),
         }
     }
 
@@ -355,7 +355,7 @@ pub fn delimiter_name(d: u8) -> &'static str {
 #[derive(Default)]
 struct Body {
     columns: Vec<(String, Vec<u32>)>,
-    lines: Vec<u64>,
+    lines: Vec<u32>,
 }
 
 impl Body {
@@ -385,7 +385,9 @@ impl Body {
         for (text, ends) in &mut self.columns[n..] {
             ends.push(text.len() as u32);
         }
-        self.lines.push(line);
+        // A line number beyond 32 bits means more than 4 GiB of text.
+        self.lines
+            .push(u32::try_from(line).map_err(|_| too_large())?);
         Ok(())
     }
 }
@@ -476,7 +478,8 @@ pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, Error> {
         names.push(name);
     }
     let rows = body.lines.len();
-    let lines: std::sync::Arc<[u64]> = body.lines.into();
+    // Shared by the columns without a copy.
+    let lines = std::sync::Arc::new(body.lines);
     let mut columns: Vec<Column> = names
         .into_iter()
         .zip(body.columns)
@@ -654,6 +657,18 @@ impl Column {
     /// Reads every cell as a number; a cell holding text is an error that names it.
     pub fn numbers(&self, decimal_comma: bool) -> Result<NumericColumn, Error> {
         let mut values = Vec::with_capacity(self.len());
+        let mut nums = self.numbers_each(decimal_comma, &mut |i, v| values.push((i, v)))?;
+        nums.values = values;
+        Ok(nums)
+    }
+
+    /// [`Column::numbers`] handing each (row, value) to `each` instead of keeping them (the
+    /// result's `values` is empty), for callers that sort the values as they come.
+    pub fn numbers_each(
+        &self,
+        decimal_comma: bool,
+        each: &mut dyn FnMut(usize, f64),
+    ) -> Result<NumericColumn, Error> {
         let mut missing = 0;
         let mut decimal_commas = 0;
         let (mut spreadsheet_errors, mut spreadsheet_error_cells) = (0, Vec::new());
@@ -687,7 +702,7 @@ impl Column {
                             too_precise_first = Some((c.line, brief(c.text.trim())));
                         }
                     }
-                    values.push((i, v))
+                    each(i, v)
                 }
                 Value::Missing => {
                     missing += 1;
@@ -735,7 +750,7 @@ impl Column {
             .in_column(self.name.clone()));
         }
         Ok(NumericColumn {
-            values,
+            values: Vec::new(),
             missing,
             decimal_commas,
             spreadsheet_errors,

@@ -197,6 +197,34 @@ pub fn note(n: &Note) -> String {
             statistic.replace('-', " "),
             fmt::fixed(*value, 2)
         ),
+        Note::StreamingKernels {
+            values,
+            relabelling,
+            bootstrap,
+        } => {
+            let mut parts = Vec::new();
+            if *relabelling {
+                parts.push(
+                    "each random relabelling put every value in the first group with one fixed \
+                     probability and then moved a few values chosen uniformly at random until \
+                     the group had its size",
+                );
+            }
+            if *bootstrap {
+                parts.push(
+                    "each bootstrap resample gave every value a Poisson(1) count and then added \
+                     or removed a few draws chosen uniformly at random until the group had its \
+                     size",
+                );
+            }
+            format!(
+                "With {} values, the streaming kernels for large samples were used: {}. These \
+                 give exactly uniform relabellings and exact bootstrap resamples, drawn in a \
+                 different way from the kernels for small samples.",
+                fmt::count(*values as u64),
+                parts.join("; ")
+            )
+        }
         Note::KeptValuesCapped { kept } => format!(
             "Only the first {} relabelled statistics are kept for download.",
             fmt::count(*kept)

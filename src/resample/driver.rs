@@ -216,17 +216,41 @@ pub fn random_range(
     progress: ProgressFn,
     block: RandomBlock,
 ) -> Result<(Counts, Vec<f64>, Option<Ended>), Error> {
+    random_range_in(
+        rng::BLOCK,
+        seed,
+        total,
+        blocks,
+        stop,
+        stage,
+        progress,
+        block,
+    )
+}
+
+/// [`random_range`] in blocks of `size` relabellings (a divisor of [`rng::BLOCK`]); the
+/// settling checks still come after every [`rng::BLOCK`] relabellings of the run.
+#[allow(clippy::too_many_arguments)]
+pub fn random_range_in(
+    size: u64,
+    seed: u64,
+    total: u64,
+    blocks: std::ops::Range<u64>,
+    stop: Option<Stop>,
+    stage: Stage,
+    progress: ProgressFn,
+    block: RandomBlock,
+) -> Result<(Counts, Vec<f64>, Option<Ended>), Error> {
+    debug_assert!(size > 0 && rng::BLOCK % size == 0);
     let mut counts = Counts::default();
-    let len = (blocks.end - blocks.start)
-        .saturating_mul(rng::BLOCK)
-        .min(total);
+    let len = (blocks.end - blocks.start).saturating_mul(size).min(total);
     let mut values = Vec::with_capacity(len.min(MAX_KEPT as u64) as usize);
     let first = blocks.start;
     let streams = rng::streams_for(seed, rng::Purpose::Permutation, first, blocks.end - first);
     let work = |i: u64| {
         block(
             streams[i as usize].clone(),
-            rng::block_len(total, first + i),
+            rng::block_len_of(total, first + i, size),
         )
     };
     let mut ended = None;
@@ -252,8 +276,9 @@ pub fn random_range(
             }
         }
         if let Some((st, level)) = stop.and_then(|st| st.settle.map(|l| (st, l))) {
-            if ended.is_none() && counts.total < total {
-                let check = first + i + 1;
+            let drawn = ((first + i + 1) * size).min(total);
+            if ended.is_none() && counts.total < total && drawn % rng::BLOCK == 0 {
+                let check = drawn / rng::BLOCK;
                 if let Some(side) = settle_check(st.extreme(&counts), counts.total, level, check) {
                     ended = Some(Ended::Settled(side));
                 }
@@ -289,6 +314,9 @@ pub struct Relabelling {
     pub stage: Stage,
     /// A sequential stop for the random relabellings (none: draw all of them).
     pub stop: Option<Stop>,
+    /// Random relabellings per block ([`rng::BLOCK`], or [`rng::LARGE_BLOCK`] for the
+    /// streaming kernels).
+    pub block: u64,
 }
 
 /// A null distribution: the counts and statistics of the relabellings, whether they are all
@@ -331,10 +359,11 @@ impl Relabelling {
             })
         } else {
             let total = self.resamples;
-            let (counts, values, ended) = random_range(
+            let (counts, values, ended) = random_range_in(
+                self.block,
                 self.seed,
                 total,
-                0..rng::block_count(total),
+                0..rng::block_count_of(total, self.block),
                 self.stop,
                 self.stage.clone(),
                 progress,

@@ -6,6 +6,8 @@ pub mod boot;
 pub mod combin;
 pub mod driver;
 pub mod k_groups;
+pub mod large;
+pub mod large_boot;
 pub mod pairings;
 pub mod parallel;
 pub mod rng;

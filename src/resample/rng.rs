@@ -28,6 +28,11 @@ pub const BLOCK: u64 = 4096;
 /// Human-readable description of the generator, reported with every result.
 pub const RNG_NAME: &str = "xoshiro256++ (SplitMix64 seeding, one 2^128 jump per block of 4096)";
 
+/// The same for a run whose streaming kernels for large samples draw in blocks of
+/// [`LARGE_BLOCK`].
+pub const RNG_NAME_LARGE: &str = "xoshiro256++ (SplitMix64 seeding, one 2^128 jump per block \
+     of 4096, or of 64 for the streaming kernels for large samples)";
+
 /// What a stream is used for; each purpose has its own family of streams.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Purpose {
@@ -153,12 +158,26 @@ pub fn streams_for(seed: u64, purpose: Purpose, first: u64, count: u64) -> Vec<S
 }
 
 pub fn block_count(total: u64) -> u64 {
-    total.div_ceil(BLOCK)
+    block_count_of(total, BLOCK)
 }
 
 pub fn block_len(total: u64, b: u64) -> u64 {
-    let start = b * BLOCK;
-    BLOCK.min(total.saturating_sub(start))
+    block_len_of(total, b, BLOCK)
+}
+
+/// Resamples per block of the streaming kernels for large samples (kernel generation 2):
+/// each of their resamples costs milliseconds, so smaller blocks keep every core busy and
+/// progress frequent.
+pub const LARGE_BLOCK: u64 = 64;
+
+/// [`block_count`] for blocks of `size` resamples.
+pub fn block_count_of(total: u64, size: u64) -> u64 {
+    total.div_ceil(size)
+}
+
+/// [`block_len`] for blocks of `size` resamples.
+pub fn block_len_of(total: u64, b: u64, size: u64) -> u64 {
+    size.min(total.saturating_sub(b.saturating_mul(size)))
 }
 
 /// The seed of sub-analysis `index` of a run (a pairwise comparison, say): SplitMix64's

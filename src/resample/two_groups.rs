@@ -14,6 +14,7 @@ use crate::base::{Error, ProgressFn, Stage};
 use crate::num::stats;
 use crate::resample::combin::{choose, RevolvingDoor};
 use crate::resample::driver;
+use crate::resample::large::{self, Splitter, Subset};
 #[cfg(test)]
 use crate::resample::rng::Purpose;
 use crate::resample::rng::{self, Stream};
@@ -89,9 +90,153 @@ pub struct Setup {
     pub observed: f64,
     /// Absolute tolerance for ties.
     pub tolerance: f64,
+    /// The streaming kernel for large pools (kernel generation 2), when it is used.
+    large: Option<Large>,
+}
+
+/// What the streaming relabelling of a large pool needs: the splitter and, for the trimmed
+/// mean, the sum of the pooled values of every word of 64.
+#[derive(Clone, Debug)]
+struct Large {
+    split: Splitter,
+    totals: Vec<f64>,
 }
 
 impl Setup {
+    /// The setup a run of kernel generation `kernels` uses: from generation 2 on, random
+    /// relabellings of a pool of at least [`large::LARGE`] values (too many splits to list
+    /// within `exact_limit`) stream through it ([`large`]); otherwise as [`Setup::new`].
+    pub fn for_run(
+        statistic: Statistic,
+        a: &[f64],
+        b: &[f64],
+        kernels: u32,
+        exact_limit: u64,
+    ) -> Setup {
+        let n = a.len() + b.len();
+        let k = a.len().min(b.len()) as u64;
+        if kernels >= 2 && n >= large::LARGE && choose(n as u64, k) > exact_limit {
+            Setup::streaming(statistic, a, b)
+        } else {
+            Setup::new(statistic, a, b)
+        }
+    }
+
+    /// A large pool for the streaming kernel: each group is centred and sorted on its own and
+    /// the two merged (the pool in sorted order, the observed groups as a bit set), so no
+    /// tagged copy or list of positions is made.
+    fn streaming(statistic: Statistic, a: &[f64], b: &[f64]) -> Setup {
+        let (n1, n2) = (a.len(), b.len());
+        let n = n1 + n2;
+        let centre = (a.iter().sum::<f64>() + b.iter().sum::<f64>()) / n as f64;
+        let prep = |x: &[f64]| {
+            let mut v: Vec<f64> = x.iter().map(|v| v - centre).collect();
+            v.sort_by(f64::total_cmp);
+            v
+        };
+        let (sa, sb) = (prep(a), prep(b));
+        let drawn_is_first = n1 <= n2;
+        let k = n1.min(n2);
+        let mut pool = Vec::with_capacity(n);
+        let mut first = Vec::with_capacity(n.div_ceil(64));
+        let (mut i, mut j) = (0, 0);
+        let mut word = 0u64;
+        while i < n1 || j < n2 {
+            let take_a = j >= n2 || (i < n1 && sa[i].total_cmp(&sb[j]).is_le());
+            let pos = pool.len();
+            if take_a {
+                pool.push(sa[i]);
+                i += 1;
+            } else {
+                pool.push(sb[j]);
+                j += 1;
+            }
+            word |= u64::from(take_a == drawn_is_first) << (pos % 64);
+            if pos % 64 == 63 {
+                first.push(word);
+                word = 0;
+            }
+        }
+        if n % 64 != 0 {
+            first.push(word);
+        }
+        drop((sa, sb));
+        let total = pool.iter().sum();
+        let total_sq = pool.iter().map(|v| v * v).sum();
+        let spread = pool.iter().fold(0.0f64, |m, v| m.max(v.abs()));
+        let totals = pool.chunks(64).map(|c| c.iter().sum()).collect();
+        let mut s = Setup {
+            statistic,
+            pool,
+            n1,
+            n2,
+            k,
+            drawn_is_first,
+            total,
+            total_sq,
+            observed_set: Vec::new(),
+            observed: 0.0,
+            tolerance: 0.0,
+            large: Some(Large {
+                split: Splitter::new(n, k),
+                totals,
+            }),
+        };
+        let observed = Subset::from_members(
+            &s.pool,
+            |p| (first[p / 64] >> (p % 64)) & 1 == 1,
+            statistic == Statistic::WelchT,
+        );
+        s.observed = s.stat_from_subset(&observed);
+        // Sums here run over every value of the pool (members and not), in words.
+        s.tolerance = match statistic {
+            Statistic::WelchT => TIE_TOLERANCE * 1.0f64.max(s.observed.abs()),
+            _ => sum_tolerance(spread, n, 1.0 / n1 as f64 + 1.0 / n2 as f64),
+        };
+        s
+    }
+
+    /// The statistic of a relabelling held as a [`Subset`] of the pool (the drawn group).
+    fn stat_from_subset(&self, sub: &Subset) -> f64 {
+        let Some(lg) = &self.large else {
+            return f64::NAN;
+        };
+        let n = self.pool.len();
+        let (n1, n2) = (self.n1, self.n2);
+        // Group 1 is the members when the drawn group is the first.
+        let first = self.drawn_is_first;
+        match self.statistic {
+            Statistic::MeanDifference | Statistic::WelchT => {
+                self.stat_from_sums(sub.sum(), sub.sum_sq())
+            }
+            Statistic::MedianDifference => {
+                let med = |size: usize, members: bool| {
+                    let (lo, hi) = ((size - 1) / 2, size / 2);
+                    let v = self.pool[sub.select(n, lo, members)];
+                    if hi == lo {
+                        v
+                    } else {
+                        (v + self.pool[sub.select(n, hi, members)]) / 2.0
+                    }
+                };
+                med(n1, first) - med(n2, !first)
+            }
+            Statistic::TrimmedMeanDifference => {
+                let tm = |size: usize, members: bool| {
+                    let g = stats::trim_count(size);
+                    sub.rank_sum(&self.pool, &lg.totals, g, size - g, members)
+                        / (size - 2 * g) as f64
+                };
+                tm(n1, first) - tm(n2, !first)
+            }
+        }
+    }
+
+    /// Whether random relabellings stream through the pool (kernel generation 2, large).
+    pub fn is_streaming(&self) -> bool {
+        self.large.is_some()
+    }
+
     pub fn new(statistic: Statistic, a: &[f64], b: &[f64]) -> Setup {
         let (n1, n2) = (a.len(), b.len());
         let n = n1 + n2;
@@ -127,6 +272,7 @@ impl Setup {
             observed_set,
             observed: 0.0,
             tolerance: 0.0,
+            large: None,
         };
         let mut mask = vec![false; n];
         for &i in &s.observed_set {
@@ -242,6 +388,16 @@ impl Setup {
         let mut counts = Counts::default();
         let mut values = Vec::with_capacity(len as usize);
         let (obs, tol) = (self.observed, self.tolerance);
+        if let Some(lg) = &self.large {
+            let mut sub = Subset::new(n, self.statistic == Statistic::WelchT);
+            for _ in 0..len {
+                lg.split.draw(&self.pool, &mut stream, &mut sub);
+                let t = self.stat_from_subset(&sub);
+                counts.record(t, obs, tol);
+                values.push(t);
+            }
+            return (counts, values);
+        }
         if self.is_sum_based() {
             // Shuffle the values themselves and sum the drawn part as it is drawn.
             let mut vals = self.pool.clone();
@@ -415,6 +571,11 @@ pub fn null_distribution(
         seed,
         stage: Stage::Relabelling,
         stop,
+        block: if setup.is_streaming() {
+            rng::LARGE_BLOCK
+        } else {
+            rng::BLOCK
+        },
     }
     .run(
         progress,
@@ -475,6 +636,47 @@ mod tests {
             brute.sort_by(f64::total_cmp);
             for (x, y) in values.iter().zip(&brute) {
                 assert!((x - y).abs() < 1e-9, "{st:?}: {x} vs {y}");
+            }
+        }
+    }
+
+    /// The streaming kernel's statistic of each relabelling equals the statistic computed
+    /// directly from the two groups the relabelling forms, for every statistic, with the
+    /// groups of unequal size both ways round; the observed one equals the direct value.
+    #[test]
+    fn streaming_statistics_equal_the_direct_values() {
+        let a: Vec<f64> = (0..301)
+            .map(|i| ((i * 37) % 101) as f64 * 0.3 + 2.0)
+            .collect();
+        let b: Vec<f64> = (0..180).map(|i| ((i * 53) % 89) as f64 * 0.25).collect();
+        for st in Statistic::ALL {
+            for (x, y) in [(&a, &b), (&b, &a)] {
+                let s = Setup::streaming(st, x, y);
+                let direct = statistic_value(st, x, y);
+                assert!((s.observed - direct).abs() < 1e-9, "{st:?}: observed");
+                let lg = s.large.as_ref().unwrap();
+                let mut sub = Subset::new(s.pool.len(), st == Statistic::WelchT);
+                let mut stream = Stream::new(4, Purpose::Permutation, 0);
+                for _ in 0..50 {
+                    lg.split.draw(&s.pool, &mut stream, &mut sub);
+                    let drawn: Vec<f64> = (0..s.pool.len())
+                        .filter(|&i| (sub.words[i / 64] >> (i % 64)) & 1 == 1)
+                        .map(|i| s.pool[i])
+                        .collect();
+                    let rest: Vec<f64> = (0..s.pool.len())
+                        .filter(|&i| (sub.words[i / 64] >> (i % 64)) & 1 == 0)
+                        .map(|i| s.pool[i])
+                        .collect();
+                    let (g1, g2) = if s.drawn_is_first {
+                        (&drawn, &rest)
+                    } else {
+                        (&rest, &drawn)
+                    };
+                    assert_eq!((g1.len(), g2.len()), (x.len(), y.len()));
+                    let want = statistic_value(st, g1, g2);
+                    let got = s.stat_from_subset(&sub);
+                    assert!((got - want).abs() < 1e-9, "{st:?}: {got} vs {want}");
+                }
             }
         }
     }

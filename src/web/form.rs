@@ -14,7 +14,7 @@ use crate::designs::plan::{PlanDesign, PlanModel, PlanRequest};
 use crate::designs::stratified::{StrataRequest, StrataWeights};
 use crate::designs::two_groups::{Statistic, TwoGroupsRequest};
 use crate::designs::yes_no::{parse_counts, YesNoInput, YesNoRequest, YesNoStatistic};
-use crate::designs::TestSettings;
+use crate::designs::{TestSettings, KERNELS};
 use crate::input::columns::{self, Layout};
 use crate::input::suggest::Suggestion;
 use crate::input::table::{ColumnKind, HeaderChoice};
@@ -58,6 +58,14 @@ pub const EXAMPLES: [(&str, &str, &str); 5] = [
     ),
 ];
 
+/// A 64-bit fingerprint of a data text (FNV-1a over its bytes), to tell whether the data
+/// box still holds what a restored job came with.
+pub fn fingerprint(text: &str) -> u64 {
+    text.bytes().fold(0xcbf2_9ce4_8422_2325, |h, b| {
+        (h ^ u64::from(b)).wrapping_mul(0x0000_0100_0000_01b3)
+    })
+}
+
 /// Every field of the form.
 #[derive(Clone, Copy)]
 pub struct Form {
@@ -89,6 +97,10 @@ pub struct Form {
     /// large-table default leaves them alone.
     pub stop_set: RwSignal<bool>,
     pub bootstrap: RwSignal<String>,
+    /// The kernel generation of a restored job made before the newest ([`KERNELS`]), with a
+    /// fingerprint of the data it came with: the job keeps that generation (and so its
+    /// numbers) while those data stay in the data box.
+    pub old_kernels: RwSignal<Option<(u32, u64)>>,
     pub confidence: RwSignal<String>,
     pub interval_choice: RwSignal<String>,
     pub seed: RwSignal<String>,
@@ -290,6 +302,7 @@ impl Form {
             settle_at: text(""),
             stop_set: RwSignal::new(false),
             bootstrap: text(&d.bootstrap_resamples.to_string()),
+            old_kernels: RwSignal::new(None),
             confidence: text(&percent_text(d.confidence)),
             interval_choice: text("bca"),
             seed: text(""),
@@ -452,6 +465,10 @@ impl Form {
         s.confidence = share("Confidence level", &self.confidence.get_untracked())?;
         s.intervals = methods_from(&self.interval_choice.get_untracked());
         s.keep_resamples = true;
+        s.kernels = match self.old_kernels.get_untracked() {
+            Some((k, print)) if self.data.with_untracked(|d| fingerprint(d)) == print => k,
+            _ => KERNELS,
+        };
         Ok(s)
     }
 

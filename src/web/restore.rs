@@ -57,6 +57,14 @@ impl Form {
             .set(st.settle_at.map(|v| v.to_string()).unwrap_or_default());
         self.stop_set.set(true);
         self.bootstrap.set(st.bootstrap_resamples.to_string());
+        // Called after the data are restored: an older job keeps its kernels with them.
+        self.old_kernels
+            .set((st.kernels != crate::designs::KERNELS).then(|| {
+                (
+                    st.kernels,
+                    self.data.with_untracked(|d| super::form::fingerprint(d)),
+                )
+            }));
         self.confidence.set(percent_text(st.confidence));
         self.seed.set(st.seed.to_string());
         self.mode.set("compare".into());

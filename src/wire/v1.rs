@@ -63,6 +63,8 @@ impl Settings1 {
             keep_resamples: false,
             stop_after: None,
             settle_at: None,
+            // Format 1 predates generation 2 of the kernels.
+            kernels: 1,
         }
     }
 }
@@ -279,6 +281,7 @@ fn settings(
         keep_resamples,
         stop_after: None,
         settle_at: None,
+        kernels: 1,
     }
 }
 
