@@ -392,8 +392,44 @@ impl Body {
     }
 }
 
+thread_local! {
+    /// Whether [`parse`] keeps the last table it read, and the table: (fingerprint and length
+    /// of the text, header choice, table).
+    static KEEP_LAST: std::cell::Cell<bool> = const { std::cell::Cell::new(false) };
+    static LAST: std::cell::RefCell<Option<(u64, usize, HeaderChoice, Table)>> =
+        const { std::cell::RefCell::new(None) };
+}
+
+/// Makes [`parse`] keep the last table it read and hand out a copy when asked for the same
+/// text again (a worker that runs one job several times, in a run shared among workers);
+/// off: forgets it.
+pub fn keep_last_table(on: bool) {
+    KEEP_LAST.with(|k| k.set(on));
+    if !on {
+        LAST.with(|l| *l.borrow_mut() = None);
+    }
+}
+
 /// Parses pasted or dropped text into a table.
 pub fn parse(text: &str, header: HeaderChoice) -> Result<Table, Error> {
+    if !KEEP_LAST.with(|k| k.get()) {
+        return parse_text(text, header);
+    }
+    let print = crate::input::text::fingerprint(text);
+    let kept = LAST.with(|l| {
+        l.borrow().as_ref().and_then(|(p, len, h, t)| {
+            (*p == print && *len == text.len() && *h == header).then(|| t.clone())
+        })
+    });
+    if let Some(t) = kept {
+        return Ok(t);
+    }
+    let table = parse_text(text, header)?;
+    LAST.with(|l| *l.borrow_mut() = Some((print, text.len(), header, table.clone())));
+    Ok(table)
+}
+
+fn parse_text(text: &str, header: HeaderChoice) -> Result<Table, Error> {
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     if text.trim().is_empty() {
         return Err(Error::new(

@@ -62,6 +62,14 @@ fn utf16(bytes: &[u8], name: &str, unit: fn([u8; 2]) -> u16) -> Result<String, E
     Ok(out)
 }
 
+/// A 64-bit fingerprint of a text (FNV-1a over its bytes): to tell cheaply whether a text is
+/// the one seen before (not a check against tampering; links use SHA-256 for that).
+pub fn fingerprint(text: &str) -> u64 {
+    text.bytes().fold(0xcbf2_9ce4_8422_2325, |h, b| {
+        (h ^ u64::from(b)).wrapping_mul(0x0000_0100_0000_01b3)
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

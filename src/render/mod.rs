@@ -33,6 +33,16 @@ pub fn add_threads(doc: &mut Doc, threads: usize) {
     ));
 }
 
+/// Adds to the methods paragraph how many web workers of the page computed the run, and
+/// that the numbers do not depend on it.
+pub fn add_workers(doc: &mut Doc, workers: usize) {
+    doc.methods.push_str(&format!(
+        " It ran in {} web worker{} of the browser tab; the numbers are the same for any number.",
+        workers,
+        if workers == 1 { "" } else { "s" }
+    ));
+}
+
 /// The report as a document, dated `date` (YYYY-MM-DD) in its methods paragraph.
 pub fn document(report: &Report, date: &str) -> Doc {
     match report {

@@ -8,6 +8,7 @@ use crate::num::normal;
 use crate::num::stats;
 use crate::resample::parallel;
 use crate::resample::rng::{self, Stream};
+use crate::resample::share::{Portable, Rounds};
 
 /// A statistic of one or two samples. For one sample the second slice is empty; for pairs
 /// the two slices are aligned. The slices may be reordered.
@@ -153,6 +154,19 @@ pub const NESTED: usize = 50;
 pub struct BlockOut {
     pub values: Vec<Vec<f64>>,
     pub t: Vec<Vec<f64>>,
+}
+
+impl Portable for BlockOut {
+    fn put(&self, out: &mut Vec<u8>) {
+        self.values.put(out);
+        self.t.put(out);
+    }
+    fn get(input: &mut &[u8]) -> Option<BlockOut> {
+        Some(BlockOut {
+            values: Portable::get(input)?,
+            t: Portable::get(input)?,
+        })
+    }
 }
 
 pub fn block(design: &Design, stats_: &[Stat], mut stream: Stream, len: u64) -> BlockOut {
@@ -531,19 +545,31 @@ pub fn resample(
             rng::block_len(total, b),
         )
     };
-    let finished = parallel::in_order(rng::block_count(total), &work, &mut |b, out| {
-        for (k, (v, t)) in out.values.into_iter().zip(out.t).enumerate() {
-            values[k].extend(v);
-            tvals[k].extend(t);
-        }
-        done += rng::block_len(total, b);
-        progress(&Progress {
-            stage: Stage::Bootstrap,
-            done,
-            total,
-            running: None,
-        })
-    });
+    let described = |blocks: u64| Progress {
+        stage: Stage::Bootstrap,
+        done: (blocks * rng::BLOCK).min(total),
+        total,
+        running: None,
+    };
+    let finished = parallel::in_order(
+        rng::block_count(total),
+        Rounds::All,
+        &work,
+        &mut |b, out| {
+            for (k, (v, t)) in out.values.into_iter().zip(out.t).enumerate() {
+                values[k].extend(v);
+                tvals[k].extend(t);
+            }
+            done += rng::block_len(total, b);
+            progress(&Progress {
+                stage: Stage::Bootstrap,
+                done,
+                total,
+                running: None,
+            })
+        },
+        &described,
+    );
     if !finished {
         return Err(Error::cancelled());
     }

@@ -6,6 +6,7 @@ use serde::{Deserialize, Serialize};
 use crate::base::{Alternative, Error, Progress, ProgressFn, Running, Stage, TwoSidedRule};
 use crate::resample::parallel;
 use crate::resample::rng::{self, Stream};
+use crate::resample::share::Rounds;
 use crate::resample::tally::Counts;
 
 /// The most resampled statistics a report carries.
@@ -254,49 +255,69 @@ pub fn random_range_in(
         )
     };
     let mut ended = None;
-    let finished = parallel::in_order(blocks.end - first, &work, &mut |i, (c, v)| {
-        let count_stop = stop.and_then(|st| st.after.map(|after| (st, after)));
-        match count_stop {
-            Some((st, after)) if st.extreme(&counts) + st.extreme(&c) >= after => {
-                // The relabelling that reaches the count ends the run.
-                for t in v {
-                    counts.record(t, st.observed, st.tolerance);
-                    values.push(t);
-                    if st.extreme(&counts) >= after {
-                        break;
+    // Shared among workers, a run that may stop early goes in rounds of one settling check's
+    // worth of relabellings, doubling.
+    let rounds = match stop.filter(Stop::is_rule) {
+        Some(_) => Rounds::Doubling(rng::BLOCK / size),
+        None => Rounds::All,
+    };
+    let described = |done: u64| Progress {
+        stage: stage.clone(),
+        done: ((first + done) * size).min(total),
+        total,
+        running: None,
+    };
+    let finished = parallel::in_order(
+        blocks.end - first,
+        rounds,
+        &work,
+        &mut |i, (c, v)| {
+            let count_stop = stop.and_then(|st| st.after.map(|after| (st, after)));
+            match count_stop {
+                Some((st, after)) if st.extreme(&counts) + st.extreme(&c) >= after => {
+                    // The relabelling that reaches the count ends the run.
+                    for t in v {
+                        counts.record(t, st.observed, st.tolerance);
+                        values.push(t);
+                        if st.extreme(&counts) >= after {
+                            break;
+                        }
+                    }
+                    if counts.total < total {
+                        ended = Some(Ended::Count);
                     }
                 }
-                if counts.total < total {
-                    ended = Some(Ended::Count);
+                _ => {
+                    counts.add(&c);
+                    values.extend(v);
                 }
             }
-            _ => {
-                counts.add(&c);
-                values.extend(v);
-            }
-        }
-        if let Some((st, level)) = stop.and_then(|st| st.settle.map(|l| (st, l))) {
-            let drawn = ((first + i + 1) * size).min(total);
-            if ended.is_none() && counts.total < total && drawn % rng::BLOCK == 0 {
-                let check = drawn / rng::BLOCK;
-                if let Some(side) = settle_check(st.extreme(&counts), counts.total, level, check) {
-                    ended = Some(Ended::Settled(side));
+            if let Some((st, level)) = stop.and_then(|st| st.settle.map(|l| (st, l))) {
+                let drawn = ((first + i + 1) * size).min(total);
+                if ended.is_none() && counts.total < total && drawn % rng::BLOCK == 0 {
+                    let check = drawn / rng::BLOCK;
+                    if let Some(side) =
+                        settle_check(st.extreme(&counts), counts.total, level, check)
+                    {
+                        ended = Some(Ended::Settled(side));
+                    }
                 }
             }
-        }
-        let go_on = progress(&Progress {
-            stage: stage.clone(),
-            done: counts.total,
-            total,
-            running: stop
-                .filter(|_| counts.total > 0)
-                .map(|st| st.running(&counts)),
-        });
-        if ended.is_some() {
-            return false;
-        }
-        go_on
-    });
+            let go_on = progress(&Progress {
+                stage: stage.clone(),
+                done: counts.total,
+                total,
+                running: stop
+                    .filter(|_| counts.total > 0)
+                    .map(|st| st.running(&counts)),
+            });
+            if ended.is_some() {
+                return false;
+            }
+            go_on
+        },
+        &described,
+    );
     if !finished && ended.is_none() {
         return Err(Error::cancelled());
     }

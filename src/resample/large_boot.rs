@@ -22,6 +22,7 @@
 use crate::base::{Error, Progress, ProgressFn, Stage};
 use crate::resample::parallel;
 use crate::resample::rng::{self, Stream};
+use crate::resample::share::Rounds;
 
 /// F(j) of Poisson(1) for j = 0..=13, times 2^64, rounded down (computed with Python's
 /// decimal module at 60 digits: e^-1 · Σ_{i ≤ j} 1/i!).
@@ -329,20 +330,32 @@ pub fn resample_two<const K: usize>(
             .collect::<Vec<[f64; K]>>()
     };
     let mut done = 0;
-    let finished = parallel::in_order(count, &work, &mut |blk, rows| {
-        for r in rows {
-            for (list, v) in out.iter_mut().zip(r) {
-                list.push(v);
+    let described = |blocks: u64| Progress {
+        stage: Stage::Bootstrap,
+        done: (blocks * size).min(total),
+        total,
+        running: None,
+    };
+    let finished = parallel::in_order(
+        count,
+        Rounds::All,
+        &work,
+        &mut |blk, rows| {
+            for r in rows {
+                for (list, v) in out.iter_mut().zip(r) {
+                    list.push(v);
+                }
             }
-        }
-        done += rng::block_len_of(total, blk, size);
-        progress(&Progress {
-            stage: Stage::Bootstrap,
-            done,
-            total,
-            running: None,
-        })
-    });
+            done += rng::block_len_of(total, blk, size);
+            progress(&Progress {
+                stage: Stage::Bootstrap,
+                done,
+                total,
+                running: None,
+            })
+        },
+        &described,
+    );
     if !finished {
         return Err(Error::cancelled());
     }

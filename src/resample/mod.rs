@@ -11,6 +11,7 @@ pub mod large_boot;
 pub mod pairings;
 pub mod parallel;
 pub mod rng;
+pub mod share;
 pub mod signs;
 pub mod strata;
 pub mod summary;

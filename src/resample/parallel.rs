@@ -8,6 +8,9 @@
 
 use std::sync::atomic::{AtomicBool, AtomicU64, AtomicUsize, Ordering};
 
+use crate::base::Progress;
+use crate::resample::share::{self, Portable, Rounds};
+
 /// Threads asked for: 0 means one per core.
 static THREADS: AtomicUsize = AtomicUsize::new(0);
 
@@ -38,11 +41,20 @@ pub fn threads() -> usize {
 /// hands the results to `each` in block order on the calling thread. `each` returning false
 /// stops the run (the threads finish the block they are on and take no more); then the
 /// result is false.
-pub fn in_order<R: Send>(
+///
+/// In a run shared among workers ([`share`]) the known blocks are replayed instead and this
+/// worker computes its share of the next round of `rounds` (the run then pauses, and the
+/// result is false); `progress(done)` describes the call after `done` blocks.
+pub fn in_order<R: Send + Portable>(
     count: u64,
+    rounds: Rounds,
     work: &(dyn Fn(u64) -> R + Sync),
     each: &mut dyn FnMut(u64, R) -> bool,
+    progress: &dyn Fn(u64) -> Progress,
 ) -> bool {
+    if share::active() {
+        return share::in_order(count, rounds, work, each, progress);
+    }
     let threads = threads().min(count as usize);
     if threads <= 1 {
         return (0..count).all(|b| each(b, work(b)));
@@ -87,6 +99,15 @@ mod tests {
 
     /// Results reach the caller in block order for any number of threads, and a stop takes
     /// effect (the caller sees no block after the one it stopped at).
+    fn no_progress(done: u64) -> Progress {
+        Progress {
+            stage: crate::base::Stage::Relabelling,
+            done,
+            total: 100,
+            running: None,
+        }
+    }
+
     #[test]
     fn blocks_arrive_in_order_and_stop() {
         for t in [1, 2, 3, 8] {
@@ -94,6 +115,7 @@ mod tests {
             let mut seen = Vec::new();
             let all = in_order(
                 100,
+                Rounds::All,
                 &|b| {
                     // Uneven work, so that threads finish out of order.
                     std::thread::sleep(std::time::Duration::from_micros((b * 37 % 11) * 50));
@@ -103,14 +125,21 @@ mod tests {
                     seen.push((b, r));
                     true
                 },
+                &no_progress,
             );
             assert!(all);
             assert_eq!(seen, (0..100).map(|b| (b, b * b)).collect::<Vec<_>>());
             let mut last = 0;
-            let all = in_order(100, &|b| b, &mut |b, _| {
-                last = b;
-                b < 10
-            });
+            let all = in_order(
+                100,
+                Rounds::All,
+                &|b| b,
+                &mut |b, _| {
+                    last = b;
+                    b < 10
+                },
+                &no_progress,
+            );
             assert!(!all);
             assert_eq!(last, 10);
         }

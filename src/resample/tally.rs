@@ -94,6 +94,22 @@ pub struct Counts {
     pub total: u64,
 }
 
+impl crate::resample::share::Portable for Counts {
+    fn put(&self, out: &mut Vec<u8>) {
+        for x in [self.ge, self.le, self.abs_ge, self.total] {
+            x.put(out);
+        }
+    }
+    fn get(input: &mut &[u8]) -> Option<Counts> {
+        Some(Counts {
+            ge: u64::get(input)?,
+            le: u64::get(input)?,
+            abs_ge: u64::get(input)?,
+            total: u64::get(input)?,
+        })
+    }
+}
+
 impl Counts {
     pub fn add(&mut self, other: &Counts) {
         self.ge += other.ge;

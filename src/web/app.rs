@@ -31,11 +31,14 @@ fn App() -> impl IntoView {
     let sent = RwSignal::new(None::<Job>);
     // The job the findings on screen were computed from.
     let last_job = RwSignal::new(None::<Job>);
+    // How many workers computed the findings on screen.
+    let result_workers = RwSignal::new(1usize);
     let sinks = Sinks {
         status,
         result,
         sent,
         result_job: last_job,
+        result_workers,
     };
     // The result on screen: the last one, if it belongs to the question now chosen.
     let shown = Memo::new(move |_| -> Option<Report> {
@@ -235,9 +238,9 @@ fn App() -> impl IntoView {
                     <p class="stale" id="stale-note" role="status">"These findings belong to an earlier input: the data or the settings have changed since they were computed. Run the analysis again to update them."</p>
                 })}
                 <div class="findings-wrap" class:is-stale=move || stale.get() aria-describedby=move || stale.get().then_some("stale-note")>
-                    {move || shown.get().map(|r| view! { <Findings doc=render::document(&r, &share::today())/> })}
+                    {move || shown.get().map(|r| view! { <Findings doc=super::findings::page_doc(&r, result_workers.get())/> })}
                 </div>
-                {move || shown.get().is_some().then(|| view! { <SharePanel shown=shown last_job=last_job/> })}
+                {move || shown.get().is_some().then(|| view! { <SharePanel shown=shown last_job=last_job workers=result_workers/> })}
             </section>
         </main>
         <footer>

@@ -12,6 +12,13 @@ use crate::render::{self, plot, words};
 use crate::wire::{self, link, Job, Report};
 
 /// The findings of any design.
+/// A report as the page words it: its document, with how many workers computed it.
+pub fn page_doc(report: &Report, workers: usize) -> Doc {
+    let mut doc = render::document(report, &share::today());
+    render::add_workers(&mut doc, workers);
+    doc
+}
+
 #[component]
 pub fn Findings(doc: Doc) -> impl IntoView {
     let h = doc.headline.clone();
@@ -114,13 +121,17 @@ pub fn RunStatus(status: RwSignal<Status>) -> impl IntoView {
 
 /// Links, files and copies of the findings on screen.
 #[component]
-pub fn SharePanel(shown: Memo<Option<Report>>, last_job: RwSignal<Option<Job>>) -> impl IntoView {
+pub fn SharePanel(
+    shown: Memo<Option<Report>>,
+    last_job: RwSignal<Option<Job>>,
+    workers: RwSignal<usize>,
+) -> impl IntoView {
     let share_link = RwSignal::new(String::new());
     let share_note = RwSignal::new(String::new());
     let doc = move || {
         shown
             .get_untracked()
-            .map(|r| render::document(&r, &share::today()))
+            .map(|r| page_doc(&r, workers.get_untracked()))
     };
     let copy_link = move |settings_only: bool| {
         let Some(mut job) = last_job.get_untracked() else {
@@ -191,7 +202,7 @@ pub fn SharePanel(shown: Memo<Option<Report>>, last_job: RwSignal<Option<Job>>) 
                 })}
             </div>
             <div class="share-buttons">
-                {move || shown.get().map(|r| render::document(&r, &share::today()).figures).unwrap_or_default().into_iter().map(|fig| {
+                {move || shown.get().map(|r| page_doc(&r, workers.get()).figures).unwrap_or_default().into_iter().map(|fig| {
                     let (name, svg) = (fig.name.to_string(), fig.svg);
                     let (svg2, name2) = (svg.clone(), name.clone());
                     view! {

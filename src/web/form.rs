@@ -18,6 +18,7 @@ use crate::designs::{TestSettings, KERNELS};
 use crate::input::columns::{self, Layout};
 use crate::input::suggest::Suggestion;
 use crate::input::table::{ColumnKind, HeaderChoice};
+use crate::input::text::fingerprint;
 use crate::wire::Job;
 
 /// Tables of this many rows or more start with the sequential rules filled in (stop after
@@ -57,14 +58,6 @@ pub const EXAMPLES: [(&str, &str, &str); 5] = [
         include_str!("../../demo-data/seed-germination.csv"),
     ),
 ];
-
-/// A 64-bit fingerprint of a data text (FNV-1a over its bytes), to tell whether the data
-/// box still holds what a restored job came with.
-pub fn fingerprint(text: &str) -> u64 {
-    text.bytes().fold(0xcbf2_9ce4_8422_2325, |h, b| {
-        (h ^ u64::from(b)).wrapping_mul(0x0000_0100_0000_01b3)
-    })
-}
 
 /// Every field of the form.
 #[derive(Clone, Copy)]

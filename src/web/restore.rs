@@ -62,7 +62,8 @@ impl Form {
             .set((st.kernels != crate::designs::KERNELS).then(|| {
                 (
                     st.kernels,
-                    self.data.with_untracked(|d| super::form::fingerprint(d)),
+                    self.data
+                        .with_untracked(|d| crate::input::text::fingerprint(d)),
                 )
             }));
         self.confidence.set(percent_text(st.confidence));

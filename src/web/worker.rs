@@ -5,8 +5,16 @@ use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
 use web_sys::{DedicatedWorkerGlobalScope, MessageEvent};
 
+use std::cell::RefCell;
+
 use crate::base::{Error, Progress};
-use crate::wire::{self, WorkerMessage};
+use crate::resample::share::{self, Sharing};
+use crate::wire::{self, Job, PageMessage, SharedBlock, WorkerMessage};
+
+thread_local! {
+    /// The job of a shared run and this worker's part in it, kept between its rounds.
+    static SHARED: RefCell<Option<(u64, Job, Sharing)>> = const { RefCell::new(None) };
+}
 
 fn post(scope: &DedicatedWorkerGlobalScope, msg: &WorkerMessage) {
     let text = serde_json::to_string(msg).unwrap_or_else(|e| {
@@ -18,12 +26,109 @@ fn post(scope: &DedicatedWorkerGlobalScope, msg: &WorkerMessage) {
     let _ = scope.post_message(&JsValue::from_str(&text));
 }
 
-/// Handles one job.
+/// Handles one message: a job to run alone (its saved-file JSON), or a round of a shared run.
 fn handle(scope: &DedicatedWorkerGlobalScope, text: &str) {
+    if let Ok(PageMessage::Share {
+        run,
+        worker,
+        workers,
+        job,
+        blocks,
+    }) = serde_json::from_str::<PageMessage>(text)
+    {
+        return shared_round(scope, run, worker, workers, job, blocks);
+    }
+    // A job on its own: no table is kept for a next round.
+    crate::input::table::keep_last_table(false);
+    SHARED.with(|s| *s.borrow_mut() = None);
     let job = match wire::read_job(text) {
         Ok(r) => r.job,
         Err(error) => return post(scope, &WorkerMessage::Failed { error }),
     };
+    run_job(scope, &job);
+}
+
+/// One round of a shared run: the job from the start, replaying the blocks known, until it
+/// finishes (the report) or pauses (this worker's share of the next round).
+fn shared_round(
+    scope: &DedicatedWorkerGlobalScope,
+    run: u64,
+    worker: u64,
+    workers: u64,
+    job: Option<String>,
+    blocks: Vec<SharedBlock>,
+) {
+    if let Some(text) = job {
+        match wire::read_job(&text) {
+            Ok(r) => SHARED.with(|s| {
+                *s.borrow_mut() = Some((run, r.job, Sharing::new(worker, workers)));
+            }),
+            Err(error) => return post(scope, &WorkerMessage::Failed { error }),
+        }
+    }
+    let Some((kept_run, job, mut sharing)) = SHARED.with(|s| s.borrow_mut().take()) else {
+        return post(
+            scope,
+            &WorkerMessage::Failed {
+                error: Error::settings("A shared run's next round came without its job."),
+            },
+        );
+    };
+    if kept_run != run {
+        return;
+    }
+    for b in &blocks {
+        if let Some((id, bytes)) = b.read() {
+            sharing.known.insert(id, bytes);
+        }
+    }
+    crate::input::table::keep_last_table(true);
+    let mut last = js_sys::Date::now();
+    let progress_scope = scope.clone();
+    share::on_block(Some(Box::new(move |p: &Progress| {
+        let now = js_sys::Date::now();
+        if now - last >= 100.0 {
+            last = now;
+            post(&progress_scope, &WorkerMessage::Progress(p.clone()));
+        }
+    })));
+    share::begin(sharing);
+    let mut last_replay = js_sys::Date::now();
+    let mut progress = |p: &Progress| {
+        let now = js_sys::Date::now();
+        if now - last_replay >= 100.0 {
+            last_replay = now;
+            post(scope, &WorkerMessage::Progress(p.clone()));
+        }
+        true
+    };
+    let result = job.run(&mut progress);
+    share::on_block(None);
+    let Some(mut sharing) = share::end() else {
+        return;
+    };
+    match (result, sharing.paused) {
+        (Err(_), Some(_)) => {
+            let made = std::mem::take(&mut sharing.made);
+            let blocks = made
+                .iter()
+                .map(|(id, b)| SharedBlock::new(*id, b))
+                .collect();
+            SHARED.with(|s| *s.borrow_mut() = Some((run, job, sharing)));
+            post(scope, &WorkerMessage::Paused { run, blocks });
+        }
+        (Ok(report), _) => post(
+            scope,
+            &WorkerMessage::Done {
+                report: Box::new(report),
+            },
+        ),
+        (Err(error), None) => post(scope, &WorkerMessage::Failed { error }),
+    }
+}
+
+/// Runs a job alone, posting progress at most every 100 ms and then the report or error.
+fn run_job(scope: &DedicatedWorkerGlobalScope, job: &Job) {
     let mut last = js_sys::Date::now();
     let mut progress = |p: &Progress| {
         let now = js_sys::Date::now();

@@ -249,6 +249,63 @@ pub enum WorkerMessage {
         /// What went wrong.
         error: Error,
     },
+    /// A shared run paused: this worker's share of the round (see
+    /// [`crate::resample::share`]).
+    Paused {
+        /// The run it belongs to (the page's number).
+        run: u64,
+        /// The blocks this worker computed.
+        blocks: Vec<SharedBlock>,
+    },
+}
+
+/// Messages from the page to a worker that shares a run with others.
+#[derive(Clone, Debug, Serialize, Deserialize)]
+#[serde(tag = "type", rename_all = "kebab-case")]
+pub enum PageMessage {
+    /// Run (or run again) a job shared among `workers` workers, as worker `worker`.
+    Share {
+        /// The page's number of the run (answers carry it, so that late answers of an
+        /// earlier run are recognised).
+        run: u64,
+        worker: u64,
+        workers: u64,
+        /// The job as saved-file JSON: in the first round only (later rounds reuse it).
+        #[serde(default, skip_serializing_if = "Option::is_none")]
+        job: Option<String>,
+        /// Blocks computed in the last round, by every worker.
+        blocks: Vec<SharedBlock>,
+    },
+}
+
+/// One block's result crossing between workers: the call and block it belongs to and its
+/// bytes in base64.
+#[derive(Clone, Debug, Serialize, Deserialize)]
+pub struct SharedBlock {
+    pub call: u64,
+    pub block: u64,
+    pub bytes: String,
+}
+
+impl SharedBlock {
+    /// A block and its bytes.
+    pub fn new(id: crate::resample::share::BlockId, bytes: &[u8]) -> SharedBlock {
+        use base64::Engine;
+        SharedBlock {
+            call: id.0,
+            block: id.1,
+            bytes: base64::engine::general_purpose::STANDARD_NO_PAD.encode(bytes),
+        }
+    }
+
+    /// The block and its bytes (None if the text is not base64).
+    pub fn read(&self) -> Option<(crate::resample::share::BlockId, Vec<u8>)> {
+        use base64::Engine;
+        base64::engine::general_purpose::STANDARD_NO_PAD
+            .decode(&self.bytes)
+            .ok()
+            .map(|b| ((self.call, self.block), b))
+    }
 }
 
 #[cfg(test)]

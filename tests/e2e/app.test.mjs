@@ -718,3 +718,41 @@ test("a 200,000-row paste: preview, a settings-only address, and the data kept i
   assert.deepEqual(errors, []);
   await page.close();
 });
+
+test("one run shared among 1, 2 or 3 workers gives the native command's numbers", async () => {
+  // 40,000 rows: the streaming kernels for large samples, both sequential rules filled in
+  // (the page's default for large tables); ?workers=N shares the run among N workers.
+  let csv = "y,g\n";
+  for (let i = 0; i < 20000; i++) {
+    const v = ((i * 7919) % 1000) / 100;
+    csv += `${v},a\n${(v + 0.06).toFixed(2)},b\n`;
+  }
+  const file = path.join(out, "shared-two-groups.csv");
+  fs.writeFileSync(file, csv);
+  const json = nativeRun(["analyze", file, "--stop-after", "20", "--settle-at", "0.05", "--seed", "77", "--bootstrap", "2000"]);
+  assert.ok(json.notes.some((n) => n.code === "streaming-kernels"), "the streaming kernels ran");
+  for (const workers of [1, 2, 3]) {
+    const page = await context.newPage();
+    const errors = [];
+    page.on("pageerror", (e) => errors.push(String(e)));
+    await page.goto(`${base}?workers=${workers}`);
+    await page.waitForSelector("#run:not([disabled])", { timeout: 30000 });
+    await page.evaluate((text) => {
+      const t = document.querySelector("#data");
+      t.value = text;
+      t.dispatchEvent(new Event("input", { bubbles: true }));
+    }, csv);
+    await page.waitForFunction(() => /40,000 rows/.test(document.querySelector("#preview")?.textContent || ""), null, { timeout: 60000 });
+    await page.click("details:has(#seed) > summary");
+    await page.fill("#bootstrap", "2000");
+    await runWithSeed(page, 77);
+    await page.waitForSelector("#finding", { timeout: 120000 });
+    assert.equal(await num(page, "data-p-value"), json.p_value, `${workers} workers`);
+    assert.equal(await num(page, "data-ci-low"), json.ci.low, `${workers} workers`);
+    assert.equal(await page.textContent("#finding"), json.finding, `${workers} workers`);
+    const methods = await page.textContent("#findings");
+    assert.match(methods, new RegExp(`It ran in ${workers} web worker${workers > 1 ? "s" : ""} of the browser tab`));
+    assert.deepEqual(errors, []);
+    await page.close();
+  }
+});

@@ -12,6 +12,7 @@ use crate::resample::k_groups::KSetup;
 use crate::resample::parallel;
 use crate::resample::rng;
 use crate::resample::rng::Stream;
+use crate::resample::share::Rounds;
 use crate::resample::signs::FlipSetup;
 use crate::resample::tally::{p_value, Counts};
 use crate::resample::two_groups::Setup;
@@ -206,30 +207,49 @@ impl Sim {
                 .sum();
             (hits, last - first)
         };
-        parallel::in_order(batches, &work, &mut |_, (h, m)| {
-            hits += h;
-            done += m;
-            if !progress(&Progress {
-                stage: stage.clone(),
-                done,
-                total: studies,
-                running: None,
-            }) {
-                cancelled = true;
-                return false;
-            }
-            if let Some(target) = early {
-                if done >= 2 * BATCH && done < studies {
-                    let (lo, hi) = clopper_pearson(hits, done, 0.999);
-                    if hi < target || lo > target {
-                        stopped_early = true;
-                        return false;
+        // Shared among workers: the early stop looks after two batches, so rounds start there.
+        let described = |b: u64| Progress {
+            stage: stage.clone(),
+            done: (b * BATCH).min(studies),
+            total: studies,
+            running: None,
+        };
+        let shared_rounds = if early.is_some() {
+            Rounds::Doubling(2)
+        } else {
+            Rounds::All
+        };
+        let finished = parallel::in_order(
+            batches,
+            shared_rounds,
+            &work,
+            &mut |_, (h, m)| {
+                hits += h;
+                done += m;
+                if !progress(&Progress {
+                    stage: stage.clone(),
+                    done,
+                    total: studies,
+                    running: None,
+                }) {
+                    cancelled = true;
+                    return false;
+                }
+                if let Some(target) = early {
+                    if done >= 2 * BATCH && done < studies {
+                        let (lo, hi) = clopper_pearson(hits, done, 0.999);
+                        if hi < target || lo > target {
+                            stopped_early = true;
+                            return false;
+                        }
                     }
                 }
-            }
-            true
-        });
-        if cancelled {
+                true
+            },
+            &described,
+        );
+        // Stopped neither by the user nor by the early stop: a shared run paused.
+        if cancelled || !finished && !stopped_early {
             return Err(Error::cancelled());
         }
         self.spent.set(self.spent.get() + cost * done as f64);
