@@ -100,6 +100,11 @@ impl std::error::Error for Error {}
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(tag = "stage", rename_all = "kebab-case")]
 pub enum Stage {
+    /// Reading and checking a large table (no count of done: `done` and `total` are 0).
+    Reading {
+        /// Characters of the table.
+        characters: u64,
+    },
     /// Relabelling the values (two groups, k groups, strata).
     Relabelling,
     /// Flipping the signs of differences (paired, one sample).

@@ -664,6 +664,9 @@ pub fn error(e: &crate::base::Error) -> String {
 pub fn stage(s: &crate::base::Stage) -> String {
     use crate::base::Stage;
     match s {
+        Stage::Reading { characters } => {
+            format!("Reading the table ({} characters)", fmt::count(*characters))
+        }
         Stage::Relabelling => "Relabellings".into(),
         Stage::SignPatterns => "Sign patterns".into(),
         Stage::Pairings => "Pairings".into(),

@@ -43,8 +43,8 @@ const POISSON_CDF: [u64; 14] = [
     0xfffffffffb07c64c,
 ];
 
-/// For each value of the top 12 bits of a 32-bit uniform: the count it gives when no
-/// threshold's top 32 bits fall in that range (all but 14 of the 4,096), or [`MIXED`].
+/// For each value of the top 12 bits of a uniform number: the count it gives when no
+/// threshold falls in that range (all but 14 of the 4,096), or [`MIXED`].
 const MIXED: u8 = u8::MAX;
 const TOP_BITS: u32 = 12;
 const BY_TOP: [u8; 1 << TOP_BITS] = {
@@ -79,29 +79,22 @@ const BY_TOP: [u8; 1 << TOP_BITS] = {
 /// 10^-500; the corrections never add beyond it).
 const MAX_COUNT: u8 = 254;
 
-/// A Poisson(1) count whose first 32 random bits are `u`, when the top byte does not decide:
-/// the uniform number is U = (u·2^32 + l)/2^64, its next 32 bits l drawn only when u equals
-/// a threshold's first 32 bits; the count is the number of thresholds U is at or above.
+/// A Poisson(1) count whose first 16 random bits are `u`, when its top 12 bits do not
+/// decide: the uniform number U is completed to 64 bits with 48 more from the stream, and the
+/// count is the number of thresholds U is at or above.
 #[cold]
-fn poisson_slow(u: u32, s: &mut Stream) -> u8 {
-    let mut low: Option<u32> = None;
+fn poisson_slow(u: u16, s: &mut Stream) -> u8 {
+    let big = (u64::from(u) << 48) | (s.next_u64() >> 16);
     let mut count = 0u8;
     for &th in &POISSON_CDF {
-        let top = (th >> 32) as u32;
-        let at_or_above = if u != top {
-            u > top
-        } else {
-            *low.get_or_insert_with(|| (s.next_u64() >> 32) as u32) >= th as u32
-        };
-        if !at_or_above {
+        if big < th {
             return count;
         }
         count += 1;
     }
-    // Beyond F(13) (probability 4.5e-12, so u is all ones and l was drawn): continue the
-    // inversion in floating point, where F(j) for j ≥ 14 is within 10^-16 of one.
-    let l = low.unwrap_or(u32::MAX);
-    let v = (f64::from(u) * 4294967296.0 + f64::from(l)) / 18446744073709551616.0;
+    // Beyond F(13) (probability 4.5e-12): continue the inversion in floating point, where
+    // F(j) for j ≥ 14 is within 10^-16 of one.
+    let v = big as f64 / 18446744073709551616.0;
     let mut p = (-1.0f64).exp() / 87178291200.0; // P(14) = e^-1 / 14!
     let mut f = POISSON_CDF[13] as f64 / 18446744073709551616.0;
     while count < MAX_COUNT {
@@ -116,6 +109,18 @@ fn poisson_slow(u: u32, s: &mut Stream) -> u8 {
         }
     }
     count
+}
+
+/// The Poisson(1) count of the 16-bit uniform `u` (its top 12 bits decide all but 14 of
+/// the 4,096 cases; the rest draw 48 more bits).
+#[inline(always)]
+fn poisson(u: u16, s: &mut Stream) -> u8 {
+    let k = BY_TOP[usize::from(u >> (16 - TOP_BITS))];
+    if k == MIXED {
+        poisson_slow(u, s)
+    } else {
+        k
+    }
 }
 
 /// A resample as counts over sorted values, with per-word totals.
@@ -142,7 +147,7 @@ impl Weights {
     }
 
     /// Draws a bootstrap resample of `x` (the values, sorted for order statistics). Values
-    /// are taken four at a time, from two 64-bit random words (32 bits each).
+    /// are taken four at a time, from one 64-bit random word (16 bits each).
     pub fn draw(&mut self, x: &[f64], s: &mut Stream) {
         let n = x.len();
         let mut total: u64 = 0;
@@ -155,9 +160,14 @@ impl Weights {
             let mut xq = chunk.chunks_exact(4);
             let mut cq4 = counts.chunks_exact_mut(4);
             for (xv, cv) in (&mut xq).zip(&mut cq4) {
-                let (w1, w2) = (s.next_u64(), s.next_u64());
-                let us = [(w1 >> 32) as u32, w1 as u32, (w2 >> 32) as u32, w2 as u32];
-                let mut ks = us.map(|u| BY_TOP[(u >> (32 - TOP_BITS)) as usize]);
+                let w = s.next_u64();
+                let us = [
+                    (w >> 48) as u16,
+                    (w >> 32) as u16,
+                    (w >> 16) as u16,
+                    w as u16,
+                ];
+                let mut ks = us.map(|u| BY_TOP[usize::from(u >> (16 - TOP_BITS))]);
                 if ks.contains(&MIXED) {
                     for (k, &u) in ks.iter_mut().zip(&us) {
                         if *k == MIXED {
@@ -181,11 +191,7 @@ impl Weights {
                 .zip(xq.remainder())
                 .enumerate()
             {
-                let u = (s.next_u64() >> 32) as u32;
-                let mut k = BY_TOP[(u >> (32 - TOP_BITS)) as usize];
-                if k == MIXED {
-                    k = poisson_slow(u, s);
-                }
+                let k = poisson((s.next_u64() >> 48) as u16, s);
                 *c = k;
                 bound |= k;
                 cn += u32::from(k);

@@ -60,6 +60,16 @@ fn App() -> impl IntoView {
             fm.stop_after.set(fill("20"));
             fm.settle_at.set(fill("0.05"));
         }
+        // Huge tables start with fewer bootstrap resamples, unless set by hand or a link.
+        if !fm.boot_set.get_untracked() {
+            let huge = view.rows >= super::form::HUGE_TABLE;
+            let b = if huge {
+                super::form::HUGE_TABLE_BOOTSTRAP
+            } else {
+                crate::designs::TestSettings::new(0).bootstrap_resamples
+            };
+            fm.bootstrap.set(b.to_string());
+        }
     });
 
     // The groups on offer: labels of the group column, the chosen columns, or typed counts.

@@ -96,8 +96,15 @@ pub fn RunStatus(status: RwSignal<Status>) -> impl IntoView {
             {move || match status.get() {
                 Status::Idle => view! { <p class="hint">"Run the analysis to see the findings here."</p> }.into_any(),
                 Status::Starting => view! { <p class="hint">"Starting…"</p> }.into_any(),
+                Status::Running(p) if p.total == 0 => view! {
+                    // A step without a count (reading a large table): a bar without a value.
+                    <div class="progress">
+                        <label for="progress">{format!("{}…", words::stage(&p.stage))}</label>
+                        <progress id="progress" max="100"></progress>
+                    </div>
+                }.into_any(),
                 Status::Running(p) => {
-                    let pct = if p.total > 0 { p.done as f64 / p.total as f64 * 100.0 } else { 0.0 };
+                    let pct = p.done as f64 / p.total as f64 * 100.0;
                     view! {
                         <div class="progress">
                             <label for="progress">{format!("{}: {} of {}", words::stage(&p.stage), fmt::count(p.done), fmt::count(p.total))}</label>

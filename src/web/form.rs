@@ -25,6 +25,12 @@ use crate::wire::Job;
 /// 20 at least as extreme; settle against 0.05).
 pub const LARGE_TABLE: usize = 20_000;
 
+/// Tables of this many rows or more start with [`HUGE_TABLE_BOOTSTRAP`] bootstrap resamples
+/// instead of 10,000 (each resample reads every value; 2,000 is the usual least for BCa
+/// limits).
+pub const HUGE_TABLE: usize = 500_000;
+pub const HUGE_TABLE_BOOTSTRAP: u64 = 2_000;
+
 /// Data texts longer than this (bytes) are left out of the link kept in the address bar,
 /// which then holds the settings only: rewriting a multi-megabyte address on every change
 /// would slow the page and the browser's history.
@@ -89,6 +95,9 @@ pub struct Form {
     /// Whether the user (or a restored link) set either sequential rule, so that the
     /// large-table default leaves them alone.
     pub stop_set: RwSignal<bool>,
+    /// Whether the user (or a restored link) set the bootstrap resamples, so that the
+    /// huge-table default leaves them alone.
+    pub boot_set: RwSignal<bool>,
     pub bootstrap: RwSignal<String>,
     /// The kernel generation of a restored job made before the newest ([`KERNELS`]), with a
     /// fingerprint of the data it came with: the job keeps that generation (and so its
@@ -294,6 +303,7 @@ impl Form {
             stop_after: text(""),
             settle_at: text(""),
             stop_set: RwSignal::new(false),
+            boot_set: RwSignal::new(false),
             bootstrap: text(&d.bootstrap_resamples.to_string()),
             old_kernels: RwSignal::new(None),
             confidence: text(&percent_text(d.confidence)),

@@ -406,9 +406,9 @@ pub fn Settings(fm: Form) -> impl IntoView {
                         <label class="compare-only" for="settle-at">{format!("Stop early once the p-value is settled below or above this level, checked after each block of 4,096 with at most a 0.1% chance of the wrong side (blank: no such check; 0.05 is filled in for tables of {} rows or more)", crate::base::format::count(super::form::LARGE_TABLE as u64))}</label>
                         <input class="compare-only" id="settle-at" inputmode="decimal" prop:value=move || fm.settle_at.get()
                             on:input=move |ev| { fm.stop_set.set(true); fm.settle_at.set(event_target_value(&ev)) }/>
-                        <label for="bootstrap">"Bootstrap resamples"</label>
+                        <label for="bootstrap">{format!("Bootstrap resamples ({} is filled in for tables of {} rows or more)", crate::base::format::count(super::form::HUGE_TABLE_BOOTSTRAP), crate::base::format::count(super::form::HUGE_TABLE as u64))}</label>
                         <input id="bootstrap" inputmode="numeric" prop:value=move || fm.bootstrap.get()
-                            on:input=move |ev| fm.bootstrap.set(event_target_value(&ev))/>
+                            on:input=move |ev| { fm.boot_set.set(true); fm.bootstrap.set(event_target_value(&ev)) }/>
                         <label for="confidence">"Confidence level (%)"</label>
                         <input id="confidence" inputmode="decimal" prop:value=move || fm.confidence.get()
                             on:input=move |ev| fm.confidence.set(event_target_value(&ev))/>

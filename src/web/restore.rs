@@ -56,6 +56,7 @@ impl Form {
         self.settle_at
             .set(st.settle_at.map(|v| v.to_string()).unwrap_or_default());
         self.stop_set.set(true);
+        self.boot_set.set(true);
         self.bootstrap.set(st.bootstrap_resamples.to_string());
         // Called after the data are restored: an older job keeps its kernels with them.
         self.old_kernels

@@ -59,8 +59,20 @@ macro_rules! registry {
                 }
             }
 
-            /// Runs the job.
+            /// Runs the job (a table of [`READING_SHOWN`] characters or more is announced as
+            /// being read first: reading it takes seconds).
             pub fn run(&self, progress: ProgressFn) -> Result<Report, Error> {
+                let characters = self.data().len() as u64;
+                if characters >= READING_SHOWN
+                    && !progress(&crate::base::Progress {
+                        stage: crate::base::Stage::Reading { characters },
+                        done: 0,
+                        total: 0,
+                        running: None,
+                    })
+                {
+                    return Err(Error::cancelled());
+                }
                 Ok(match self {
                     $(Job::$variant(r) => Report::$variant(<$design as Design>::run(r, progress)?),)*
                 })
@@ -230,6 +242,9 @@ pub fn report_json_on(report: &Report, threads: Option<usize>) -> String {
     })
     .unwrap_or_default()
 }
+
+/// Tables of this many characters or more are announced as being read when a job starts.
+pub const READING_SHOWN: u64 = 1 << 20;
 
 /// Messages from the worker to the page.
 #[derive(Clone, Debug, Serialize, Deserialize)]
