@@ -274,9 +274,9 @@ impl Setup {
             tolerance: 0.0,
             large: None,
         };
-        let mut mask = vec![false; n];
+        let mut mask = vec![0u64; n.div_ceil(64)];
         for &i in &s.observed_set {
-            mask[i] = true;
+            mask[i / 64] |= 1 << (i % 64);
         }
         s.observed = match statistic {
             Statistic::MeanDifference | Statistic::WelchT => {
@@ -350,35 +350,73 @@ impl Setup {
         }
     }
 
-    /// Statistic from a mask over the sorted pool marking the drawn set.
-    fn stat_from_mask(&self, drawn: &[bool]) -> f64 {
+    /// Statistic from a bit set over the sorted pool marking the drawn set (bit i of word
+    /// i / 64): each group's middle values (median) or values between the trimmed ends
+    /// (trimmed mean), added from zero in rank order, the words' bit counts skipping whole
+    /// words outside the ranks wanted.
+    fn stat_from_mask(&self, drawn: &[u64]) -> f64 {
         let (n1, n2) = (self.n1, self.n2);
-        let (want1, want2) = match self.statistic {
-            Statistic::MedianDifference => ((n1 - 1) / 2..=n1 / 2, (n2 - 1) / 2..=n2 / 2),
+        let ((lo1, hi1), (lo2, hi2)) = match self.statistic {
+            Statistic::MedianDifference => (((n1 - 1) / 2, n1 / 2), ((n2 - 1) / 2, n2 / 2)),
             _ => {
                 let (g1, g2) = (stats::trim_count(n1), stats::trim_count(n2));
-                (g1..=n1 - g1 - 1, g2..=n2 - g2 - 1)
+                ((g1, n1 - g1 - 1), (g2, n2 - g2 - 1))
             }
         };
-        let (mut r1, mut r2) = (0usize, 0usize);
-        let (mut acc1, mut acc2) = (0.0, 0.0);
-        for (i, &v) in self.pool.iter().enumerate() {
-            let first = drawn[i] == self.drawn_is_first;
-            if first {
-                if want1.contains(&r1) {
-                    acc1 += v;
-                }
-                r1 += 1;
-            } else {
-                if want2.contains(&r2) {
-                    acc2 += v;
-                }
-                r2 += 1;
-            }
-        }
-        let c1 = (want1.end() - want1.start() + 1) as f64;
-        let c2 = (want2.end() - want2.start() + 1) as f64;
+        let acc1 = self.rank_sum(drawn, lo1, hi1 + 1, self.drawn_is_first);
+        let acc2 = self.rank_sum(drawn, lo2, hi2 + 1, !self.drawn_is_first);
+        let c1 = (hi1 - lo1 + 1) as f64;
+        let c2 = (hi2 - lo2 + 1) as f64;
         acc1 / c1 - acc2 / c2
+    }
+
+    /// The sum, from zero in rank order, of the values of ranks `lo..hi` among the members
+    /// of the bit set `drawn` (or among the others).
+    fn rank_sum(&self, drawn: &[u64], lo: usize, hi: usize, members: bool) -> f64 {
+        let n = self.pool.len();
+        let mut acc = 0.0;
+        let mut before = 0usize;
+        for (wi, &w) in drawn.iter().enumerate() {
+            if before >= hi {
+                break;
+            }
+            let valid = if n - wi * 64 >= 64 {
+                !0
+            } else {
+                (1u64 << (n - wi * 64)) - 1
+            };
+            let mut bits = if members { w } else { !w & valid };
+            let c = bits.count_ones() as usize;
+            if before + c <= lo {
+                before += c;
+                continue;
+            }
+            let mut r = before;
+            while bits != 0 && r < hi {
+                if r >= lo {
+                    acc += self.pool[wi * 64 + bits.trailing_zeros() as usize];
+                }
+                r += 1;
+                bits &= bits - 1;
+            }
+            before += c;
+        }
+        acc
+    }
+
+    /// A block of random relabellings of a large pool by the streaming kernel.
+    #[inline(never)]
+    fn streaming_block(&self, lg: &Large, mut stream: Stream, len: u64) -> (Counts, Vec<f64>) {
+        let mut counts = Counts::default();
+        let mut values = Vec::with_capacity(len as usize);
+        let mut sub = Subset::new(self.pool.len(), self.statistic == Statistic::WelchT);
+        for _ in 0..len {
+            lg.split.draw(&self.pool, &mut stream, &mut sub);
+            let t = self.stat_from_subset(&sub);
+            counts.record(t, self.observed, self.tolerance);
+            values.push(t);
+        }
+        (counts, values)
     }
 
     /// Runs one block of random relabellings with the block's stream.
@@ -389,14 +427,7 @@ impl Setup {
         let mut values = Vec::with_capacity(len as usize);
         let (obs, tol) = (self.observed, self.tolerance);
         if let Some(lg) = &self.large {
-            let mut sub = Subset::new(n, self.statistic == Statistic::WelchT);
-            for _ in 0..len {
-                lg.split.draw(&self.pool, &mut stream, &mut sub);
-                let t = self.stat_from_subset(&sub);
-                counts.record(t, obs, tol);
-                values.push(t);
-            }
-            return (counts, values);
+            return self.streaming_block(lg, stream, len);
         }
         if self.is_sum_based() {
             // Shuffle the values themselves and sum the drawn part as it is drawn.
@@ -425,24 +456,83 @@ impl Setup {
                 }
             }
         } else {
-            let mut perm: Vec<usize> = (0..n).collect();
-            let mut mask = vec![false; n];
-            for _ in 0..len {
-                // Partial Fisher–Yates: the first k entries become a uniform random k-subset.
-                for i in 0..k {
-                    let j = i + stream.below((n - i) as u64) as usize;
-                    perm.swap(i, j);
-                    mask[perm[i]] = true;
-                }
-                let t = self.stat_from_mask(&mask);
-                for &i in &perm[..k] {
-                    mask[i] = false;
-                }
-                counts.record(t, obs, tol);
-                values.push(t);
-            }
+            return self.order_block(stream, len);
         }
         (counts, values)
+    }
+
+    /// A block of random relabellings for an order statistic (median, trimmed mean): the
+    /// drawn set marked in a bit set over the sorted pool.
+    #[inline(never)]
+    fn order_block(&self, mut stream: Stream, len: u64) -> (Counts, Vec<f64>) {
+        let (n, k) = (self.pool.len(), self.k);
+        let mut counts = Counts::default();
+        let mut values = Vec::with_capacity(len as usize);
+        let mut perm: Vec<usize> = (0..n).collect();
+        let mut mask = vec![0u64; n.div_ceil(64)];
+        for _ in 0..len {
+            // Partial Fisher–Yates: the first k entries become a uniform random k-subset.
+            for i in 0..k {
+                let j = i + stream.below((n - i) as u64) as usize;
+                perm.swap(i, j);
+                mask[perm[i] / 64] |= 1 << (perm[i] % 64);
+            }
+            let t = self.stat_from_mask(&mask);
+            mask.fill(0);
+            counts.record(t, self.observed, self.tolerance);
+            values.push(t);
+        }
+        (counts, values)
+    }
+
+    /// [`Setup::enumerate`] for the difference in means: the same sums, statistics and
+    /// comparisons (so the same numbers, to the bit), with the statistic's branches taken
+    /// outside the loop, the list made at its final size and the checks counted down.
+    fn enumerate_means<const DRAWN_FIRST: bool>(
+        &self,
+        every: u64,
+        progress: &mut dyn FnMut(u64) -> bool,
+    ) -> Option<(Counts, Vec<f64>)> {
+        let n = self.pool.len();
+        let mut door = RevolvingDoor::new(n, self.k);
+        let mut counts = Counts::default();
+        let size = choose(n as u64, self.k as u64);
+        let mut values = Vec::with_capacity(size.min(driver::MAX_KEPT as u64 * 16) as usize);
+        let th = Thresholds::new(self.observed, self.tolerance);
+        let (n1, n2, total) = (self.n1 as f64, self.n2 as f64, self.total);
+        let pool = &self.pool[..];
+        let resum = |set: &[usize]| set.iter().fold(0.0, |x, &i| x + pool[i]);
+        let mut s = resum(door.current());
+        let mut step: u64 = 0;
+        let (mut to_progress, mut to_resum) = (every, 1024u32);
+        loop {
+            let s1 = if DRAWN_FIRST { s } else { total - s };
+            let t = s1 / n1 - (total - s1) / n2;
+            counts.record_at(t, &th);
+            values.push(t);
+            step += 1;
+            to_progress -= 1;
+            if to_progress == 0 {
+                if !progress(step) {
+                    return None;
+                }
+                to_progress = every;
+            }
+            match door.advance() {
+                None => break,
+                Some((out, inn)) => {
+                    to_resum -= 1;
+                    if to_resum == 0 {
+                        // Re-sum now and then so rounding cannot drift.
+                        s = resum(door.current());
+                        to_resum = 1024;
+                    } else {
+                        s += pool[inn] - pool[out];
+                    }
+                }
+            }
+        }
+        Some((counts, values))
     }
 
     /// Enumerates every relabelling (C(n, k) of them). `progress(done)` is called every
@@ -452,12 +542,19 @@ impl Setup {
         every: u64,
         progress: &mut dyn FnMut(u64) -> bool,
     ) -> Option<(Counts, Vec<f64>)> {
+        if self.statistic == Statistic::MeanDifference {
+            return if self.drawn_is_first {
+                self.enumerate_means::<true>(every, progress)
+            } else {
+                self.enumerate_means::<false>(every, progress)
+            };
+        }
         let n = self.pool.len();
         let mut door = RevolvingDoor::new(n, self.k);
         let mut counts = Counts::default();
         let mut values = Vec::new();
         let (obs, tol) = (self.observed, self.tolerance);
-        let mut mask = vec![false; n];
+        let mut mask = vec![0u64; n.div_ceil(64)];
         let (mut s, mut q) = (0.0, 0.0);
         let resum = |set: &[usize]| {
             set.iter().fold((0.0, 0.0), |(x, y), &i| {
@@ -468,7 +565,7 @@ impl Setup {
             (s, q) = resum(door.current());
         } else {
             for &i in door.current() {
-                mask[i] = true;
+                mask[i / 64] |= 1 << (i % 64);
             }
         }
         let mut step: u64 = 0;
@@ -497,8 +594,8 @@ impl Setup {
                             q += vi * vi - vo * vo;
                         }
                     } else {
-                        mask[out] = false;
-                        mask[inn] = true;
+                        mask[out / 64] &= !(1 << (out % 64));
+                        mask[inn / 64] |= 1 << (inn % 64);
                     }
                 }
             }
