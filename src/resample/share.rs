@@ -2,7 +2,7 @@
 //! page's web workers: without cross-origin isolation they share no memory and a running
 //! worker reads no messages).
 //!
-//! Every worker runs the same job from the start. Each call of [`super::parallel::in_order`]
+//! Every worker runs the same job from the start. Each call of the parallel module's `in_order`
 //! is numbered in the order the job makes them (the same in every worker, since the job is
 //! deterministic), and its blocks are numbered as always. Blocks whose results are known
 //! (from any worker) are replayed in order, exactly as if computed here. At the first block
@@ -174,7 +174,7 @@ pub fn on_block(f: Option<BlockHook>) {
     ON_BLOCK.with(|o| *o.borrow_mut() = f);
 }
 
-/// The shared form of [`super::parallel::in_order`]: replays known blocks in order through
+/// The shared form of the parallel module's `in_order`: replays known blocks in order through
 /// `each`; at the first unknown block computes this worker's share of a round with `work`,
 /// records it and returns false with the run marked paused. `progress(done)` describes the
 /// call's progress after `done` blocks.
