@@ -3,6 +3,7 @@
 
 pub mod columns;
 pub mod counts;
+pub mod outline;
 pub mod suggest;
 pub mod table;
 pub mod text;

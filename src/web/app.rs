@@ -6,16 +6,16 @@
 use leptos::prelude::*;
 use wasm_bindgen::prelude::*;
 
-use super::data_step::{table_view, DataStep};
+use super::data_step::{watch_table, DataStep, TableState};
 use super::findings::{Findings, RunStatus, SharePanel};
-use super::form::{parse_count, shape_of, Form};
+use super::form::{parse_count, Form, RESTORED_SHAPE};
 use super::plan_step::PlanOptions;
 use super::question::{design_label, CompareOptions, EstimateOptions, Settings};
 use super::runner::{self, Sinks, Status};
 use super::share;
 use crate::base::Alternative;
 use crate::designs::yes_no::parse_counts;
-use crate::input::suggest;
+use crate::input::outline::Outline;
 use crate::input::table::ColumnKind;
 use crate::render;
 use crate::resample::rng::fresh_seed;
@@ -45,13 +45,18 @@ fn App() -> impl IntoView {
         let r = result.get()?;
         (r.key().key() == fm.wanted()).then_some(r)
     });
-    let parsed = Memo::new(move |_| table_view(&fm.data.get(), fm.header.get()));
-    let columns = Signal::derive(move || parsed.get().map(|v| v.columns).unwrap_or_default());
+    // The table in the data box: read here when small, in a worker when large.
+    let table = watch_table(fm);
+    let columns = Signal::derive(move || {
+        table.with(|t| t.shown().map(|o| o.columns.clone()).unwrap_or_default())
+    });
 
     // Choose sensible columns whenever the table changes and the choice no longer fits.
     Effect::new(move |_| {
-        let Ok(view) = parsed.get() else { return };
-        choose_columns(fm, &view.columns);
+        let Some(view) = table.with(|t| t.ready().cloned()) else {
+            return;
+        };
+        choose_columns(fm, &view);
         // Large tables stop early by default (the sequential rules), unless a rule was
         // set by hand or by a link.
         if !fm.stop_set.get_untracked() {
@@ -73,7 +78,7 @@ fn App() -> impl IntoView {
     });
 
     // The groups on offer: labels of the group column, the chosen columns, or typed counts.
-    let levels = Memo::new(move |_| levels_of(fm));
+    let levels = Memo::new(move |_| levels_of(fm, table));
     Effect::new(move |_| {
         let lv = levels.get();
         if lv.is_empty() {
@@ -206,7 +211,7 @@ fn App() -> impl IntoView {
             <p class="tagline">"Compare groups, pairs and yes/no outcomes by relabelling and resampling — computed in this browser tab."</p>
         </header>
         <main>
-            <DataStep fm=fm parsed=parsed link_error=link_error/>
+            <DataStep fm=fm table=table link_error=link_error/>
             <section class="step" aria-labelledby="step-question">
                 <h2 id="step-question"><span class="step-no">"2"</span>" The question"</h2>
                 <fieldset>
@@ -233,7 +238,7 @@ fn App() -> impl IntoView {
                 <CompareOptions fm=fm levels=levels columns=columns/>
                 <Settings fm=fm/>
                 <div class="actions">
-                    <button type="button" id="run" class="primary" disabled=move || running.get() || parsed.get().is_err()
+                    <button type="button" id="run" class="primary" disabled=move || running.get() || table.with(|t| t.ready().is_none())
                         on:click=move |_| run()>{move || if fm.mode.get() == "plan" { "Run the simulation" } else { "Run analysis" }}</button>
                     <button type="button" id="stop" class="secondary" disabled=move || !running.get()
                         on:click=move |_| stop()>"Stop"</button>
@@ -265,7 +270,8 @@ fn App() -> impl IntoView {
 
 /// Keeps the chosen columns valid for the table in the data box, and suggests a design when
 /// a table of a new shape arrives.
-fn choose_columns(fm: Form, columns: &[(String, ColumnKind)]) {
+fn choose_columns(fm: Form, outline: &Outline) {
+    let columns = &outline.columns;
     let names: Vec<String> = columns.iter().map(|c| c.0.clone()).collect();
     let numeric: Vec<String> = columns
         .iter()
@@ -289,18 +295,17 @@ fn choose_columns(fm: Form, columns: &[(String, ColumnKind)]) {
             optional.set(String::new());
         }
     }
-    // A different table: suggest a design from its shape (a restored analysis has set
-    // `shape_seen` already and keeps its own design).
-    let (data, header) = (fm.data.get_untracked(), fm.header.get_untracked());
-    let shape = shape_of(&data, header);
-    if shape != fm.shape_seen.get_untracked() {
+    // A different table: suggest a design from its shape (a restored analysis keeps its
+    // own design).
+    let shape = outline.shape();
+    let seen = fm.shape_seen.get_untracked();
+    if shape != seen {
         fm.shape_seen.set(shape);
-        if let Some(sg) = super::form::read_table(&data, header)
-            .ok()
-            .and_then(|t| suggest::suggest(&t))
-        {
-            fm.apply_suggestion(&sg, design_label(&sg.design));
-            return;
+        if seen != RESTORED_SHAPE {
+            if let Some(sg) = &outline.suggestion {
+                fm.apply_suggestion(sg, design_label(&sg.design));
+                return;
+            }
         }
     }
     let kc = fm.k_columns.get_untracked();
@@ -314,7 +319,7 @@ fn choose_columns(fm: Form, columns: &[(String, ColumnKind)]) {
     if fits {
         return;
     }
-    if !fm.apply_detected() {
+    if !fm.apply_detected(&outline.layout) {
         // Leave the choice to the user; pre-fill with the first columns.
         let first = names.first().cloned().unwrap_or_default();
         let second = names.get(1).cloned().unwrap_or_default();
@@ -327,7 +332,7 @@ fn choose_columns(fm: Form, columns: &[(String, ColumnKind)]) {
 
 /// The groups the form can compare: typed counts' names, the chosen columns, or the labels
 /// of the group column (the first 51).
-fn levels_of(fm: Form) -> Vec<String> {
+fn levels_of(fm: Form, table: RwSignal<TableState>) -> Vec<String> {
     let compare = fm.mode.get() == "compare";
     if compare && fm.design.get() == "yes-no" && fm.yn_source.get() == "counts" {
         return parse_counts(&fm.counts_text.get())
@@ -340,23 +345,12 @@ fn levels_of(fm: Form) -> Vec<String> {
         }
         return vec![fm.col_a.get(), fm.col_b.get()];
     }
-    let Ok(t) = super::form::read_table(&fm.data.get(), fm.header.get()) else {
-        return vec![];
-    };
-    let Some(col) = t.columns.iter().find(|c| c.name == fm.group_col.get()) else {
-        return vec![];
-    };
-    let mut out: Vec<String> = Vec::new();
-    for c in col.cells() {
-        let l = c.text.trim();
-        if !l.is_empty() && !out.iter().any(|o| o == l) {
-            out.push(l.to_string());
-        }
-        if out.len() > 50 {
-            break;
-        }
-    }
-    out
+    let group = fm.group_col.get();
+    table.with(|t| {
+        t.ready()
+            .map(|o| o.labels_of(&group).to_vec())
+            .unwrap_or_default()
+    })
 }
 
 /// Whether this is the single-file offline build.

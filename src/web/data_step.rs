@@ -5,57 +5,120 @@
 use leptos::prelude::*;
 
 use super::form::{kind_label, Form, EXAMPLES};
-use crate::input::table::{self, ColumnKind, HeaderChoice};
+use crate::input::outline::{self, Outline};
+use crate::input::table::{ColumnKind, HeaderChoice};
 use crate::render::words;
 use crate::wire;
 
 /// The largest data file the page opens.
 const MAX_FILE_BYTES: f64 = 20.0 * 1024.0 * 1024.0;
 
-/// What the preview shows of a parsed table.
-#[derive(Clone, Debug, PartialEq)]
-pub struct TableView {
-    /// Column names and kinds.
-    pub columns: Vec<(String, ColumnKind)>,
-    /// The first rows, as typed.
-    pub preview: Vec<Vec<String>>,
-    /// Number of data rows.
-    pub rows: usize,
-    /// The separator found.
-    pub delimiter: &'static str,
-    /// Whether the first row named the columns.
-    pub header: bool,
+/// Texts of this many bytes or more are not shown whole in the data box: a browser takes
+/// tens of seconds to lay out a text box of millions of lines. The box then shows the first
+/// [`SHOWN_LINES`] lines, read-only, and the data are held in the page.
+pub const SHOWN_LIMIT: usize = 1 << 20;
+pub const SHOWN_LINES: usize = 200;
+
+/// What the data box shows of `data`: all of it, or its first lines when it is large.
+pub fn shown_text(data: &str) -> std::borrow::Cow<'_, str> {
+    if data.len() <= SHOWN_LIMIT {
+        return std::borrow::Cow::Borrowed(data);
+    }
+    let end = data
+        .match_indices('\n')
+        .nth(SHOWN_LINES - 1)
+        .map_or(data.len().min(64 * 1024), |(i, _)| i + 1);
+    let mut end = end.min(64 * 1024);
+    while !data.is_char_boundary(end) {
+        end -= 1;
+    }
+    std::borrow::Cow::Borrowed(&data[..end])
 }
 
-/// The table in the data box as the preview shows it, or what is wrong with it.
-pub fn table_view(data: &str, header: HeaderChoice) -> Result<TableView, String> {
-    super::form::read_table(data, header)
-        .map(|t| TableView {
-            columns: t
-                .columns
-                .iter()
-                .map(|c| (c.name.clone(), c.kind.clone()))
-                .collect(),
-            preview: (0..t.rows.min(6))
-                .map(|r| {
-                    t.columns
-                        .iter()
-                        .map(|c| c.cell(r).text.to_string())
-                        .collect()
-                })
-                .collect(),
-            rows: t.rows,
-            delimiter: table::delimiter_name(t.delimiter),
-            header: t.header,
-        })
-        .map_err(|e| words::error(&e))
+/// Texts of this many bytes or more are read in a worker, so that the page stays responsive;
+/// their first [`HEAD_BYTES`] are read at once for the preview.
+pub const READ_IN_WORKER: usize = 256 * 1024;
+pub const HEAD_BYTES: usize = 64 * 1024;
+
+/// The table in the data box as the page knows it.
+#[derive(Clone, Debug, PartialEq)]
+pub enum TableState {
+    /// Being read in a worker; the outline of its first lines, when they read.
+    Reading(Option<Outline>),
+    /// Read.
+    Ready(Outline),
+    /// Not a table the page can use: why.
+    Bad(String),
+}
+
+impl TableState {
+    /// The outline of the whole table, once read.
+    pub fn ready(&self) -> Option<&Outline> {
+        match self {
+            TableState::Ready(o) => Some(o),
+            _ => None,
+        }
+    }
+
+    /// What the preview can show: the whole table's outline, or its first lines'.
+    pub fn shown(&self) -> Option<&Outline> {
+        match self {
+            TableState::Ready(o) | TableState::Reading(Some(o)) => Some(o),
+            _ => None,
+        }
+    }
+}
+
+fn state_of(read: Result<Outline, crate::base::Error>) -> TableState {
+    match read {
+        Ok(o) => TableState::Ready(o),
+        Err(e) => TableState::Bad(words::error(&e)),
+    }
+}
+
+/// Keeps the table state of the data box: small texts read here, large ones in the reading
+/// worker (with the first lines read here at once); only the latest text's answer counts.
+pub fn watch_table(fm: Form) -> RwSignal<TableState> {
+    let state = RwSignal::new(TableState::Reading(None));
+    let latest = StoredValue::new(0u64);
+    Effect::new(move |_| {
+        let header = fm.header.get();
+        let len = fm.data.with(|d| d.len());
+        latest.update_value(|v| *v += 1);
+        let id = latest.get_value();
+        if len < READ_IN_WORKER {
+            state.set(
+                fm.data
+                    .with_untracked(|d| state_of(outline::outline(d, header))),
+            );
+            return;
+        }
+        let head = fm
+            .data
+            .with_untracked(|d| outline::outline_of_head(d, header, HEAD_BYTES).ok());
+        state.set(TableState::Reading(head));
+        let sent =
+            super::runner::read_outline(id, fm.data.get_untracked(), header, move |rid, read| {
+                if rid == latest.get_value() || rid == u64::MAX {
+                    state.set(state_of(read));
+                }
+            });
+        if sent.is_err() {
+            // No worker: read it here.
+            state.set(
+                fm.data
+                    .with_untracked(|d| state_of(outline::outline(d, header))),
+            );
+        }
+    });
+    state
 }
 
 /// Step 1.
 #[component]
 pub fn DataStep(
     fm: Form,
-    parsed: Memo<Result<TableView, String>>,
+    table: RwSignal<TableState>,
     link_error: RwSignal<String>,
 ) -> impl IntoView {
     // The box shows the data; its text is written only when it differs from what the box
@@ -63,13 +126,28 @@ pub fn DataStep(
     // large text back makes the browser lay the whole box out again.
     let area = NodeRef::<leptos::html::Textarea>::new();
     Effect::new(move |_| {
-        let data = fm.data.get();
-        if let Some(el) = area.get() {
-            if el.value() != data {
-                el.set_value(&data);
+        fm.data.with(|data| {
+            let shown = shown_text(data);
+            if let Some(el) = area.get() {
+                if el.value() != *shown {
+                    el.set_value(&shown);
+                }
+            }
+        });
+    });
+    let large = Memo::new(move |_| fm.data.with(|d| d.len() > SHOWN_LIMIT));
+    // A large paste is held in the page and the box shows its first lines at once, before
+    // the browser lays out the whole text.
+    let on_input = move |ev: leptos::ev::Event| {
+        let text = event_target_value(&ev);
+        if text.len() > SHOWN_LIMIT {
+            if let Some(el) = area.get_untracked() {
+                el.set_value(&shown_text(&text));
             }
         }
-    });
+        fm.data.set(text);
+        fm.example.set(String::new());
+    };
     let load_text = move |text: String, note: String| {
         fm.data.set(text);
         fm.file_note.set(note);
@@ -106,7 +184,8 @@ pub fn DataStep(
             }
         });
     };
-    let column_options = move || parsed.get().map(|v| v.columns).unwrap_or_default();
+    let column_options =
+        move || table.with(|t| t.shown().map(|o| o.columns.clone()).unwrap_or_default());
     view! {
             <section class="step" aria-labelledby="step-data">
                 <h2 id="step-data"><span class="step-no">"1"</span>" The data"</h2>
@@ -157,9 +236,27 @@ pub fn DataStep(
                 </label>
                 <label for="data" class="block-label">"Paste a table here (from a spreadsheet, or comma-, semicolon- or tab-separated text), or drop a file on it"</label>
                 <textarea id="data" rows="10" spellcheck="false" node_ref=area
-                    on:input=move |ev| { fm.data.set(event_target_value(&ev)); fm.example.set(String::new()); }
+                    prop:readOnly=move || large.get()
+                    data-chars=move || fm.data.with(|d| d.len().to_string())
+                    aria-describedby=move || large.get().then_some("large-box-note")
+                    on:input=on_input
                     on:dragover=move |ev: web_sys::DragEvent| ev.prevent_default()
                     on:drop=on_drop></textarea>
+                {move || large.get().then(|| view! {
+                    <p class="hint" id="large-box-note">
+                        {move || fm.data.with(|d| format!(
+                            "The box shows the first {} lines of this table ({} lines, {} characters), which is held in the page: showing it all would slow the page down for a long time. To change the data, edit them where they came from and paste or open them again. ",
+                            SHOWN_LINES,
+                            crate::base::format::count(d.lines().count() as u64),
+                            crate::base::format::count(d.len() as u64)
+                        ))}
+                        <button type="button" class="secondary" id="clear-data" on:click=move |_| {
+                            fm.data.set(String::new());
+                            fm.example.set(String::new());
+                            fm.file_note.set(String::new());
+                        }>"Clear the data box"</button>
+                    </p>
+                })}
                 <p class="file-note" aria-live="polite">{move || fm.file_note.get()}</p>
                 <div class="row">
                     <label for="header">"First row"</label>
@@ -173,12 +270,18 @@ pub fn DataStep(
                         <option value="data">"holds data"</option>
                     </select>
                 </div>
-                {move || match parsed.get() {
-                    Err(e) => view! { <p class="error" role="alert" id="data-error">{e}</p> }.into_any(),
-                    Ok(v) => view! {
+                {move || match table.get() {
+                    TableState::Bad(e) => view! { <p class="error" role="alert" id="data-error">{e}</p> }.into_any(),
+                    TableState::Reading(None) => view! { <p class="hint" id="reading-note" role="status">"Reading the table…"</p> }.into_any(),
+                    TableState::Reading(Some(v)) | TableState::Ready(v) => view! {
                         <div class="preview" id="preview">
-                            <p class="meta">{format!("{} rows, {} columns, {}-separated{}.", crate::base::format::count(v.rows as u64), v.columns.len(), v.delimiter,
-                                if v.header { ", names from the first row" } else { "" })}</p>
+                            <p class="meta" aria-live="polite">{if v.partial {
+                                format!("Reading the table… its first {} rows: {} columns, {}-separated{}.", crate::base::format::count(v.rows as u64), v.columns.len(), v.delimiter,
+                                    if v.header { ", names from the first row" } else { "" })
+                            } else {
+                                format!("{} rows, {} columns, {}-separated{}.", crate::base::format::count(v.rows as u64), v.columns.len(), v.delimiter,
+                                    if v.header { ", names from the first row" } else { "" })
+                            }}</p>
                             {(fm.data.with_untracked(|d| d.len()) > super::form::ADDRESS_DATA_LIMIT).then(|| view! {
                                 <p class="hint" id="large-data-note">"A table this large is not kept in the address bar (it holds the settings only): to keep the data with the analysis, use \"Copy link\" or \"Save analysis file\" with the findings."</p>
                             })}

@@ -15,7 +15,7 @@ use crate::designs::stratified::{StrataRequest, StrataWeights};
 use crate::designs::two_groups::{Statistic, TwoGroupsRequest};
 use crate::designs::yes_no::{parse_counts, YesNoInput, YesNoRequest, YesNoStatistic};
 use crate::designs::{TestSettings, KERNELS};
-use crate::input::columns::{self, Layout};
+use crate::input::columns::Layout;
 use crate::input::suggest::Suggestion;
 use crate::input::table::{ColumnKind, HeaderChoice};
 use crate::input::text::fingerprint;
@@ -236,44 +236,9 @@ pub fn kind_label(k: &ColumnKind) -> &'static str {
     }
 }
 
-/// A table read, or why it could not be.
-type Read = Result<std::rc::Rc<crate::input::table::Table>, crate::base::Error>;
-
-thread_local! {
-    /// The last table read, with the text and header choice it was read from.
-    static LAST_READ: std::cell::RefCell<Option<(String, HeaderChoice, Read)>> =
-        const { std::cell::RefCell::new(None) };
-}
-
-/// The table in the data box, read once per text and header choice: the preview, the column
-/// choice, the design suggestion and the group labels all ask for it after each change, and
-/// a large table takes a while to read.
-pub fn read_table(data: &str, header: HeaderChoice) -> Read {
-    LAST_READ.with(|last| {
-        let mut last = last.borrow_mut();
-        if let Some((text, h, result)) = last.as_ref() {
-            if *h == header && text == data {
-                return result.clone();
-            }
-        }
-        let result = crate::input::table::parse(data, header).map(std::rc::Rc::new);
-        *last = Some((data.to_string(), header, result.clone()));
-        result
-    })
-}
-
-/// The shape of a table (column names and kinds), to notice when a different table arrives.
-pub fn shape_of(data: &str, header: HeaderChoice) -> String {
-    match read_table(data, header) {
-        Ok(t) => t
-            .columns
-            .iter()
-            .map(|c| format!("{}:{}", c.name, kind_label(&c.kind)))
-            .collect::<Vec<_>>()
-            .join("|"),
-        Err(_) => String::new(),
-    }
-}
+/// What `shape_seen` holds after a restored job: the next table read keeps the job's design
+/// (no suggestion) and records its shape.
+pub const RESTORED_SHAPE: &str = "(restored)";
 
 impl Form {
     /// The form as the page opens: the first example and the defaults of the engine.
@@ -718,20 +683,17 @@ impl Form {
         Ok(Job::Plan(r))
     }
 
-    /// Sets the columns from the detected layout of the table in the data box; false when
-    /// no layout could be detected.
-    pub fn apply_detected(&self) -> bool {
-        let Ok(t) = read_table(&self.data.get_untracked(), self.header.get_untracked()) else {
-            return false;
-        };
-        match columns::detect_layout(&t) {
-            Ok(Layout::Long { value, group }) => {
+    /// Sets the columns from the layout detected in the table read (`detected`); false when
+    /// none was detected.
+    pub fn apply_detected(&self, detected: &Option<Layout>) -> bool {
+        match detected.clone() {
+            Some(Layout::Long { value, group }) => {
                 self.layout_kind.set("long".into());
                 self.value_col.set(value);
                 self.group_col.set(group);
                 true
             }
-            Ok(Layout::Wide { columns }) => {
+            Some(Layout::Wide { columns }) if columns.len() >= 2 => {
                 self.layout_kind.set("wide".into());
                 self.col_a.set(columns[0].clone());
                 self.col_b.set(columns[1].clone());

@@ -3,7 +3,7 @@
 
 use leptos::prelude::*;
 
-use super::form::{method_choice, percent_text, shape_of, Form};
+use super::form::{method_choice, percent_text, Form, RESTORED_SHAPE};
 use crate::designs::estimate::EstimateLayout;
 use crate::designs::paired::{sign_flip_settings, PairedLayout};
 use crate::designs::plan::{PlanDesign, PlanModel, PlanRequest};
@@ -26,8 +26,14 @@ impl Form {
                 self.col_b.set(columns.get(1).cloned().unwrap_or_default());
             }
             Layout::Detect => {
-                // Resolve now, so that a run straight after restoring has its columns.
-                self.apply_detected();
+                // Resolve now (reading the table here, even a large one), so that a run
+                // straight after restoring has its columns.
+                let detected = self.data.with_untracked(|d| {
+                    crate::input::outline::outline(d, self.header.get_untracked())
+                        .ok()
+                        .and_then(|o| o.layout)
+                });
+                self.apply_detected(&detected);
             }
         }
     }
@@ -97,7 +103,7 @@ impl Form {
             (data, header)
         };
         // The restored table's shape is not a new table: keep the design the job names.
-        self.shape_seen.set(shape_of(&data, header));
+        self.shape_seen.set(RESTORED_SHAPE.into());
         self.data.set(data);
         self.example.set(String::new());
         self.header.set(header);

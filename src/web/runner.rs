@@ -176,7 +176,8 @@ fn on_message(sinks: Sinks, index: usize, text: &str) {
             sinks.result.set(Some(*report));
             sinks.status.set(Status::Done);
         }
-        Ok(WorkerMessage::Done { .. }) => {}
+        // Late answers of an earlier run, and outlines (the reading worker's).
+        Ok(WorkerMessage::Done { .. } | WorkerMessage::Outline { .. }) => {}
         Ok(WorkerMessage::Paused { run, blocks }) => {
             // Gather the round; when every worker has answered, hand it to all of them.
             let next = POOL.with(|p| {
@@ -209,6 +210,25 @@ fn on_message(sinks: Sinks, index: usize, text: &str) {
 }
 
 fn spawn(sinks: Sinks, index: usize) -> Result<WorkerHandle, Error> {
+    spawn_with(
+        move |text| on_message(sinks, index, &text),
+        move |detail| {
+            sinks.status.set(Status::Failed(Error::settings(format!(
+                "The computation stopped unexpectedly{detail}. Your data and settings are \
+                 unchanged; try again, or with fewer resamples."
+            ))));
+            // A crashed worker cannot be reused.
+            stop();
+        },
+    )
+}
+
+/// Starts a worker whose messages go to `on_text` and whose crash (with its detail) to
+/// `on_crash`.
+fn spawn_with(
+    mut on_text: impl FnMut(String) + 'static,
+    mut on_crash: impl FnMut(String) + 'static,
+) -> Result<WorkerHandle, Error> {
     let opts = web_sys::WorkerOptions::new();
     opts.set_type(web_sys::WorkerType::Classic);
     // The single-file offline build starts the worker from a Blob URL it sets here.
@@ -223,7 +243,7 @@ fn spawn(sinks: Sinks, index: usize) -> Result<WorkerHandle, Error> {
     })?;
     let on_msg =
         Closure::<dyn FnMut(web_sys::MessageEvent)>::new(move |ev: web_sys::MessageEvent| {
-            on_message(sinks, index, &ev.data().as_string().unwrap_or_default());
+            on_text(ev.data().as_string().unwrap_or_default());
         });
     let on_error = Closure::<dyn FnMut(web_sys::Event)>::new(move |ev: web_sys::Event| {
         ev.prevent_default();
@@ -233,12 +253,7 @@ fn spawn(sinks: Sinks, index: usize) -> Result<WorkerHandle, Error> {
             .filter(|m| !m.is_empty())
             .map(|m| format!(" ({m})"))
             .unwrap_or_default();
-        sinks.status.set(Status::Failed(Error::settings(format!(
-            "The computation stopped unexpectedly{detail}. Your data and settings are unchanged; \
-             try again, or with fewer resamples."
-        ))));
-        // A crashed worker cannot be reused.
-        stop();
+        on_crash(detail);
     });
     worker.set_onmessage(Some(on_msg.as_ref().unchecked_ref()));
     worker.set_onerror(Some(on_error.as_ref().unchecked_ref()));
@@ -249,6 +264,111 @@ fn spawn(sinks: Sinks, index: usize) -> Result<WorkerHandle, Error> {
         _on_message: on_msg,
         _on_error: on_error,
     })
+}
+
+/// The worker that reads large tables for the page (apart from the ones that compute, so
+/// that reading never waits for a run), with the request it is on and the latest one
+/// waiting.
+/// Where the reading worker's answers go.
+type OutlineSink = std::rc::Rc<dyn Fn(u64, Result<crate::input::outline::Outline, Error>)>;
+
+#[derive(Default)]
+struct Reader {
+    handle: Option<WorkerHandle>,
+    busy: bool,
+    waiting: Option<String>,
+    done: Option<OutlineSink>,
+}
+
+thread_local! {
+    static READER: RefCell<Reader> = RefCell::new(Reader::default());
+}
+
+fn reader_post(text: String) {
+    READER.with(|r| {
+        let mut r = r.borrow_mut();
+        if r.busy {
+            // Only the latest table matters: an earlier one waiting is dropped.
+            r.waiting = Some(text);
+            return;
+        }
+        r.busy = true;
+        if let Some(h) = r.handle.as_mut() {
+            if h.ready {
+                let _ = h.worker.post_message(&JsValue::from_str(&text));
+            } else {
+                h.pending.push(text);
+            }
+        }
+    });
+}
+
+/// Asks the reading worker for the outline of a table; `done` gets (request number,
+/// outline or error) for each answer (the caller keeps only its latest request's; a crash
+/// of the worker answers with number u64::MAX).
+pub fn read_outline(
+    id: u64,
+    data: String,
+    header: crate::input::table::HeaderChoice,
+    done: impl Fn(u64, Result<crate::input::outline::Outline, Error>) + 'static,
+) -> Result<(), Error> {
+    READER.with(|r| r.borrow_mut().done = Some(std::rc::Rc::new(done)));
+    let sink = || READER.with(|r| r.borrow().done.clone());
+    let spawned = READER.with(|r| r.borrow().handle.is_some());
+    if !spawned {
+        let h = spawn_with(
+            move |text| match serde_json::from_str::<WorkerMessage>(&text) {
+                Ok(WorkerMessage::Ready) => READER.with(|r| {
+                    let mut r = r.borrow_mut();
+                    if let Some(h) = r.handle.as_mut() {
+                        h.ready = true;
+                        for m in std::mem::take(&mut h.pending) {
+                            let _ = h.worker.post_message(&JsValue::from_str(&m));
+                        }
+                    }
+                }),
+                Ok(WorkerMessage::Outline { id, outline }) => {
+                    let next = READER.with(|r| {
+                        let mut r = r.borrow_mut();
+                        r.busy = false;
+                        r.waiting.take()
+                    });
+                    if let Some(next) = next {
+                        reader_post(next);
+                    }
+                    if let Some(done) = sink() {
+                        done(id, *outline);
+                    }
+                }
+                _ => {}
+            },
+            move |detail| {
+                let done = sink();
+                READER.with(|r| {
+                    let mut r = r.borrow_mut();
+                    if let Some(h) = r.handle.take() {
+                        h.worker.terminate();
+                    }
+                    r.busy = false;
+                    r.waiting = None;
+                });
+                if let Some(done) = done {
+                    done(
+                        u64::MAX,
+                        Err(Error::settings(format!(
+                            "Reading the table stopped unexpectedly{detail}. The data box is \
+                             unchanged."
+                        ))),
+                    );
+                }
+            },
+        )?;
+        READER.with(|r| r.borrow_mut().handle = Some(h));
+    }
+    let text = serde_json::to_string(&PageMessage::Outline { id, data, header })
+        .map_err(|e| Error::settings(format!("The table could not be handed over: {e}")))?;
+    reader_post(text);
+    Ok(())
 }
 
 /// Hands a job (as saved-file JSON) to the workers, starting them if needed: to one worker

@@ -14,6 +14,24 @@ use crate::wire::{self, Job, PageMessage, SharedBlock, WorkerMessage};
 thread_local! {
     /// The job of a shared run and this worker's part in it, kept between its rounds.
     static SHARED: RefCell<Option<(u64, Job, Sharing)>> = const { RefCell::new(None) };
+    /// The furthest progress shown in a shared run: each round replays the run from the
+    /// start, and the page should not see its progress go back.
+    static SHOWN: RefCell<Option<(crate::base::Stage, u64)>> = const { RefCell::new(None) };
+}
+
+/// Whether progress `p` of a shared run goes beyond what was shown (and notes it if so).
+fn beyond_shown(p: &Progress) -> bool {
+    SHOWN.with(|s| {
+        let mut s = s.borrow_mut();
+        let ahead = match s.as_ref() {
+            Some((stage, done)) => *stage != p.stage || p.done > *done,
+            None => true,
+        };
+        if ahead {
+            *s = Some((p.stage.clone(), p.done));
+        }
+        ahead
+    })
 }
 
 fn post(scope: &DedicatedWorkerGlobalScope, msg: &WorkerMessage) {
@@ -28,15 +46,19 @@ fn post(scope: &DedicatedWorkerGlobalScope, msg: &WorkerMessage) {
 
 /// Handles one message: a job to run alone (its saved-file JSON), or a round of a shared run.
 fn handle(scope: &DedicatedWorkerGlobalScope, text: &str) {
-    if let Ok(PageMessage::Share {
-        run,
-        worker,
-        workers,
-        job,
-        blocks,
-    }) = serde_json::from_str::<PageMessage>(text)
-    {
-        return shared_round(scope, run, worker, workers, job, blocks);
+    match serde_json::from_str::<PageMessage>(text) {
+        Ok(PageMessage::Share {
+            run,
+            worker,
+            workers,
+            job,
+            blocks,
+        }) => return shared_round(scope, run, worker, workers, job, blocks),
+        Ok(PageMessage::Outline { id, data, header }) => {
+            let outline = Box::new(crate::input::outline::outline(&data, header));
+            return post(scope, &WorkerMessage::Outline { id, outline });
+        }
+        Err(_) => {}
     }
     // A job on its own: no table is kept for a next round.
     crate::input::table::keep_last_table(false);
@@ -59,6 +81,7 @@ fn shared_round(
     blocks: Vec<SharedBlock>,
 ) {
     if let Some(text) = job {
+        SHOWN.with(|s| *s.borrow_mut() = None);
         match wire::read_job(&text) {
             Ok(r) => SHARED.with(|s| {
                 *s.borrow_mut() = Some((run, r.job, Sharing::new(worker, workers)));
@@ -87,7 +110,7 @@ fn shared_round(
     let progress_scope = scope.clone();
     share::on_block(Some(Box::new(move |p: &Progress| {
         let now = js_sys::Date::now();
-        if now - last >= 100.0 {
+        if now - last >= 100.0 && beyond_shown(p) {
             last = now;
             post(&progress_scope, &WorkerMessage::Progress(p.clone()));
         }
@@ -96,7 +119,7 @@ fn shared_round(
     let mut last_replay = js_sys::Date::now();
     let mut progress = |p: &Progress| {
         let now = js_sys::Date::now();
-        if now - last_replay >= 100.0 {
+        if now - last_replay >= 100.0 && beyond_shown(p) {
             last_replay = now;
             post(scope, &WorkerMessage::Progress(p.clone()));
         }

@@ -264,6 +264,13 @@ pub enum WorkerMessage {
         /// What went wrong.
         error: Error,
     },
+    /// The outline of a table the page asked to have read.
+    Outline {
+        /// The page's number of the request.
+        id: u64,
+        /// The outline, or what is wrong with the table.
+        outline: Box<Result<crate::input::outline::Outline, Error>>,
+    },
     /// A shared run paused: this worker's share of the round (see
     /// [`crate::resample::share`]).
     Paused {
@@ -290,6 +297,14 @@ pub enum PageMessage {
         job: Option<String>,
         /// Blocks computed in the last round, by every worker.
         blocks: Vec<SharedBlock>,
+    },
+    /// Read a table and answer with its outline.
+    Outline {
+        /// The page's number of the request.
+        id: u64,
+        /// The table's text.
+        data: String,
+        header: crate::input::table::HeaderChoice,
     },
 }
 
