@@ -12,6 +12,8 @@
 //! - [`wire`]: the jobs and reports the faces exchange, format versions, share links;
 //! - [`render`]: findings as text, Markdown, HTML and CSV, and the figures as SVG.
 //!
+//! - [`page`]: the page's form as plain data, and its round trip with jobs.
+//!
 //! The faces sit on top: the native command ([`cli`]) and the page and its web worker
 //! (`web`, wasm only).
 
@@ -20,6 +22,7 @@ pub mod classical;
 pub mod designs;
 pub mod input;
 pub mod num;
+pub mod page;
 pub mod render;
 pub mod resample;
 pub mod wire;

@@ -8,7 +8,6 @@ pub mod findings;
 pub mod form;
 pub mod plan_step;
 pub mod question;
-mod restore;
 pub mod runner;
 pub mod share;
 pub mod worker;
