@@ -151,6 +151,20 @@ pub struct Progress {
     /// The p-value so far, in a run of random relabellings.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub running: Option<Running>,
+    /// The statistics so far, binned, for a figure that fills in while the run goes.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub sketch: Option<Sketch>,
+}
+
+/// The resampled statistics of a run so far, in equal bins over a range fixed by the first
+/// block (values beyond it fall in the end bins), with the observed value or estimate.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Sketch {
+    pub low: f64,
+    pub high: f64,
+    pub counts: Vec<u64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub mark: Option<f64>,
 }
 
 /// The Monte Carlo p-value of the relabellings drawn so far, (b + 1)/(m + 1), with its 99%

@@ -7,6 +7,6 @@ pub mod format;
 pub mod note;
 pub mod vocab;
 
-pub use error::{Error, ErrorKind, Progress, ProgressFn, Running, Stage};
+pub use error::{Error, ErrorKind, Progress, ProgressFn, Running, Sketch, Stage};
 pub use note::{InfiniteCause, Note};
 pub use vocab::*;

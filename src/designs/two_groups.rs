@@ -309,7 +309,7 @@ fn streaming_bootstrap(
         let sp = (((na - 1.0) * va + (nb - 1.0) * vb) / df).sqrt();
         [e, t, mean_diff / sp * j]
     };
-    let [e, t, g] = large_boot::resample_two(&xa, &xb, seed, total, progress, &f)?;
+    let [e, t, g] = large_boot::resample_two(&xa, &xb, seed, total, effect, progress, &f)?;
     let t = if studentize { t } else { Vec::new() };
     Ok((vec![e, g], vec![t, Vec::new()]))
 }

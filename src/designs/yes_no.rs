@@ -442,6 +442,7 @@ fn bootstrap(
             done: values.len() as u64,
             total,
             running: None,
+            sketch: None,
         }) {
             return Err(Error::cancelled());
         }
@@ -658,6 +659,7 @@ pub fn run(req: &YesNoRequest, progress: ProgressFn) -> Result<YesNoReport, Erro
         done: 1,
         total: 1,
         running: None,
+        sketch: None,
     }) {
         return Err(Error::cancelled());
     }

@@ -252,6 +252,41 @@ fn frame(h: &Histogram) -> Option<Frame> {
     })
 }
 
+/// The figure of a run's statistics so far (a progress sketch): bars of the resampled values
+/// drawn, the observed value or estimate marked; `what` names the resamples
+/// ("relabellings", "bootstrap resamples"). Returns the SVG and its text alternative.
+pub fn sketch_svg(sk: &crate::base::Sketch, what: &str, id: &str) -> (String, String) {
+    let bins = sk.counts.len().max(1);
+    let width = (sk.high - sk.low) / bins as f64;
+    let h = Histogram {
+        edges: (0..=bins).map(|i| sk.low + width * i as f64).collect(),
+        counts: sk.counts.clone(),
+        weights: None,
+    };
+    let drawn: u64 = sk.counts.iter().sum();
+    let desc = format!(
+        "The statistics of the {} {what} drawn so far, in {bins} bars from {} to {}{}; the \
+         figure fills in while the run goes.",
+        fmt::count(drawn),
+        fmt::sig(sk.low),
+        fmt::sig(sk.high),
+        sk.mark
+            .map(|m| format!(", the observed value {} marked", fmt::sig(m)))
+            .unwrap_or_default()
+    );
+    let mut out = String::new();
+    open(&mut out, id, &format!("The {what} so far"), &desc);
+    if let Some(f) = frame(&h) {
+        axes(&mut out, &f, "statistic", what);
+        bars(&mut out, &f, &h, (BODY, BODY), &|_| false);
+        if let Some(m) = sk.mark {
+            marker(&mut out, &f, m, "observed", false, m > 0.5 * (f.lo + f.hi));
+        }
+    }
+    out.push_str("</svg>");
+    (out, desc)
+}
+
 /// What a null-distribution figure shows.
 pub struct NullFigure<'a> {
     /// The statistic, e.g. "difference in means".

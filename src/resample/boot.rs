@@ -545,17 +545,23 @@ pub fn resample(
             rng::block_len(total, b),
         )
     };
+    // The first statistic's resamples so far, for a live figure marked at its estimate.
+    let mut sketcher = crate::resample::summary::Sketcher::new(stats_.first().map(|s| s.estimate));
     let described = |blocks: u64| Progress {
         stage: Stage::Bootstrap,
         done: (blocks * rng::BLOCK).min(total),
         total,
         running: None,
+        sketch: None,
     };
     let finished = parallel::in_order(
         rng::block_count(total),
         Rounds::All,
         &work,
         &mut |b, out| {
+            if let Some(first) = out.values.first() {
+                sketcher.add(first);
+            }
             for (k, (v, t)) in out.values.into_iter().zip(out.t).enumerate() {
                 values[k].extend(v);
                 tvals[k].extend(t);
@@ -566,6 +572,7 @@ pub fn resample(
                 done,
                 total,
                 running: None,
+                sketch: sketcher.get(),
             })
         },
         &described,

@@ -255,6 +255,9 @@ pub fn random_range_in(
         )
     };
     let mut ended = None;
+    // The statistics so far for a live figure, marked at the observed one.
+    let mut sketcher = crate::resample::summary::Sketcher::new(stop.map(|st| st.observed));
+    let mut sketched = 0;
     // Shared among workers, a run that may stop early goes in rounds of one settling check's
     // worth of relabellings, doubling.
     let rounds = match stop.filter(Stop::is_rule) {
@@ -266,6 +269,7 @@ pub fn random_range_in(
         done: ((first + done) * size).min(total),
         total,
         running: None,
+        sketch: None,
     };
     let finished = parallel::in_order(
         blocks.end - first,
@@ -303,6 +307,8 @@ pub fn random_range_in(
                     }
                 }
             }
+            sketcher.add(&values[sketched..]);
+            sketched = values.len();
             let go_on = progress(&Progress {
                 stage: stage.clone(),
                 done: counts.total,
@@ -310,6 +316,7 @@ pub fn random_range_in(
                 running: stop
                     .filter(|_| counts.total > 0)
                     .map(|st| st.running(&counts)),
+                sketch: sketcher.get(),
             });
             if ended.is_some() {
                 return false;
@@ -369,6 +376,7 @@ impl Relabelling {
                     done,
                     total: self.count,
                     running: None,
+                    sketch: None,
                 })
             };
             let (counts, values) = enumerate(&mut cb).ok_or(Error::cancelled())?;

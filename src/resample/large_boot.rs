@@ -311,12 +311,14 @@ impl Weights {
 /// statistics are read) as counts: block b of [`rng::LARGE_BLOCK`] resamples draws from the
 /// stream (seed, bootstrap, b), a's counts then b's for each resample, on the run's threads, merged in
 /// block order. `f` turns each pair of resamples into `K` numbers; the result holds every
-/// resample's numbers in order, one list per number.
+/// resample's numbers in order, one list per number. Progress carries a sketch of the first
+/// number so far, marked at `mark`.
 pub fn resample_two<const K: usize>(
     a: &[f64],
     b: &[f64],
     seed: u64,
     total: u64,
+    mark: f64,
     progress: ProgressFn,
     f: &(dyn Fn(&Weights, &Weights) -> [f64; K] + Sync),
 ) -> Result<[Vec<f64>; K], Error> {
@@ -336,17 +338,21 @@ pub fn resample_two<const K: usize>(
             .collect::<Vec<[f64; K]>>()
     };
     let mut done = 0;
+    let mut sketcher = crate::resample::summary::Sketcher::new(Some(mark));
     let described = |blocks: u64| Progress {
         stage: Stage::Bootstrap,
         done: (blocks * size).min(total),
         total,
         running: None,
+        sketch: None,
     };
     let finished = parallel::in_order(
         count,
         Rounds::All,
         &work,
         &mut |blk, rows| {
+            let firsts: Vec<f64> = rows.iter().map(|r| r[0]).collect();
+            sketcher.add(&firsts);
             for r in rows {
                 for (list, v) in out.iter_mut().zip(r) {
                     list.push(v);
@@ -358,6 +364,7 @@ pub fn resample_two<const K: usize>(
                 done,
                 total,
                 running: None,
+                sketch: sketcher.get(),
             })
         },
         &described,

@@ -105,6 +105,7 @@ mod tests {
             done,
             total: 100,
             running: None,
+            sketch: None,
         }
     }
 

@@ -111,6 +111,16 @@ pub fn RunStatus(status: RwSignal<Status>) -> impl IntoView {
                             <progress id="progress" max="100" value=format!("{pct:.0}")></progress>
                         </div>
                         {words::running(&p).map(|r| view! { <p class="hint" id="running-p">{r}</p> })}
+                        {p.sketch.as_ref().map(|sk| {
+                            let what = if matches!(p.stage, crate::base::Stage::Bootstrap) { "bootstrap resamples" } else { "relabellings" };
+                            let (svg, desc) = crate::render::plot::sketch_svg(sk, what, "live");
+                            view! {
+                                <figure class="live-figure" id="live-figure">
+                                    <div class="svg" inner_html=svg></div>
+                                    <figcaption class="hint">{desc}</figcaption>
+                                </figure>
+                            }
+                        })}
                     }.into_any()
                 }
                 Status::Failed(e) => view! {

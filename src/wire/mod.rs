@@ -69,6 +69,7 @@ macro_rules! registry {
                         done: 0,
                         total: 0,
                         running: None,
+                        sketch: None,
                     })
                 {
                     return Err(Error::cancelled());

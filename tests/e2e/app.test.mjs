@@ -126,6 +126,16 @@ test("a long run shows progress and can be stopped", async () => {
   await page.waitForSelector("#progress", { timeout: 30000 });
   // The p-value so far, with its interval, while the run goes.
   await page.waitForFunction(() => /so far p ≈ [\d.e-]+ \(b = [\d,]+ of [\d,]+; 99% interval/.test(document.querySelector("#running-p")?.textContent || ""), null, { timeout: 30000 });
+  // The relabelled statistics fill in a figure while the run goes: its bars grow.
+  const drawn = async () => Number(((await page.textContent("#live-figure figcaption")) || "").match(/of the ([\d,]+) relabellings/)[1].replace(/,/g, ""));
+  await page.waitForSelector("#live-figure svg[role=img] desc", { state: "attached", timeout: 30000 });
+  const before = await drawn();
+  await page.waitForFunction((n) => {
+    const m = (document.querySelector("#live-figure figcaption")?.textContent || "").match(/of the ([\d,]+) relabellings/);
+    return m && Number(m[1].replace(/,/g, "")) > n;
+  }, before, { timeout: 30000 });
+  assert.ok((await page.$$("#live-figure svg rect")).length > 5, "bars drawn");
+  await page.screenshot({ path: path.join(out, "live-figure.png") });
   await page.click("#stop");
   await page.waitForFunction(() => /Stopped/.test(document.querySelector("#status")?.textContent || ""));
   // The page still works after stopping: a small run completes.

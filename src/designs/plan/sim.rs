@@ -213,6 +213,7 @@ impl Sim {
             done: (b * BATCH).min(studies),
             total: studies,
             running: None,
+            sketch: None,
         };
         let shared_rounds = if early.is_some() {
             Rounds::Doubling(2)
@@ -231,6 +232,7 @@ impl Sim {
                     done,
                     total: studies,
                     running: None,
+                    sketch: None,
                 }) {
                     cancelled = true;
                     return false;
