@@ -5,8 +5,9 @@
 use leptos::prelude::*;
 
 use super::form::{kind_label, Form, EXAMPLES};
+use super::widgets::ColumnSelect;
 use crate::input::outline::{self, Outline};
-use crate::input::table::{ColumnKind, HeaderChoice};
+use crate::input::table::HeaderChoice;
 use crate::render::words;
 use crate::wire;
 
@@ -366,22 +367,4 @@ fn read_file(file: web_sys::File, load: impl Fn(String, String) + 'static, note:
             )),
         }
     });
-}
-
-/// A list of the table's columns, each with its kind.
-#[component]
-pub fn ColumnSelect(
-    id: &'static str,
-    options: Signal<Vec<(String, ColumnKind)>>,
-    chosen: RwSignal<String>,
-) -> impl IntoView {
-    view! {
-        <select id=id on:change=move |ev| chosen.set(event_target_value(&ev))>
-            {move || options.get().into_iter().map(|(name, kind)| {
-                let n2 = name.clone();
-                let label = format!("{name} ({})", kind_label(&kind));
-                view! { <option value=name selected=move || chosen.get() == n2>{label}</option> }
-            }).collect_view()}
-        </select>
-    }
 }

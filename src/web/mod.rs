@@ -4,10 +4,12 @@
 
 pub mod app;
 pub mod data_step;
+pub mod design_options;
 pub mod findings;
 pub mod form;
 pub mod plan_step;
-pub mod question;
+mod question;
 pub mod runner;
 pub mod share;
+pub mod widgets;
 pub mod worker;

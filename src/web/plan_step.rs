@@ -3,8 +3,8 @@
 
 use leptos::prelude::*;
 
-use super::data_step::ColumnSelect;
 use super::form::Form;
+use super::widgets::ColumnSelect;
 use crate::base::Alternative;
 use crate::input::table::ColumnKind;
 

@@ -3,16 +3,16 @@
 
 use leptos::prelude::*;
 
-use super::data_step::ColumnSelect;
-use super::form::{kind_label, Form};
+use super::design_options::{
+    AssociationOptions, GroupPair, KGroupsOptions, OneSampleOptions, PairedOptions, StrataOptions,
+    TwoGroupsOptions, YesNoOptions,
+};
+use super::form::Form;
+use super::widgets::{
+    display, ColumnSelect, KeySelect, OptionalColumnSelect, TypedSelect, INTERVAL_CHOICES,
+};
 use crate::base::{Alternative, Side, TwoSidedRule};
-use crate::designs::association::AssocStatistic;
 use crate::designs::estimate::{Estimate, Kind};
-use crate::designs::k_groups::KStatistic;
-use crate::designs::paired::FlipStatistic;
-use crate::designs::stratified::StrataWeights;
-use crate::designs::two_groups::Statistic;
-use crate::designs::yes_no::{parse_counts, YesNoStatistic};
 use crate::input::table::ColumnKind;
 
 /// The design names as the page shows them.
@@ -22,27 +22,54 @@ pub fn design_label(key: &str) -> &'static str {
         .unwrap_or("another design")
 }
 
-/// The design and what it compares, for a test with an interval.
+/// The design and what it compares, for a test with an interval: the design, the
+/// suggestion from the table, each design's options, the groups and the question.
 #[component]
 pub fn CompareOptions(
     fm: Form,
     levels: Memo<Vec<String>>,
     columns: Signal<Vec<(String, ColumnKind)>>,
 ) -> impl IntoView {
-    let column_options = move || columns.get();
     view! {
-                <div class="row" style:display=move || if fm.mode.get() == "compare" { "flex" } else { "none" }>
-                    <label for="design">"Design"</label>
-                    <select id="design" on:change=move |ev| fm.design.set(event_target_value(&ev))>
-                        <option value="two-groups" selected=move || fm.design.get() == "two-groups">"two independent groups"</option>
-                        <option value="paired" selected=move || fm.design.get() == "paired">"paired: each unit measured twice (one column per measurement)"</option>
-                        <option value="one-sample" selected=move || fm.design.get() == "one-sample">"one sample against a reference value"</option>
-                        <option value="association" selected=move || fm.design.get() == "association">"association between two numeric columns"</option>
-                        <option value="k-groups" selected=move || fm.design.get() == "k-groups">"three or more independent groups"</option>
-                        <option value="stratified" selected=move || fm.design.get() == "stratified">"two groups compared within strata (site, batch, day)"</option>
-                        <option value="yes-no" selected=move || fm.design.get() == "yes-no">"yes/no outcomes in two groups"</option>
-                    </select>
-                </div>
+        <DesignChoice fm=fm/>
+        <DesignSuggestion fm=fm/>
+        <KGroupsOptions fm=fm levels=levels columns=columns/>
+        <StrataOptions fm=fm columns=columns/>
+        <YesNoOptions fm=fm/>
+        <AssociationOptions fm=fm columns=columns/>
+        <OneSampleOptions fm=fm columns=columns/>
+        <PairedOptions fm=fm columns=columns/>
+        <GroupPair fm=fm levels=levels/>
+        <div class="compare-options" style:display=move || display(fm.mode.get() == "compare", "block")>
+            <TwoGroupsOptions fm=fm/>
+            <Questions fm=fm levels=levels/>
+        </div>
+    }
+}
+
+/// The design of a comparison.
+#[component]
+fn DesignChoice(fm: Form) -> impl IntoView {
+    view! {
+        <div class="row" style:display=move || display(fm.mode.get() == "compare", "flex")>
+            <label for="design">"Design"</label>
+            <KeySelect id="design" chosen=fm.design choices=vec![
+                ("two-groups", "two independent groups"),
+                ("paired", "paired: each unit measured twice (one column per measurement)"),
+                ("one-sample", "one sample against a reference value"),
+                ("association", "association between two numeric columns"),
+                ("k-groups", "three or more independent groups"),
+                ("stratified", "two groups compared within strata (site, batch, day)"),
+                ("yes-no", "yes/no outcomes in two groups"),
+            ]/>
+        </div>
+    }
+}
+
+/// The design the table's shape suggested, with the others that fit it as well.
+#[component]
+fn DesignSuggestion(fm: Form) -> impl IntoView {
+    view! {
                 <div class="suggestion" id="suggestion" aria-live="polite" style:display=move || if fm.mode.get() == "compare" && !fm.suggestion_note.get().is_empty() { "block" } else { "none" }>
                     <p class="hint">{move || fm.suggestion_note.get()}</p>
                     {move || {
@@ -53,7 +80,7 @@ pub fn CompareOptions(
                                 {alts.into_iter().map(|a| {
                                     let a2 = a.clone();
                                     view! {
-                                        <button type="button" class="secondary" fm.data-fm.design=a.clone()
+                                        <button type="button" class="secondary" data-design=a.clone()
                                             on:click=move |_| fm.design.set(a2.clone())>{design_label(&a)}</button>
                                     }
                                 }).collect_view()}
@@ -61,178 +88,13 @@ pub fn CompareOptions(
                         })
                     }}
                 </div>
-                <div class="design-options" id="k-options" style:display=move || if fm.mode.get() == "compare" && fm.design.get() == "k-groups" { "block" } else { "none" }>
-                    <fieldset style:display=move || if fm.layout_kind.get() == "wide" { "block" } else { "none" }>
-                        <legend>"Groups (one column each)"</legend>
-                        {move || column_options().into_iter().filter(|(_, k)| matches!(k, ColumnKind::Number | ColumnKind::NumberWithText)).map(|(name, _)| {
-                            let (n2, n3) = (name.clone(), name.clone());
-                            view! {
-                                <label class="choice inline">
-                                    <input type="checkbox" value=name.clone()
-                                        prop:checked=move || fm.k_columns.get().contains(&n2)
-                                        on:change=move |ev| {
-                                            let on = event_target_checked(&ev);
-                                            fm.k_columns.update(|v| {
-                                                v.retain(|c| *c != n3);
-                                                if on { v.push(n3.clone()) }
-                                            });
-                                        }/>
-                                    {name}
-                                </label>
-                            }
-                        }).collect_view()}
-                    </fieldset>
-                    <div class="row">
-                        <label for="k-stat">"Measure the differences by"</label>
-                        <select id="k-stat" on:change=move |ev| {
-                            if let Some(x) = KStatistic::from_key(&event_target_value(&ev)) { fm.k_stat.set(x) }
-                        }>
-                            <option value="f" selected=move || fm.k_stat.get() == KStatistic::F>"F statistic (spread of the group means)"</option>
-                            <option value="welch-f" selected=move || fm.k_stat.get() == KStatistic::WelchF>"Welch F (allows unequal spreads)"</option>
-                            <option value="median-spread" selected=move || fm.k_stat.get() == KStatistic::MedianSpread>"spread of the group medians"</option>
-                        </select>
-                        <label for="control">"Follow-up comparisons"</label>
-                        <select id="control" on:change=move |ev| fm.control.set(event_target_value(&ev))>
-                            <option value="" selected=move || fm.control.get().is_empty()>"every pair of groups"</option>
-                            {move || levels.get().into_iter().map(|l| {
-                                let (l2, l3) = (l.clone(), l.clone());
-                                view! { <option value=l3 selected=move || fm.control.get() == l2>{format!("each group against {l}")}</option> }
-                            }).collect_view()}
-                        </select>
-                    </div>
-                </div>
-                <div class="design-options" id="strata-options" style:display=move || if fm.mode.get() == "compare" && fm.design.get() == "stratified" { "block" } else { "none" }>
-                    <div class="row">
-                        <label for="strata-col">"Strata (site, batch, day) in column"</label>
-                        <select id="strata-col" on:change=move |ev| fm.strata_col.set(event_target_value(&ev))>
-                            <option value="" selected=move || fm.strata_col.get().is_empty()>"(choose a column)"</option>
-                            {move || column_options().into_iter().map(|(name, kind)| {
-                                let (n2, n3) = (name.clone(), name.clone());
-                                let label = format!("{name} ({})", kind_label(&kind));
-                                view! { <option value=n3 selected=move || fm.strata_col.get() == n2>{label}</option> }
-                            }).collect_view()}
-                        </select>
-                        <label for="weights">"Average the stratum differences"</label>
-                        <select id="weights" on:change=move |ev| {
-                            if let Some(w) = StrataWeights::from_key(&event_target_value(&ev)) { fm.weights.set(w) }
-                        }>
-                            <option value="size" selected=move || fm.weights.get() == StrataWeights::Size>"weighted by stratum size"</option>
-                            <option value="precision" selected=move || fm.weights.get() == StrataWeights::Precision>"weighted for precision: n1·n2/(n1 + n2)"</option>
-                        </select>
-                    </div>
-                    <p class="hint">"Labels are shuffled only within each stratum. When the strata differ in level and the groups are spread unevenly over them, ignoring the strata mixes the strata's difference into the groups' difference and can even reverse its sign; comparing within strata removes it. The findings show the difference with the strata ignored, for contrast."</p>
-                </div>
-                <div class="design-options" id="yes-no-options" style:display=move || if fm.mode.get() == "compare" && fm.design.get() == "yes-no" { "block" } else { "none" }>
-                    <fieldset>
-                        <legend>"Where are the outcomes?"</legend>
-                        <label class="choice">
-                            <input type="radio" name="yn-source" value="table" prop:checked=move || fm.yn_source.get() == "table"
-                                on:change=move |_| fm.yn_source.set("table".into())/>
-                            "In the table: the values column holds 1/0, yes/no, true/false or pass/fail, the groups column names each row's group"
-                        </label>
-                        <label class="choice">
-                            <input type="radio" name="yn-source" value="counts" id="yn-counts-choice" prop:checked=move || fm.yn_source.get() == "counts"
-                                on:change=move |_| fm.yn_source.set("counts".into())/>
-                            "As counts: yes answers out of each group's size"
-                        </label>
-                    </fieldset>
-                    <div class="row" style:display=move || if fm.yn_source.get() == "counts" { "flex" } else { "none" }>
-                        <label for="counts">"Counts"</label>
-                        <input id="counts" size="36" prop:value=move || fm.counts_text.get()
-                            on:input=move |ev| fm.counts_text.set(event_target_value(&ev))/>
-                        <span class="hint">"e.g. control: 42/300, new: 61/310"</span>
-                    </div>
-                    <p class="error" role="alert" id="counts-error">{move || {
-                        if fm.design.get() == "yes-no" && fm.yn_source.get() == "counts" {
-                            parse_counts(&fm.counts_text.get()).err().unwrap_or_default()
-                        } else {
-                            String::new()
-                        }
-                    }}</p>
-                    <div class="row">
-                        <label for="yn-stat">"Measure the difference by"</label>
-                        <select id="yn-stat" on:change=move |ev| {
-                            if let Some(x) = YesNoStatistic::from_key(&event_target_value(&ev)) { fm.yn_stat.set(x) }
-                        }>
-                            <option value="proportion-difference" selected=move || fm.yn_stat.get() == YesNoStatistic::ProportionDifference>"difference in proportions"</option>
-                            <option value="risk-ratio" selected=move || fm.yn_stat.get() == YesNoStatistic::RiskRatio>"risk ratio"</option>
-                            <option value="odds-ratio" selected=move || fm.yn_stat.get() == YesNoStatistic::OddsRatio>"odds ratio"</option>
-                        </select>
-                    </div>
-                </div>
-                <div class="row" style:display=move || if fm.mode.get() == "compare" && fm.design.get() == "association" { "flex" } else { "none" }>
-                    <label for="assoc-x">"x"</label>
-                    <ColumnSelect id="assoc-x" options=Signal::derive(column_options) chosen=fm.est_x/>
-                    <label for="assoc-y">"y"</label>
-                    <ColumnSelect id="assoc-y" options=Signal::derive(column_options) chosen=fm.est_y/>
-                    <label for="assoc-stat">"measured by"</label>
-                    <select id="assoc-stat" on:change=move |ev| {
-                        if let Some(x) = AssocStatistic::from_key(&event_target_value(&ev)) { fm.assoc_stat.set(x) }
-                    }>
-                        <option value="pearson" selected=move || fm.assoc_stat.get().key() == "pearson">"Pearson correlation r"</option>
-                        <option value="spearman" selected=move || fm.assoc_stat.get().key() == "spearman">"Spearman rank correlation rho"</option>
-                        <option value="slope" selected=move || fm.assoc_stat.get().key() == "slope">"least-squares slope of y on x"</option>
-                    </select>
-                </div>
-                <div class="row" style:display=move || if fm.mode.get() == "compare" && fm.design.get() == "one-sample" { "flex" } else { "none" }>
-                    <label for="one-value">"Values"</label>
-                    <ColumnSelect id="one-value" options=Signal::derive(column_options) chosen=fm.est_value/>
-                    <label for="reference">"reference value"</label>
-                    <input id="reference" inputmode="decimal" size="8" prop:value=move || fm.reference.get()
-                        on:input=move |ev| fm.reference.set(event_target_value(&ev))/>
-                </div>
-                <p class="hint" style:display=move || if fm.mode.get() == "compare" && fm.design.get() == "paired" && fm.layout_kind.get() == "wide" { "block" } else { "none" }>
-                    "Each measurement in its own column, one row per unit; the difference is the first minus the second."
-                </p>
-                <div class="row" style:display=move || if fm.mode.get() == "compare" && fm.design.get() == "paired" && fm.layout_kind.get() == "long" { "flex" } else { "none" }>
-                    <label for="unit-col">"Units (plant, patient, machine) in column"</label>
-                    <select id="unit-col" on:change=move |ev| fm.unit_col.set(event_target_value(&ev))>
-                        <option value="" selected=move || fm.unit_col.get().is_empty()>"(choose a column)"</option>
-                        {move || column_options().into_iter().map(|(name, kind)| {
-                            let (n2, n3) = (name.clone(), name.clone());
-                            let label = format!("{name} ({})", kind_label(&kind));
-                            view! { <option value=n3 selected=move || fm.unit_col.get() == n2>{label}</option> }
-                        }).collect_view()}
-                    </select>
-                    <span class="hint">"the difference is the first measurement minus the second, unit by unit"</span>
-                </div>
-                <div class="row" style:display=move || if fm.mode.get() == "compare" && (fm.design.get() == "paired" || fm.design.get() == "one-sample") { "flex" } else { "none" }>
-                    <label for="flip-stat">"Summarise the differences by their"</label>
-                    <select id="flip-stat" on:change=move |ev| {
-                        if let Some(x) = FlipStatistic::from_key(&event_target_value(&ev)) { fm.flip_stat.set(x) }
-                    }>
-                        <option value="mean" selected=move || fm.flip_stat.get().key() == "mean">"mean"</option>
-                        <option value="median" selected=move || fm.flip_stat.get().key() == "median">"median"</option>
-                    </select>
-                </div>
-                <div class="row" style:display=move || if (fm.mode.get() == "compare" && (matches!(fm.design.get().as_str(), "two-groups" | "paired" | "stratified") || (fm.design.get() == "yes-no" && fm.yn_source.get() == "table"))) || (fm.mode.get() == "estimate" && fm.est_kind.get().kind() == Kind::Two) { "flex" } else { "none" }>
-                    <label for="first">"Compare"</label>
-                    <select id="first" on:change=move |ev| fm.first.set(event_target_value(&ev))>
-                        {move || levels.get().into_iter().map(|l| {
-                            let (l2, l3) = (l.clone(), l.clone());
-                            view! { <option value=l3 selected=move || fm.first.get() == l2>{l}</option> }
-                        }).collect_view()}
-                    </select>
-                    <label for="second">"with"</label>
-                    <select id="second" on:change=move |ev| fm.second.set(event_target_value(&ev))>
-                        {move || levels.get().into_iter().filter(|l| *l != fm.first.get()).map(|l| {
-                            let (l2, l3) = (l.clone(), l.clone());
-                            view! { <option value=l3 selected=move || fm.second.get() == l2>{l}</option> }
-                        }).collect_view()}
-                    </select>
-                </div>
-                <div class="compare-options" style:display=move || if fm.mode.get() == "compare" { "block" } else { "none" }>
-                <div class="row" style:display=move || if fm.design.get() == "two-groups" { "flex" } else { "none" }>
-                    <label for="statistic">"Measure the difference by"</label>
-                    <select id="statistic" on:change=move |ev| {
-                        if let Some(s) = Statistic::from_key(&event_target_value(&ev)) { fm.statistic.set(s) }
-                    }>
-                        <option value="mean-difference" selected=move || fm.statistic.get().key() == "mean-difference">"difference in means"</option>
-                        <option value="median-difference" selected=move || fm.statistic.get().key() == "median-difference">"difference in medians"</option>
-                        <option value="trimmed-mean-difference" selected=move || fm.statistic.get().key() == "trimmed-mean-difference">"difference in 20% trimmed means"</option>
-                        <option value="welch-t" selected=move || fm.statistic.get().key() == "welch-t">"Welch t (allows unequal spreads)"</option>
-                    </select>
-                </div>
+    }
+}
+
+/// Which answer the test is after: the direction, worded for the design.
+#[component]
+fn Questions(fm: Form, levels: Memo<Vec<String>>) -> impl IntoView {
+    view! {
                 <fieldset>
                     <legend>"Which answer are you after?"</legend>
                     {move || {
@@ -304,14 +166,12 @@ pub fn CompareOptions(
                         }).collect_view()
                     }}
                 </fieldset>
-                </div>
     }
 }
 
 /// What to estimate, from which columns, with which intervals.
 #[component]
 pub fn EstimateOptions(fm: Form, columns: Signal<Vec<(String, ColumnKind)>>) -> impl IntoView {
-    let column_options = move || columns.get();
     view! {
                 <div class="estimate-options" style:display=move || if fm.mode.get() == "estimate" { "block" } else { "none" }>
                     <div class="row">
@@ -338,24 +198,18 @@ pub fn EstimateOptions(fm: Form, columns: Signal<Vec<(String, ColumnKind)>>) -> 
                     </div>
                     <div class="row" style:display=move || if fm.est_kind.get().kind() == Kind::One { "flex" } else { "none" }>
                         <label for="est-value">"Values"</label>
-                        <ColumnSelect id="est-value" options=Signal::derive(column_options) chosen=fm.est_value/>
+                        <ColumnSelect id="est-value" options=columns chosen=fm.est_value/>
                         <label for="est-strata">"Resample within strata of"</label>
-                        <select id="est-strata" on:change=move |ev| fm.est_strata.set(event_target_value(&ev))>
-                            <option value="" selected=move || fm.est_strata.get().is_empty()>"(no strata)"</option>
-                            {move || column_options().into_iter().map(|(name, _)| {
-                                let (n2, n3) = (name.clone(), name.clone());
-                                view! { <option value=n3 selected=move || fm.est_strata.get() == n2>{name}</option> }
-                            }).collect_view()}
-                        </select>
+                        <OptionalColumnSelect id="est-strata" options=columns chosen=fm.est_strata blank="(no strata)" kinds=false/>
                     </div>
                     <p class="hint" style:display=move || if fm.est_kind.get().kind() == Kind::One && fm.layout_kind.get() == "long" { "block" } else { "none" }>
                         "Every value in this column is used, whatever its group. To estimate within one group, paste only that group's rows."
                     </p>
                     <div class="row" style:display=move || if fm.est_kind.get().kind() == Kind::Association { "flex" } else { "none" }>
                         <label for="est-x">"x"</label>
-                        <ColumnSelect id="est-x" options=Signal::derive(column_options) chosen=fm.est_x/>
+                        <ColumnSelect id="est-x" options=columns chosen=fm.est_x/>
                         <label for="est-y">"y"</label>
-                        <ColumnSelect id="est-y" options=Signal::derive(column_options) chosen=fm.est_y/>
+                        <ColumnSelect id="est-y" options=columns chosen=fm.est_y/>
                     </div>
                     <div class="row" style:display=move || if fm.est_kind.get().kind() == Kind::Two && fm.layout_kind.get() == "wide" { "flex" } else { "none" }>
                         <label class="choice">
@@ -366,22 +220,13 @@ pub fn EstimateOptions(fm: Form, columns: Signal<Vec<(String, ColumnKind)>>) -> 
                     </div>
                     <div class="row">
                         <label for="est-methods">"Interval method"</label>
-                        <select id="est-methods" on:change=move |ev| fm.est_methods.set(event_target_value(&ev))>
-                            <option value="all" selected=move || fm.est_methods.get() == "all">"all five, side by side (BCa first)"</option>
-                            <option value="bca" selected=move || fm.est_methods.get() == "bca">"BCa (bias-corrected and accelerated)"</option>
-                            <option value="percentile" selected=move || fm.est_methods.get() == "percentile">"percentile"</option>
-                            <option value="basic" selected=move || fm.est_methods.get() == "basic">"basic (reverse percentile)"</option>
-                            <option value="normal" selected=move || fm.est_methods.get() == "normal">"normal, with bootstrap SE"</option>
-                            <option value="studentized" selected=move || fm.est_methods.get() == "studentized">"studentized (bootstrap-t)"</option>
-                        </select>
+                        <KeySelect id="est-methods" chosen=fm.est_methods choices=std::iter::once(("all", "all five, side by side (BCa first)")).chain(INTERVAL_CHOICES[..5].iter().copied()).collect()/>
                         <label for="side">"Give"</label>
-                        <select id="side" on:change=move |ev| {
-                            if let Some(x) = Side::from_key(&event_target_value(&ev)) { fm.side.set(x) }
-                        }>
-                            <option value="two-sided" selected=move || fm.side.get().key() == "two-sided">"a two-sided interval"</option>
-                            <option value="lower" selected=move || fm.side.get().key() == "lower">"a lower bound only"</option>
-                            <option value="upper" selected=move || fm.side.get().key() == "upper">"an upper bound only"</option>
-                        </select>
+                        <TypedSelect id="side" chosen=fm.side key=Side::key choices=vec![
+                            (Side::TwoSided, "a two-sided interval"),
+                            (Side::Lower, "a lower bound only"),
+                            (Side::Upper, "an upper bound only"),
+                        ]/>
                     </div>
                 </div>
     }
@@ -413,21 +258,12 @@ pub fn Settings(fm: Form) -> impl IntoView {
                         <input id="confidence" inputmode="decimal" prop:value=move || fm.confidence.get()
                             on:input=move |ev| fm.confidence.set(event_target_value(&ev))/>
                         <label class="compare-only" for="interval">"Interval method"</label>
-                        <select class="compare-only" id="interval" on:change=move |ev| fm.interval_choice.set(event_target_value(&ev))>
-                            <option value="bca" selected=move || fm.interval_choice.get() == "bca">"BCa (bias-corrected and accelerated)"</option>
-                            <option value="percentile" selected=move || fm.interval_choice.get() == "percentile">"percentile"</option>
-                            <option value="basic" selected=move || fm.interval_choice.get() == "basic">"basic (reverse percentile)"</option>
-                            <option value="normal" selected=move || fm.interval_choice.get() == "normal">"normal, with bootstrap SE"</option>
-                            <option value="studentized" selected=move || fm.interval_choice.get() == "studentized">"studentized (bootstrap-t)"</option>
-                            <option value="all" selected=move || fm.interval_choice.get() == "all">"all five, side by side"</option>
-                        </select>
+                        <KeySelect class="compare-only" id="interval" chosen=fm.interval_choice choices=INTERVAL_CHOICES.to_vec()/>
                         <label class="compare-only" for="two-sided">"Two-sided p-value"</label>
-                        <select class="compare-only" id="two-sided" on:change=move |ev| {
-                            if let Some(m) = TwoSidedRule::from_key(&event_target_value(&ev)) { fm.two_sided.set(m) }
-                        }>
-                            <option value="absolute" selected=move || fm.two_sided.get().key() == "absolute">"count |relabelled| ≥ |observed|"</option>
-                            <option value="doubled-tail" selected=move || fm.two_sided.get().key() == "doubled-tail">"twice the smaller one-sided p"</option>
-                        </select>
+                        <TypedSelect class="compare-only" id="two-sided" chosen=fm.two_sided key=TwoSidedRule::key choices=vec![
+                            (TwoSidedRule::Absolute, "count |relabelled| ≥ |observed|"),
+                            (TwoSidedRule::DoubledTail, "twice the smaller one-sided p"),
+                        ]/>
                         <label class="seed-field" for="seed">"Seed (blank: a new one)"</label>
                         <div class="seed-row seed-field">
                             <input id="seed" inputmode="numeric" prop:value=move || fm.seed.get()
