@@ -186,7 +186,7 @@ fn streaming_runs_are_the_same_on_any_number_of_threads() {
     set_threads(0);
 }
 
-/// A median and a trimmed-mean difference stream as well, and agree with the
+/// A median, a trimmed-mean and a rank-sum difference stream as well, and agree with the
 /// partial-shuffle kernel's p-value within Monte Carlo error (both estimate the same
 /// permutation p-value).
 #[test]

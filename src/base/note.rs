@@ -195,6 +195,14 @@ pub enum Note {
     /// The bootstrap SE of a ratio exceeds the ratio.
     UnstableRatio,
 
+    /// Tied values share a mid-rank: the rank statistic's null distribution is that of the
+    /// mid-ranks, not the tie-free tables.
+    TiedRanks {
+        /// Values that share their value with another.
+        values: usize,
+        /// In how many groups of equal values.
+        groups: usize,
+    },
     /// Relabellings and/or bootstrap resamples of a large sample were drawn by the streaming
     /// kernels of generation 2.
     StreamingKernels {

@@ -50,7 +50,7 @@ pub enum WeightsArg {
 #[derive(Args, Debug, Clone)]
 #[command(
     after_help = "Statistics by design: two groups: mean-difference (default), \
-    median-difference, trimmed-mean-difference, welch-t; paired and one-sample: mean, median; \
+    median-difference, trimmed-mean-difference, welch-t, rank-sum; paired and one-sample: mean, median; \
     association: pearson, spearman, slope; k groups: f, welch-f, median-spread; yes/no: \
     proportion-difference, risk-ratio, odds-ratio."
 )]
@@ -195,7 +195,7 @@ impl AnalyzeArgs {
                     &self.statistic,
                     Statistic::from_key,
                     Statistic::MeanDifference,
-                    "mean-difference, median-difference, trimmed-mean-difference or welch-t",
+                    "mean-difference, median-difference, trimmed-mean-difference, welch-t or rank-sum",
                 )?;
                 r.settings = self.settings(TestSettings::new(0));
                 Job::TwoGroups(r)

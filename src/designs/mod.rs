@@ -413,6 +413,12 @@ pub enum Caution {
         /// Largest SD over smallest.
         ratio: f64,
     },
+    /// Unequal spreads with unequal group sizes under a rank statistic: the rank-sum test
+    /// then reacts to the spread as well as to a shift.
+    UnequalSpreadsRanks {
+        /// Largest SD over smallest.
+        ratio: f64,
+    },
     /// Correlation is not causation.
     NotCausation,
     /// The omnibus test says whether, the follow-ups say where; Holm against BH.

@@ -103,6 +103,13 @@ pub struct TwoGroupsReport {
     pub welch: Welch,
     /// Hedges' g with its bootstrap interval.
     pub hedges_g: EffectSize,
+    /// For the rank-sum statistic: Cliff's delta, 2 × the probability of superiority − 1,
+    /// with its interval (the superiority interval's ends mapped the same way).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub cliffs_delta: Option<EffectSize>,
+    /// For the rank-sum statistic: the classical rank-sum test (normal approximation).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub rank_sum: Option<classical::RankSum>,
     /// What to keep in mind when reading the result.
     pub cautions: Vec<Caution>,
     /// Every relabelled statistic, in order (only when asked for).
@@ -157,6 +164,7 @@ pub fn run(req: &TwoGroupsRequest, progress: ProgressFn) -> Result<TwoGroupsRepo
 
 fn effect_fn(st: Statistic) -> TwoSampleFn {
     match st.effect() {
+        Statistic::RankSum => |a, b| perm::superiority(a, b),
         Statistic::MedianDifference => |a, b| stats::median_select(a) - stats::median_select(b),
         Statistic::TrimmedMeanDifference => {
             |a, b| stats::trimmed_mean_select(a) - stats::trimmed_mean_select(b)
@@ -165,8 +173,32 @@ fn effect_fn(st: Statistic) -> TwoSampleFn {
     }
 }
 
+/// Leave-one-out values of the probability of superiority for each group, in O(n log n):
+/// value i of `a` counts u_i = (its mid-rank among all) − (its mid-rank within `a`) of `b`'s
+/// values below it (ties half), so without it the probability is (U − u_i)/((n1 − 1) n2);
+/// likewise for `b` with n1 − u_j.
+fn superiority_leave_one_out(a: &[f64], b: &[f64]) -> [Vec<f64>; 2] {
+    let (n1, n2) = (a.len() as f64, b.len() as f64);
+    let (pa, pb) = perm::joint_ranks(a, b);
+    let (wa, wb) = (stats::ranks(a), stats::ranks(b));
+    let u: Vec<f64> = pa.iter().zip(&wa).map(|(p, w)| p - w).collect();
+    let total: f64 = u.iter().sum();
+    let v: Vec<f64> = pb.iter().zip(&wb).map(|(p, w)| n1 - (p - w)).collect();
+    [
+        u.iter()
+            .map(|ui| (total - ui) / ((n1 - 1.0) * n2))
+            .collect(),
+        v.iter()
+            .map(|vj| (total - vj) / (n1 * (n2 - 1.0)))
+            .collect(),
+    ]
+}
+
 /// Leave-one-out values of the effect for each group, in O(n log n).
 fn effect_leave_one_out(st: Statistic, a: &[f64], b: &[f64]) -> [Vec<f64>; 2] {
+    if st.on_ranks() {
+        return superiority_leave_one_out(a, b);
+    }
     use stats::LooKind;
     let kind = match st.effect() {
         Statistic::MedianDifference => LooKind::Median,
@@ -225,6 +257,8 @@ fn hedges_leave_one_out(a: &[f64], b: &[f64]) -> [Vec<f64>; 2] {
 /// means, Yuen's for a difference in trimmed means, a nested bootstrap for medians.
 fn effect_se(st: Statistic) -> boot::SeMethod<'static> {
     match st.effect() {
+        // Bootstrapped by counts, with no studentized interval.
+        Statistic::RankSum => boot::SeMethod::None,
         Statistic::MedianDifference => boot::SeMethod::Nested(boot::NESTED),
         Statistic::TrimmedMeanDifference => boot::SeMethod::Formula(&|a, b| {
             (stats::trimmed_mean_se2(a) + stats::trimmed_mean_se2(b)).sqrt()
@@ -256,9 +290,12 @@ fn streaming_bootstrap(
 ) -> Result<boot::Resampled, Error> {
     let kind = st.effect();
     // Each group as deviations from its mean (accurate sums of squares), sorted when order
-    // statistics are read.
+    // statistics are read; for the probability of superiority both from one centre, so that
+    // the groups' values stay comparable.
+    let pooled = (kind == Statistic::RankSum)
+        .then(|| stats::mean(&a.iter().chain(b).copied().collect::<Vec<f64>>()));
     let prep = |x: &[f64]| {
-        let m = stats::mean(x);
+        let m = pooled.unwrap_or_else(|| stats::mean(x));
         let mut d: Vec<f64> = x.iter().map(|v| v - m).collect();
         if kind != Statistic::MeanDifference {
             d.sort_by(f64::total_cmp);
@@ -294,6 +331,7 @@ fn streaming_bootstrap(
         let mean_diff = (ma - mb) + (sa / na - sb / nb);
         let e = match kind {
             Statistic::MeanDifference => mean_diff,
+            Statistic::RankSum => large_boot::superiority(wa, &xa, wb, &xb),
             _ => (ma + centre(wa, &xa)) - (mb + centre(wb, &xb)),
         };
         let t = if studentize {
@@ -312,6 +350,26 @@ fn streaming_bootstrap(
     let [e, t, g] = large_boot::resample_two(&xa, &xb, seed, total, effect, progress, &f)?;
     let t = if studentize { t } else { Vec::new() };
     Ok((vec![e, g], vec![t, Vec::new()]))
+}
+
+/// How many of the pooled values share their value with another, and in how many groups
+/// (none when no two are equal).
+fn tied_values(a: &[f64], b: &[f64]) -> Option<(usize, usize)> {
+    let mut v: Vec<f64> = a.iter().chain(b).copied().collect();
+    v.sort_by(f64::total_cmp);
+    let (mut values, mut groups, mut i) = (0, 0, 0);
+    while i < v.len() {
+        let mut j = i;
+        while j + 1 < v.len() && v[j + 1] == v[i] {
+            j += 1;
+        }
+        if j > i {
+            values += j - i + 1;
+            groups += 1;
+        }
+        i = j + 1;
+    }
+    (values > 0).then_some((values, groups))
 }
 
 fn two_group_report(
@@ -341,7 +399,13 @@ fn two_group_report(
         TestOutcome::from_null(&null, set.alternative, set.two_sided, observed, set.seed);
 
     // Bootstrap, within each group: the effect and Hedges' g from the same resamples.
-    let effect = perm::statistic_value(st.effect(), a, b);
+    // The effect the interval is for: for the rank-sum statistic, the probability of
+    // superiority.
+    let effect = if st.on_ranks() {
+        perm::superiority(a, b)
+    } else {
+        perm::statistic_value(st.effect(), a, b)
+    };
     let g_est = stats::hedges_g(a, b);
     let methods = set.methods();
     let studentize = methods.contains(&IntervalMethod::Studentized);
@@ -364,9 +428,12 @@ fn two_group_report(
     let total_b = set.bootstrap_resamples;
     // Generation 2 bootstraps large groups by counts, except a studentized interval of a
     // median or trimmed-mean difference (its standard error needs the values themselves).
-    let streaming_boot = set.kernels >= 2
-        && a.len() + b.len() >= LARGE
-        && !(studentize && st.effect() != Statistic::MeanDifference);
+    // The probability of superiority is always bootstrapped by counts (a merge of the two
+    // groups per resample instead of a sort), without a studentized interval.
+    let streaming_boot = st.on_ranks()
+        || set.kernels >= 2
+            && a.len() + b.len() >= LARGE
+            && !(studentize && st.effect() != Statistic::MeanDifference);
     let (values, tvals) = if streaming_boot {
         streaming_bootstrap(st, a, b, effect, set.seed, total_b, studentize, progress)?
     } else {
@@ -436,8 +503,17 @@ fn two_group_report(
         });
     }
     super::few_resamples_note(set, &mut notes);
+    if st.on_ranks() {
+        if let Some((values, groups)) = tied_values(a, b) {
+            notes.push(Note::TiedRanks { values, groups });
+        }
+    }
     if streaming_null || streaming_boot {
         test.rng = crate::resample::rng::RNG_NAME_LARGE.into();
+    }
+    // The streaming kernels are worth a note for large samples (the rank-sum statistic's
+    // bootstrap always counts; the methods paragraph says so).
+    if streaming_null || streaming_boot && a.len() + b.len() >= LARGE {
         notes.push(Note::StreamingKernels {
             values: a.len() + b.len(),
             relabelling: streaming_null,
@@ -473,7 +549,19 @@ fn two_group_report(
         cautions,
         null_values: None,
         bootstrap_values: None,
+        cliffs_delta: None,
+        rank_sum: None,
     };
+    if st.on_ranks() {
+        let map = |v: Option<f64>| v.map(|x| 2.0 * x - 1.0);
+        let mut ci = report.ci.clone();
+        (ci.low, ci.high) = (map(ci.low), map(ci.high));
+        report.cliffs_delta = Some(EffectSize {
+            estimate: Some(2.0 * effect - 1.0),
+            ci,
+        });
+        report.rank_sum = Some(classical::rank_sum(a, b, set.alternative));
+    }
     if set.keep_resamples {
         let keep = |v: &[f64]| v[..v.len().min(MAX_KEPT)].to_vec();
         report.null_values = Some(keep(&null.values));
@@ -503,7 +591,11 @@ fn cautions(st: Statistic, groups: &[GroupSummary]) -> Vec<Caution> {
             1.0
         };
         if ratio > 2.0 && groups[0].n != groups[1].n {
-            c.push(Caution::UnequalSpreads { ratio });
+            c.push(if st.on_ranks() {
+                Caution::UnequalSpreadsRanks { ratio }
+            } else {
+                Caution::UnequalSpreads { ratio }
+            });
         }
     }
     closing_cautions(&mut c);

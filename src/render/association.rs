@@ -188,7 +188,7 @@ pub fn doc(r: &AssocReport, date: &str) -> Doc {
         figures: figures(r),
         sections: Vec::new(),
         methods,
-        cautions: words::cautions(&r.cautions, DesignKey::Association),
+        cautions: super::cautions::cautions(&r.cautions, DesignKey::Association),
         results,
         headline: Headline {
             p_value: Some(t.p_value),

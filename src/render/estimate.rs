@@ -192,7 +192,7 @@ pub fn doc(r: &EstimateReport, date: &str) -> Doc {
         figures: figures(r),
         sections: Vec::new(),
         methods,
-        cautions: words::cautions(&r.cautions, DesignKey::Estimate),
+        cautions: super::cautions::cautions(&r.cautions, DesignKey::Estimate),
         results,
         headline: Headline {
             p_value: None,

@@ -278,7 +278,7 @@ pub fn doc(r: &KGroupsReport, date: &str) -> Doc {
         figures: figures(r),
         sections: Vec::new(),
         methods,
-        cautions: words::cautions(&r.cautions, DesignKey::KGroups),
+        cautions: super::cautions::cautions(&r.cautions, DesignKey::KGroups),
         results,
         headline: Headline {
             p_value: Some(r.test.p_value),

@@ -3,6 +3,7 @@
 //! SVG. One module per design, of the same name as the design's; [`document`] registers them.
 
 pub mod association;
+pub mod cautions;
 pub mod doc;
 pub mod estimate;
 pub mod k_groups;

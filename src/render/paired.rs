@@ -216,7 +216,7 @@ pub fn doc(r: &SignFlipReport, date: &str) -> Doc {
         figures: figures(r),
         sections: Vec::new(),
         methods,
-        cautions: words::cautions(&r.cautions, key),
+        cautions: super::cautions::cautions(&r.cautions, key),
         results,
         headline: Headline {
             p_value: Some(t.p_value),

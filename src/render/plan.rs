@@ -341,7 +341,7 @@ pub fn doc(r: &PlanReport, date: &str) -> Doc {
             r.seed,
             ENGINE_VERSION
         ),
-        cautions: words::cautions(&r.cautions, DesignKey::Plan),
+        cautions: super::cautions::cautions(&r.cautions, DesignKey::Plan),
         results,
         headline: Headline {
             p_value: None,

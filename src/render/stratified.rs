@@ -235,7 +235,7 @@ pub fn doc(r: &StrataReport, date: &str) -> Doc {
         figures: figures(r),
         sections: Vec::new(),
         methods,
-        cautions: words::cautions(&r.cautions, DesignKey::Stratified),
+        cautions: super::cautions::cautions(&r.cautions, DesignKey::Stratified),
         results,
         headline: Headline {
             p_value: Some(r.test.p_value),

@@ -19,6 +19,16 @@ fn effect_word(st: Statistic) -> &'static str {
     }
 }
 
+/// What the interval is for: the statistic's effect, or for the rank-sum statistic the
+/// probability of superiority.
+pub fn effect_label(st: Statistic) -> &'static str {
+    if st.on_ranks() {
+        "probability of superiority"
+    } else {
+        st.effect().label()
+    }
+}
+
 /// Decimals for the effect and its interval.
 pub fn effect_decimals(r: &TwoGroupsReport) -> usize {
     let scale = match (r.ci.low, r.ci.high) {
@@ -46,7 +56,19 @@ pub fn finding(r: &TwoGroupsReport) -> String {
     };
     let d = effect_decimals(r);
     let size = fmt::fixed(r.effect.abs(), d);
-    let mut s = if fmt::fixed(r.effect, d)
+    let mut s = if r.statistic.on_ranks() {
+        let what = if of.is_empty() {
+            " the value".to_string()
+        } else {
+            of.clone()
+        };
+        format!(
+            "In pairs of one value from each group,{what} was higher in {first} than in \
+             {second} in {} of pairs (probability of superiority {}, ties counting half",
+            fmt::percent(r.effect),
+            fmt::fixed(r.effect, d.max(2))
+        )
+    } else if fmt::fixed(r.effect, d)
         .trim_start_matches('-')
         .chars()
         .all(|c| c == '0' || c == '.')
@@ -56,11 +78,17 @@ pub fn finding(r: &TwoGroupsReport) -> String {
         let dir = if r.effect > 0.0 { "higher" } else { "lower" };
         format!("The {what}{of} was {size} {dir} in {first} than in {second}")
     };
-    if let (Some(lo), Some(hi)) = (r.ci.low, r.ci.high) {
+    if r.statistic.on_ranks() {
+        if let (Some(lo), Some(hi)) = (r.ci.low, r.ci.high) {
+            s.push_str(&format!("; {}", fmt::ci(r.ci.level, lo, hi, d.max(2))));
+        }
+        s.push(')');
+    } else if let (Some(lo), Some(hi)) = (r.ci.low, r.ci.high) {
         s.push_str(&format!(" ({})", fmt::ci(r.ci.level, lo, hi, d)));
     }
     let stat_words = match r.statistic {
         Statistic::WelchT => "a Welch t".to_string(),
+        Statistic::RankSum => "a difference in mean ranks".to_string(),
         _ => format!("a difference in {what}s"),
     };
     let how = match (r.alternative, r.two_sided) {
@@ -117,16 +145,26 @@ fn methods(r: &TwoGroupsReport, date: &str) -> String {
          observed value counted as at least as extreme (within the rounding error of the statistic's arithmetic). Effect: the \
          {} with a {} {} bootstrap interval from {} resamples drawn within each group; Hedges' \
          g with its bootstrap interval; Welch's t-test with Welch–Satterthwaite degrees of \
-         freedom as a classical cross-check. Random numbers: {}, seed {}. Computed with \
+         freedom as a classical cross-check{}. Random numbers: {}, seed {}. Computed with \
          Reshuffle {ENGINE_VERSION} on {date}.",
         r.groups[0].n,
         r.groups[1].n,
         r.statistic.label(),
         words::how(&r.test, "relabellings"),
-        r.statistic.effect().label(),
+        effect_label(r.statistic),
         fmt::percent(r.ci.level),
         words::method(r.ci.method),
         fmt::count(r.bootstrap_resamples),
+        if r.statistic.on_ranks() {
+            "; the ranks are those of the pooled values, ties given their mean rank; the \
+             bootstrap resamples are drawn as each value's count (Poisson counts corrected to \
+             the group's size, an exact multinomial resample); Cliff's delta is 2 × the \
+             probability of superiority − 1, its interval mapped the same way; the rank-sum \
+             test by its normal approximation (continuity and tie corrections) as a further \
+             cross-check"
+        } else {
+            ""
+        },
         r.test.rng,
         r.test.seed,
     )
@@ -141,7 +179,7 @@ pub fn figures(r: &TwoGroupsReport) -> Vec<Figure> {
         "when group labels are shuffled",
     );
     let bf = BootFigure {
-        label: r.statistic.effect().label(),
+        label: effect_label(r.statistic),
         estimate: r.effect,
         interval: &r.ci,
         histogram: &r.bootstrap_histogram,
@@ -153,7 +191,7 @@ pub fn figures(r: &TwoGroupsReport) -> Vec<Figure> {
 /// The two-group report as a document.
 pub fn doc(r: &TwoGroupsReport, date: &str) -> Doc {
     let d = effect_decimals(r);
-    let effect_label = r.statistic.effect().label();
+    let effect_label = effect_label(r.statistic);
     let mut lines = vec![
         (
             format!("observed {}", r.statistic.label()),
@@ -193,6 +231,30 @@ pub fn doc(r: &TwoGroupsReport, date: &str) -> Doc {
             None => "undefined (no spread)".into(),
         },
     ));
+    if let Some(cd) = &r.cliffs_delta {
+        lines.push((
+            "Cliff's delta".into(),
+            match (cd.estimate, cd.ci.low, cd.ci.high) {
+                (Some(e), Some(l), Some(h)) => {
+                    format!("{e:.3}, {}", fmt::ci(cd.ci.level, l, h, 3))
+                }
+                (Some(e), _, _) => format!("{e:.3}"),
+                _ => "undefined".into(),
+            },
+        ));
+    }
+    if let Some(rs) = &r.rank_sum {
+        lines.push((
+            "rank-sum test (cross-check)".into(),
+            format!(
+                "U = {}, z = {:.3}, p = {:.5} (normal approximation{})",
+                fmt::sig(rs.u),
+                rs.z,
+                rs.p_value,
+                if rs.ties { ", corrected for ties" } else { "" }
+            ),
+        ));
+    }
     lines.push((
         "Seed and generator".into(),
         format!("{} · {}", r.test.seed, r.test.rng),
@@ -237,6 +299,16 @@ pub fn doc(r: &TwoGroupsReport, date: &str) -> Doc {
     results.push(row("hedges_g", "estimate", full(r.hedges_g.estimate)));
     results.push(row("hedges_g", "ci_low", full(r.hedges_g.ci.low)));
     results.push(row("hedges_g", "ci_high", full(r.hedges_g.ci.high)));
+    if let Some(cd) = &r.cliffs_delta {
+        results.push(row("cliffs_delta", "estimate", full(cd.estimate)));
+        results.push(row("cliffs_delta", "ci_low", full(cd.ci.low)));
+        results.push(row("cliffs_delta", "ci_high", full(cd.ci.high)));
+    }
+    if let Some(rs) = &r.rank_sum {
+        results.push(row("rank_sum", "u", format!("{:?}", rs.u)));
+        results.push(row("rank_sum", "z", format!("{:?}", rs.z)));
+        results.push(row("rank_sum", "p_value", format!("{:?}", rs.p_value)));
+    }
     Doc {
         design: DesignKey::TwoGroups,
         finding: finding(r),
@@ -246,7 +318,7 @@ pub fn doc(r: &TwoGroupsReport, date: &str) -> Doc {
         figures: figures(r),
         sections: Vec::new(),
         methods: methods(r, date),
-        cautions: words::cautions(&r.cautions, DesignKey::TwoGroups),
+        cautions: super::cautions::cautions(&r.cautions, DesignKey::TwoGroups),
         results,
         headline: Headline {
             p_value: Some(r.test.p_value),

@@ -246,7 +246,7 @@ pub fn doc(r: &YesNoReport, date: &str) -> Doc {
         figures: figures(r),
         sections: Vec::new(),
         methods,
-        cautions: words::cautions(&r.cautions, DesignKey::YesNo),
+        cautions: super::cautions::cautions(&r.cautions, DesignKey::YesNo),
         results,
         headline: Headline {
             p_value: Some(r.test.p_value),

@@ -307,6 +307,37 @@ impl Weights {
     }
 }
 
+/// The probability of superiority of resample `wa` of the sorted values `xa` over resample
+/// `wb` of the sorted values `xb` (values comparable between the two): Σ over a's draws of
+/// b's draws below it plus half of those equal, over n_a·n_b, by one merge of the two.
+pub fn superiority(wa: &Weights, xa: &[f64], wb: &Weights, xb: &[f64]) -> f64 {
+    let (mut j, mut below) = (0usize, 0u64);
+    let mut acc: u128 = 0;
+    let mut i = 0;
+    while i < xa.len() {
+        let v = xa[i];
+        while j < xb.len() && xb[j] < v {
+            below += u64::from(wb.counts[j]);
+            j += 1;
+        }
+        let mut equal = 0u64;
+        let mut k = j;
+        while k < xb.len() && xb[k] == v {
+            equal += u64::from(wb.counts[k]);
+            k += 1;
+        }
+        // Every draw of a at this value (all a's equal values together).
+        let mut draws = 0u64;
+        while i < xa.len() && xa[i] == v {
+            draws += u64::from(wa.counts[i]);
+            i += 1;
+        }
+        acc += u128::from(draws) * u128::from(2 * below + equal);
+    }
+    let (na, nb) = (xa.len() as f64, xb.len() as f64);
+    acc as f64 / 2.0 / (na * nb)
+}
+
 /// Runs `total` bootstrap resamples of two samples `a` and `b` (each sorted when order
 /// statistics are read) as counts: block b of [`rng::LARGE_BLOCK`] resamples draws from the
 /// stream (seed, bootstrap, b), a's counts then b's for each resample, on the run's threads, merged in

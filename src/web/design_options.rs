@@ -29,6 +29,7 @@ pub fn TwoGroupsOptions(fm: Form) -> impl IntoView {
                 (Statistic::MedianDifference, "difference in medians"),
                 (Statistic::TrimmedMeanDifference, "difference in 20% trimmed means"),
                 (Statistic::WelchT, "Welch t (allows unequal spreads)"),
+                (Statistic::RankSum, "ranks: Wilcoxon–Mann–Whitney (with the probability of superiority)"),
             ]/>
         </div>
     }

@@ -29,7 +29,7 @@ pub fn PlanOptions(fm: Form, columns: Signal<Vec<(String, ColumnKind)>>) -> impl
                                     "paired" => vec![("mean", "the mean difference"), ("median", "the median difference")],
                                     "k-groups" => vec![("f", "F statistic"), ("welch-f", "Welch F"), ("median-spread", "spread of the medians")],
                                     "yes-no" => vec![("proportion-difference", "difference in proportions (exact test)")],
-                                    _ => vec![("mean-difference", "difference in means"), ("welch-t", "Welch t"), ("median-difference", "difference in medians"), ("trimmed-mean-difference", "difference in 20% trimmed means")],
+                                    _ => vec![("mean-difference", "difference in means"), ("welch-t", "Welch t"), ("median-difference", "difference in medians"), ("trimmed-mean-difference", "difference in 20% trimmed means"), ("rank-sum", "Wilcoxon–Mann–Whitney (ranks)")],
                                 };
                                 opts.into_iter().map(|(k, l)| view! {
                                     <option value=k selected=move || fm.plan.stat.get() == k>{l}</option>

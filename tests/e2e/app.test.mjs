@@ -782,3 +782,23 @@ test("one run shared among 1, 2 or 3 workers gives the native command's numbers"
     await page.close();
   }
 });
+
+test("the rank-sum statistic in the page: the native command's numbers, with the probability of superiority", async () => {
+  const json = nativeRun(["analyze", "demo-data/tomato-irrigation.csv", "--statistic", "rank-sum", "--seed", "808"]);
+  const { page, errors } = await openPage();
+  await page.waitForSelector("#preview table");
+  await page.selectOption("#statistic", "rank-sum");
+  await runWithSeed(page, 808);
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  assert.equal(await page.textContent("#finding"), json.finding);
+  assert.match(json.finding, /probability of superiority 0\.\d+/);
+  assert.equal(await num(page, "data-p-value"), json.p_value);
+  assert.equal(await num(page, "data-ci-low"), json.ci.low);
+  const text = await page.textContent("#findings");
+  assert.match(text, /Cliff's delta/);
+  // U as the command reports it; tests/rank_checks.rs checks it against scipy's mannwhitneyu.
+  assert.ok(text.includes(`rank-sum test (cross-check)U = ${json.rank_sum.u}`));
+  assert.match(text, /reacts to the unequal spread as well as to a shift/);
+  assert.deepEqual(errors, []);
+  await page.close();
+});
