@@ -863,3 +863,35 @@ fn a_settled_p_value_is_reported_and_checked() {
     assert_eq!(code, 2);
     assert!(err.contains("from 0.0001 to 0.5"), "{err}");
 }
+
+/// The robustness table from the command: in the JSON, the text and a saved analysis (which
+/// keeps it); refused, with the reason, for a design without it.
+#[test]
+fn robustness_table_from_the_command() {
+    let args = [
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--robustness",
+        "--seed",
+        "31",
+        "--resamples",
+        "5000",
+    ];
+    let v = json_of(&[&args[..], &["--json"]].concat());
+    let rb = &v["robustness"];
+    assert_eq!(rb["statistics"].as_array().unwrap().len(), 4);
+    assert_eq!(rb["level"].as_f64().unwrap(), 1.0 - 0.95);
+    let (code, text, _) = reshuffle(&args);
+    assert_eq!(code, 0);
+    assert!(text.contains("The same question under other statistics"));
+    assert!(text.contains("Would another reasonable choice change the answer?"));
+    let (code, _, err) = reshuffle(&[
+        "analyze",
+        "demo-data/tomato-irrigation.csv",
+        "--design",
+        "k-groups",
+        "--robustness",
+    ]);
+    assert_eq!(code, 2, "{err}");
+    assert!(err.contains("--robustness compares the statistics of two groups"), "{err}");
+}

@@ -76,7 +76,10 @@ fn two_groups_with_random_relabellings_and_a_sequential_stop() {
     check("two groups, stop after 15", Job::TwoGroups(r.clone()));
     r.settings.stop_after = None;
     r.settings.settle_at = Some(0.05);
-    check("two groups, settled", Job::TwoGroups(r));
+    check("two groups, settled", Job::TwoGroups(r.clone()));
+    // The robustness table: four more relabelling runs after the chosen one.
+    r.robustness = true;
+    check("two groups, settled, robustness table", Job::TwoGroups(r));
 }
 
 #[test]

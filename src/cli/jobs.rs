@@ -102,6 +102,10 @@ pub struct AnalyzeArgs {
     /// The test statistic (see below for each design).
     #[arg(long, value_name = "KEY")]
     pub statistic: Option<String>,
+    /// Two groups: also answer with the other statistics (mean, median and trimmed-mean
+    /// differences, Welch t, rank-sum) and the percentile and BCa intervals, side by side.
+    #[arg(long)]
+    pub robustness: bool,
     /// The test and interval settings.
     #[command(flatten)]
     pub test: TestArgs,
@@ -172,19 +176,42 @@ impl AnalyzeArgs {
 
     /// The job this command line describes.
     pub fn job(&self) -> Result<Job, Error> {
-        if let Some(l) = &self.link {
+        let saved = if let Some(l) = &self.link {
             let d = wire::link::decode(l)?;
             if !d.checked {
                 eprintln!("reshuffle: note: {}", crate::render::words::UNCHECKED_LINK);
             }
-            return Ok(d.job);
-        }
-        if let Some(f) = &self.request {
-            return Ok(wire::read_job(&read_data(f)?)
-                .map_err(|e| Error::new(e.kind, format!("\"{f}\": {}", e.message)))?
-                .job);
+            Some(d.job)
+        } else if let Some(f) = &self.request {
+            Some(
+                wire::read_job(&read_data(f)?)
+                    .map_err(|e| Error::new(e.kind, format!("\"{f}\": {}", e.message)))?
+                    .job,
+            )
+        } else {
+            None
+        };
+        // A saved analysis keeps its settings; --robustness adds the table to two groups.
+        if let Some(mut job) = saved {
+            match (&mut job, self.robustness) {
+                (_, false) => {}
+                (Job::TwoGroups(r), true) => r.robustness = true,
+                (_, true) => {
+                    return Err(Error::settings(
+                        "--robustness compares the statistics of two groups; this saved \
+                         analysis has another design.",
+                    ))
+                }
+            }
+            return Ok(job);
         }
         let header = self.test.header.into();
+        if self.robustness && !matches!(self.design, DesignArg::TwoGroups) {
+            return Err(Error::settings(
+                "--robustness compares the statistics of two groups; leave it out for this \
+                 design.",
+            ));
+        }
         Ok(match self.design {
             DesignArg::TwoGroups => {
                 let mut r = TwoGroupsRequest::new(self.data()?, 0);
@@ -197,6 +224,7 @@ impl AnalyzeArgs {
                     Statistic::MeanDifference,
                     "mean-difference, median-difference, trimmed-mean-difference, welch-t or rank-sum",
                 )?;
+                r.robustness = self.robustness;
                 r.settings = self.settings(TestSettings::new(0));
                 Job::TwoGroups(r)
             }

@@ -11,6 +11,7 @@ pub mod k_groups;
 pub mod one_sample;
 pub mod paired;
 pub mod plan;
+pub mod robustness;
 pub mod stratified;
 pub mod two_groups;
 pub mod yes_no;

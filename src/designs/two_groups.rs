@@ -4,6 +4,7 @@
 
 use serde::{Deserialize, Serialize};
 
+use super::robustness::{self, Robustness};
 use super::{
     closing_cautions, group_summary, Caution, Design, DesignKey, EffectSize, GroupSummary,
     TestOutcome, TestSettings,
@@ -45,6 +46,10 @@ pub struct TwoGroupsRequest {
     pub second: Option<String>,
     /// The test statistic.
     pub statistic: Statistic,
+    /// Also answer with the other statistics of [`robustness::STATISTICS`] and read the
+    /// percentile and BCa intervals beside the chosen ones (the robustness table).
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub robustness: bool,
     /// The test and interval settings.
     pub settings: TestSettings,
 }
@@ -59,6 +64,7 @@ impl TwoGroupsRequest {
             first: None,
             second: None,
             statistic: Statistic::MeanDifference,
+            robustness: false,
             settings: TestSettings::new(seed),
         }
     }
@@ -110,6 +116,9 @@ pub struct TwoGroupsReport {
     /// For the rank-sum statistic: the classical rank-sum test (normal approximation).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub rank_sum: Option<classical::RankSum>,
+    /// The same question answered with the other statistics (when asked for).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub robustness: Option<Robustness>,
     /// What to keep in mind when reading the result.
     pub cautions: Vec<Caution>,
     /// Every relabelled statistic, in order (only when asked for).
@@ -394,6 +403,11 @@ fn two_group_report(
         progress,
     )?;
     drop(setup); // its pooled copy of the values, before the bootstrap
+    let others = if req.robustness {
+        Some(robustness::other_tests(st, a, b, set, progress)?)
+    } else {
+        None
+    };
     let observed = perm::statistic_value(st, a, b);
     let mut test =
         TestOutcome::from_null(&null, set.alternative, set.two_sided, observed, set.seed);
@@ -407,7 +421,14 @@ fn two_group_report(
         perm::statistic_value(st.effect(), a, b)
     };
     let g_est = stats::hedges_g(a, b);
-    let methods = set.methods();
+    let mut methods = set.methods();
+    if req.robustness {
+        for m in [IntervalMethod::Percentile, IntervalMethod::Bca] {
+            if !methods.contains(&m) {
+                methods.push(m);
+            }
+        }
+    }
     let studentize = methods.contains(&IntervalMethod::Studentized);
     let design = boot::Design::Two { a, b };
     let effect_f = effect_fn(st);
@@ -551,7 +572,19 @@ fn two_group_report(
         bootstrap_values: None,
         cliffs_delta: None,
         rank_sum: None,
+        robustness: None,
     };
+    if let Some(others) = others {
+        report.robustness = Some(robustness::table(
+            others,
+            report.test.p_value,
+            set.alternative,
+            set.confidence,
+            if st.on_ranks() { 0.5 } else { 0.0 },
+            &report.intervals,
+            &report.welch,
+        ));
+    }
     if st.on_ranks() {
         let map = |v: Option<f64>| v.map(|x| 2.0 * x - 1.0);
         let mut ci = report.ci.clone();

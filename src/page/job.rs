@@ -198,6 +198,7 @@ impl Fields {
                 first,
                 second,
                 statistic: self.statistic,
+                robustness: self.robustness,
                 settings,
                 ..TwoGroupsRequest::new(data, seed)
             }),

@@ -90,6 +90,8 @@ pub struct Fields {
     pub first: String,
     pub second: String,
     pub statistic: Statistic,
+    /// Two groups: also answer with the other statistics (the robustness table).
+    pub robustness: bool,
     pub alternative: Alternative,
     pub two_sided: TwoSidedRule,
     pub resamples: String,
@@ -261,6 +263,7 @@ impl Fields {
             first: text(""),
             second: text(""),
             statistic: Statistic::MeanDifference,
+            robustness: false,
             alternative: Alternative::TwoSided,
             two_sided: TwoSidedRule::Absolute,
             resamples: text(&d.resamples.to_string()),

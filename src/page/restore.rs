@@ -105,6 +105,7 @@ impl Fields {
                 self.set_layout(&r.layout);
                 self.set_pair(&r.first, &r.second);
                 self.statistic = r.statistic;
+                self.robustness = r.robustness;
             }
             Job::Paired(r) => {
                 self.set_settings(&r.settings, patterns);

@@ -60,6 +60,10 @@ fn every_comparison_design_round_trips() {
         f.second = "c".into();
         round_trip(&format!("two groups, {st:?}"), &f);
     }
+    f.robustness = true;
+    let job = round_trip("two groups with the robustness table", &f);
+    assert!(matches!(job, Job::TwoGroups(ref r) if r.robustness));
+    f.robustness = false;
     f.design = "k-groups".into();
     for st in [KStatistic::F, KStatistic::WelchF, KStatistic::MedianSpread] {
         f.k_stat = st;

@@ -10,6 +10,7 @@ pub mod k_groups;
 pub mod paired;
 pub mod plan;
 pub mod plot;
+pub mod robustness;
 pub mod rows;
 pub mod stratified;
 pub mod two_groups;

@@ -145,7 +145,7 @@ fn methods(r: &TwoGroupsReport, date: &str) -> String {
          observed value counted as at least as extreme (within the rounding error of the statistic's arithmetic). Effect: the \
          {} with a {} {} bootstrap interval from {} resamples drawn within each group; Hedges' \
          g with its bootstrap interval; Welch's t-test with Welch–Satterthwaite degrees of \
-         freedom as a classical cross-check{}. Random numbers: {}, seed {}. Computed with \
+         freedom as a classical cross-check{}.{} Random numbers: {}, seed {}. Computed with \
          Reshuffle {ENGINE_VERSION} on {date}.",
         r.groups[0].n,
         r.groups[1].n,
@@ -165,6 +165,18 @@ fn methods(r: &TwoGroupsReport, date: &str) -> String {
         } else {
             ""
         },
+        r.robustness.as_ref().map_or(String::new(), |rb| format!(
+            " Robustness: the same test with {}, with the same seed (so the same random \
+             relabellings) and settings, each p-value read at the level 1 − confidence = {}, \
+             beside the percentile and BCa intervals and the Welch t-test.",
+            words::listed(
+                &rb.statistics
+                    .iter()
+                    .map(|o| format!("the {}", o.statistic.label()))
+                    .collect::<Vec<_>>()
+            ),
+            fmt::plain(rb.level)
+        )),
         r.test.rng,
         r.test.seed,
     )
@@ -278,6 +290,17 @@ pub fn doc(r: &TwoGroupsReport, date: &str) -> Doc {
             d,
         ));
     }
+    let mut sections = Vec::new();
+    if let Some(rb) = &r.robustness {
+        tables.push(super::robustness::table(r, rb, d));
+        sections.push((
+            "Would another reasonable choice change the answer?".to_string(),
+            vec![
+                super::robustness::sentence(r, rb),
+                super::robustness::NOT_A_MENU.to_string(),
+            ],
+        ));
+    }
     let mut results = Vec::new();
     for g in &r.groups {
         for (k, v) in [
@@ -309,6 +332,9 @@ pub fn doc(r: &TwoGroupsReport, date: &str) -> Doc {
         results.push(row("rank_sum", "z", format!("{:?}", rs.z)));
         results.push(row("rank_sum", "p_value", format!("{:?}", rs.p_value)));
     }
+    if let Some(rb) = &r.robustness {
+        results.extend(super::robustness::results(rb));
+    }
     Doc {
         design: DesignKey::TwoGroups,
         finding: finding(r),
@@ -316,7 +342,7 @@ pub fn doc(r: &TwoGroupsReport, date: &str) -> Doc {
         lines,
         tables,
         figures: figures(r),
-        sections: Vec::new(),
+        sections,
         methods: methods(r, date),
         cautions: super::cautions::cautions(&r.cautions, DesignKey::TwoGroups),
         results,

@@ -35,6 +35,15 @@ fn lines(lines: &[u64]) -> String {
 }
 
 /// The sentence for a note.
+/// Names in a list: "a", "a and b", "a, b and c".
+pub fn listed(items: &[String]) -> String {
+    match items {
+        [] => String::new(),
+        [one] => one.clone(),
+        [init @ .., last] => format!("{} and {last}", init.join(", ")),
+    }
+}
+
 pub fn note(n: &Note) -> String {
     match n {
         Note::MissingCells { column, count } => format!(

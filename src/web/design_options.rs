@@ -32,6 +32,13 @@ pub fn TwoGroupsOptions(fm: Form) -> impl IntoView {
                 (Statistic::RankSum, "ranks: Wilcoxon–Mann–Whitney (with the probability of superiority)"),
             ]/>
         </div>
+        <div class="row" style:display=move || display(fm.design.get() == "two-groups", "flex")>
+            <label class="choice">
+                <input type="checkbox" id="robustness" prop:checked=move || fm.robustness.get()
+                    on:change=move |ev| fm.robustness.set(event_target_checked(&ev))/>
+                " Also answer with the other four statistics, and read the percentile and BCa intervals beside each other (a robustness table)"
+            </label>
+        </div>
     }
 }
 

@@ -113,6 +113,7 @@ signals!(
         first: String,
         second: String,
         statistic: Statistic,
+        robustness: bool,
         alternative: Alternative,
         two_sided: TwoSidedRule,
         resamples: String,

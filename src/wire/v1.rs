@@ -294,6 +294,7 @@ fn convert(job: V1Job) -> Job {
             first: r.first,
             second: r.second,
             statistic: r.statistic,
+            robustness: false,
             settings: settings(
                 r.alternative,
                 r.two_sided,

@@ -802,3 +802,28 @@ test("the rank-sum statistic in the page: the native command's numbers, with the
   assert.deepEqual(errors, []);
   await page.close();
 });
+
+test("the robustness table in the page equals the command's, with its one-sentence verdict", async () => {
+  const json = nativeRun(["analyze", "demo-data/tomato-irrigation.csv", "--robustness", "--seed", "909"]);
+  const text = native(["analyze", "demo-data/tomato-irrigation.csv", "--robustness", "--seed", "909", "--markdown"]);
+  const { page, errors } = await openPage();
+  await page.waitForSelector("#preview table");
+  await page.check("#robustness");
+  await runWithSeed(page, 909);
+  await page.waitForSelector("#robustness-table", { timeout: 60000 });
+  assert.equal(await num(page, "data-p-value"), json.p_value);
+  const rows = await page.$$eval("#robustness-table tbody tr", (trs) => trs.map((tr) => tr.cells[0].textContent + "|" + tr.cells[2].textContent));
+  // The chosen statistic, the four others, two interval methods and Welch's test.
+  assert.equal(rows.length, 8);
+  assert.equal(json.robustness.statistics.length, 4);
+  for (const o of json.robustness.statistics) {
+    assert.ok(rows.some((r) => r.includes(`|p = ${o.p_value.toFixed(3).replace(/^0/, "")}`)), JSON.stringify(o));
+  }
+  const verdict = await page.textContent("#findings");
+  const sentence = json.robustness.verdict.statistics_differ.length === 0 && !json.robustness.verdict.welch_differs
+    ? /conclusion is the same under all 5 statistics/ : /depends on the choice/;
+  assert.match(verdict, sentence);
+  assert.match(text, sentence);
+  assert.deepEqual(errors, []);
+  await page.close();
+});
