@@ -893,5 +893,57 @@ fn robustness_table_from_the_command() {
         "--robustness",
     ]);
     assert_eq!(code, 2, "{err}");
-    assert!(err.contains("--robustness compares the statistics of two groups"), "{err}");
+    assert!(
+        err.contains("--robustness compares the statistics of two groups"),
+        "{err}"
+    );
+}
+
+/// Hints and the robustness table reach every output: JSON (typed), text, Markdown and HTML.
+#[test]
+fn hints_and_robustness_in_every_output() {
+    let dir = std::env::temp_dir().join(format!("reshuffle-hints-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let data = dir.join("pairs.csv");
+    std::fs::write(
+        &data,
+        "before,after\n12.1,13.0\n15.3,16.2\n11.0,11.9\n19.8,21.0\n14.2,14.8\n13.3,14.1\n\
+         16.0,17.2\n12.9,13.5\n55.0,58.0\n14.8,15.9\n",
+    )
+    .unwrap();
+    let html = dir.join("report.html");
+    let file = data.to_str().unwrap();
+    let base = [
+        "analyze",
+        file,
+        "--design",
+        "two-groups",
+        "--robustness",
+        "--seed",
+        "2",
+        "--resamples",
+        "3000",
+    ];
+    let v = json_of(&[&base[..], &["--json"]].concat());
+    let kinds: Vec<&str> = v["hints"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|h| h["kind"].as_str().unwrap())
+        .collect();
+    assert_eq!(
+        kinds,
+        ["skewed", "skewed", "far-out", "far-out", "looks-paired"]
+    );
+    let (code, md, err) = reshuffle(&[&base[..], &["--markdown"]].concat());
+    assert_eq!(code, 0, "{err}");
+    let (code, _, err) = reshuffle(&[&base[..], &["--html", html.to_str().unwrap()]].concat());
+    assert_eq!(code, 0, "{err}");
+    let page = std::fs::read_to_string(&html).unwrap();
+    for out in [&md, &page] {
+        assert!(out.contains("What the data suggest"));
+        assert!(out.contains("rise and fall together row by row"));
+        assert!(out.contains("Would another reasonable choice change the answer?"));
+    }
+    std::fs::remove_dir_all(&dir).ok();
 }

@@ -7,6 +7,7 @@
 
 pub mod association;
 pub mod estimate;
+pub mod hints;
 pub mod k_groups;
 pub mod one_sample;
 pub mod paired;

@@ -4,6 +4,7 @@
 
 use serde::{Deserialize, Serialize};
 
+use super::hints::{self, Hint};
 use super::robustness::{self, Robustness};
 use super::{
     closing_cautions, group_summary, Caution, Design, DesignKey, EffectSize, GroupSummary,
@@ -116,6 +117,9 @@ pub struct TwoGroupsReport {
     /// For the rank-sum statistic: the classical rank-sum test (normal approximation).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub rank_sum: Option<classical::RankSum>,
+    /// What the data suggest (rules with their sources); they never change the analysis.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub hints: Vec<Hint>,
     /// The same question answered with the other statistics (when asked for).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub robustness: Option<Robustness>,
@@ -573,6 +577,16 @@ fn two_group_report(
         cliffs_delta: None,
         rank_sum: None,
         robustness: None,
+        hints: hints::two_groups(
+            st,
+            set.interval(),
+            &g.names,
+            a,
+            b,
+            &g.layout,
+            &g.notes,
+            g.shift,
+        ),
     };
     if let Some(others) = others {
         report.robustness = Some(robustness::table(

@@ -6,6 +6,7 @@ pub mod association;
 pub mod cautions;
 pub mod doc;
 pub mod estimate;
+pub mod hints;
 pub mod k_groups;
 pub mod paired;
 pub mod plan;

@@ -291,6 +291,12 @@ pub fn doc(r: &TwoGroupsReport, date: &str) -> Doc {
         ));
     }
     let mut sections = Vec::new();
+    if !r.hints.is_empty() {
+        sections.push((
+            super::hints::HEADING.to_string(),
+            super::hints::hints(&r.hints),
+        ));
+    }
     if let Some(rb) = &r.robustness {
         tables.push(super::robustness::table(r, rb, d));
         sections.push((

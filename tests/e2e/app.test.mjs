@@ -827,3 +827,26 @@ test("the robustness table in the page equals the command's, with its one-senten
   assert.deepEqual(errors, []);
   await page.close();
 });
+
+test("hints from the data: skew, far-out values and a look of pairing, worded as the command words them", async () => {
+  const data = "before,after\n12.1,13.0\n15.3,16.2\n11.0,11.9\n19.8,21.0\n14.2,14.8\n13.3,14.1\n16.0,17.2\n12.9,13.5\n55.0,58.0\n14.8,15.9\n";
+  const file = path.join(out, "hint-pairs.csv");
+  fs.writeFileSync(file, data);
+  const text = native(["analyze", file, "--design", "two-groups", "--seed", "5"]);
+  const { page, errors } = await openPage();
+  await page.evaluate((t) => {
+    const ta = document.querySelector("#data");
+    ta.value = t;
+    ta.dispatchEvent(new Event("input", { bubbles: true }));
+  }, data);
+  await page.waitForFunction(() => /^10 rows, 2 columns/.test(document.querySelector("#preview .meta")?.textContent || ""));
+  await page.selectOption("#design", "two-groups");
+  await runWithSeed(page, 5);
+  await page.waitForSelector("#finding", { timeout: 60000 });
+  const section = await page.$eval(".doc-section:has(h3:text-matches('What the data suggest'))", (s) => [...s.querySelectorAll("li")].map((li) => li.textContent));
+  assert.equal(section.length, 5);
+  for (const item of section) assert.ok(text.includes(item), item);
+  assert.match(section.join(" "), /rise and fall together row by row/);
+  assert.deepEqual(errors, []);
+  await page.close();
+});
