@@ -254,7 +254,7 @@ impl AnalyzeArgs {
                     &self.statistic,
                     FlipStatistic::from_key,
                     FlipStatistic::Mean,
-                    "mean or median",
+                    "mean, median or signed-rank",
                 )?;
                 r.settings = self.settings(sign_flip_settings(0));
                 Job::Paired(r)
@@ -271,7 +271,7 @@ impl AnalyzeArgs {
                     &self.statistic,
                     FlipStatistic::from_key,
                     FlipStatistic::Mean,
-                    "mean or median",
+                    "mean, median or signed-rank",
                 )?;
                 r.settings = self.settings(sign_flip_settings(0));
                 Job::OneSample(r)

@@ -14,8 +14,8 @@ use crate::input::columns::plural;
 use crate::input::table::{self, HeaderChoice};
 use crate::num::stats;
 use crate::resample::boot::{self, Design as Resampling, SeMethod, Stat};
-use crate::resample::signs::FlipSetup;
 pub use crate::resample::signs::FlipStatistic;
+use crate::resample::signs::{self, FlipSetup};
 use crate::resample::summary::histogram;
 use crate::resample::{driver, rng};
 
@@ -143,6 +143,10 @@ pub struct SignFlipReport {
     pub t_test: TTest,
     /// The Wilcoxon signed-rank test.
     pub wilcoxon: SignedRank,
+    /// For the signed-rank statistic: the matched-pairs rank-biserial correlation, the
+    /// effect its interval is for (the observed statistic is the mean signed rank).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub rank_biserial: Option<f64>,
     /// Mean difference over the SD of the differences, with a bootstrap interval.
     pub dz: EffectSize,
     /// What to keep in mind.
@@ -402,7 +406,12 @@ pub(crate) fn sign_flip(
     let f_effect: boot::BoxedStat = match statistic {
         FlipStatistic::Mean => Box::new(|x, _| stats::mean(x)),
         FlipStatistic::Median => Box::new(|x, _| stats::median_select(x)),
+        FlipStatistic::SignedRank => Box::new(|x, _| signs::rank_biserial(x)),
     };
+    // The effect the interval is for: the statistic itself, or for the signed-rank
+    // statistic the rank-biserial correlation.
+    let rank_biserial = (statistic == FlipStatistic::SignedRank).then(|| signs::rank_biserial(d));
+    let estimate = rank_biserial.unwrap_or(observed);
     let f_dz = |x: &mut [f64], _: &mut [f64]| stats::mean(x) / stats::sd(x);
     let se_mean = |x: &mut [f64], _: &mut [f64]| stats::sd(x) / (x.len() as f64).sqrt();
     let methods = set.methods();
@@ -410,14 +419,14 @@ pub(crate) fn sign_flip(
     let se = match (studentize, statistic) {
         (false, _) => SeMethod::None,
         (true, FlipStatistic::Mean) => SeMethod::Formula(&se_mean),
-        (true, FlipStatistic::Median) => SeMethod::Nested(boot::NESTED),
+        (true, FlipStatistic::Median | FlipStatistic::SignedRank) => SeMethod::Nested(boot::NESTED),
     };
     let dz_est = f_dz(&mut d.to_vec(), &mut []);
     let design_b = Resampling::One { x: d, strata: None };
     let stats_ = [
         Stat {
             f: f_effect.as_ref(),
-            estimate: observed,
+            estimate,
             se,
         },
         Stat {
@@ -445,7 +454,7 @@ pub(crate) fn sign_flip(
     let effect = super::summarise_bootstrap(
         &methods,
         set.confidence,
-        observed,
+        estimate,
         &bvals[0],
         studentize.then_some((&tvals[0][..], se_hat)),
         None,
@@ -499,6 +508,7 @@ pub(crate) fn sign_flip(
         bootstrap_histogram: effect.histogram,
         t_test: t_test(d, set.alternative, set.confidence),
         wilcoxon: signed_rank(d, set.alternative),
+        rank_biserial,
         dz,
         cautions,
     })

@@ -91,7 +91,7 @@ fn every_comparison_design_round_trips() {
     w.second = "before".into();
     round_trip("two groups, wide", &w);
     w.design = "paired".into();
-    for st in [FlipStatistic::Mean, FlipStatistic::Median] {
+    for st in FlipStatistic::ALL {
         w.flip_stat = st;
         round_trip("paired", &w);
     }

@@ -31,8 +31,26 @@ fn effect_label(r: &SignFlipReport) -> String {
     let what = match r.statistic {
         FlipStatistic::Mean => "mean",
         FlipStatistic::Median => "median",
+        FlipStatistic::SignedRank => "rank-biserial correlation",
     };
     format!("{what} of the differences ({})", difference_label(r))
+}
+
+/// What the test flips: the statistic of the differences in words.
+fn test_label(r: &SignFlipReport) -> String {
+    match r.statistic {
+        FlipStatistic::SignedRank => format!(
+            "mean signed rank of the differences ({}; ranks of the absolute differences, ties \
+             given their mean rank, zero differences left out of the ranking)",
+            difference_label(r)
+        ),
+        _ => effect_label(r),
+    }
+}
+
+/// The estimate the interval is for: the statistic, or the rank-biserial correlation.
+fn estimate(r: &SignFlipReport) -> f64 {
+    r.rank_biserial.unwrap_or(r.test.observed)
 }
 
 fn decimals(r: &SignFlipReport) -> usize {
@@ -46,14 +64,14 @@ fn decimals(r: &SignFlipReport) -> usize {
 pub fn finding(r: &SignFlipReport) -> String {
     let d = decimals(r);
     let t = &r.test;
-    let mut s = format!("The {} was {}", effect_label(r), fmt::fixed(t.observed, d));
+    let mut s = format!("The {} was {}", effect_label(r), fmt::fixed(estimate(r), d));
     if let (Some(l), Some(h)) = (r.ci.low, r.ci.high) {
         s.push_str(&format!(" ({})", fmt::ci(r.ci.level, l, h, d)));
     }
-    let what = if r.statistic == FlipStatistic::Mean {
-        "a mean difference"
-    } else {
-        "a median difference"
+    let what = match r.statistic {
+        FlipStatistic::Mean => "a mean difference",
+        FlipStatistic::Median => "a median difference",
+        FlipStatistic::SignedRank => "a mean signed rank",
     };
     let how = match (r.alternative, r.two_sided) {
         (Alternative::TwoSided, TwoSidedRule::Absolute) => {
@@ -87,10 +105,10 @@ pub fn finding(r: &SignFlipReport) -> String {
 pub fn figures(r: &SignFlipReport) -> Vec<Figure> {
     let nf = NullFigure::of(
         &r.test,
-        if r.statistic == FlipStatistic::Mean {
-            "mean difference"
-        } else {
-            "median difference"
+        match r.statistic {
+            FlipStatistic::Mean => "mean difference",
+            FlipStatistic::Median => "median difference",
+            FlipStatistic::SignedRank => "mean signed rank",
         },
         "sign patterns",
         "when the signs of the differences are flipped",
@@ -98,7 +116,7 @@ pub fn figures(r: &SignFlipReport) -> Vec<Figure> {
     let label = effect_label(r);
     let bf = BootFigure {
         label: &label,
-        estimate: r.test.observed,
+        estimate: estimate(r),
         interval: &r.ci,
         histogram: &r.bootstrap_histogram,
         resamples: r.bootstrap_resamples,
@@ -125,6 +143,12 @@ pub fn doc(r: &SignFlipReport, date: &str) -> Doc {
         ),
         ("p-value".into(), p_line),
     ];
+    if r.statistic == FlipStatistic::SignedRank {
+        lines.insert(
+            1,
+            ("observed mean signed rank".into(), fmt::sig(t.observed)),
+        );
+    }
     for iv in &r.intervals {
         lines.push((effect_label(r), words::interval_line(iv, d)));
     }
@@ -173,13 +197,13 @@ pub fn doc(r: &SignFlipReport, date: &str) -> Doc {
     }
     let methods = format!(
         "Design: {} ({} differences, {}). Test: sign-flip permutation test of the {} ({}). \
-         Interval: {} bootstrap from {} resamples of the differences. Cross-checks: {} t-test; \
+         Interval: {} bootstrap of the {} from {} resamples of the differences. Cross-checks: {} t-test; \
          Wilcoxon signed-rank test ({}). Random numbers: {}, seed {}. Computed with Reshuffle \
          {ENGINE_VERSION} on {date}.",
         key.key(),
         r.n,
         difference_label(r),
-        effect_label(r),
+        test_label(r),
         if t.exact {
             format!("exact, all {} sign patterns", fmt::count(t.resamples))
         } else {
@@ -189,6 +213,7 @@ pub fn doc(r: &SignFlipReport, date: &str) -> Doc {
             )
         },
         words::method(r.ci.method),
+        effect_label(r),
         fmt::count(r.bootstrap_resamples),
         if paired { "paired" } else { "one-sample" },
         words::rank_method(r.wilcoxon.method),
@@ -196,7 +221,7 @@ pub fn doc(r: &SignFlipReport, date: &str) -> Doc {
         t.seed,
     );
     let mut results = super::test_rows(t);
-    results.push(row("effect", "estimate", format!("{:?}", t.observed)));
+    results.push(row("effect", "estimate", format!("{:?}", estimate(r))));
     results.extend(super::interval_rows(&r.intervals));
     results.push(row("t_test", "t", full(r.t_test.t)));
     results.push(row("t_test", "p_value", full(r.t_test.p_value)));
@@ -220,7 +245,7 @@ pub fn doc(r: &SignFlipReport, date: &str) -> Doc {
         results,
         headline: Headline {
             p_value: Some(t.p_value),
-            estimate: Some(t.observed),
+            estimate: Some(estimate(r)),
             low: r.ci.low,
             high: r.ci.high,
         },

@@ -60,6 +60,7 @@ fn statistic_label(t: Test) -> String {
         Test::Two(s) => s.label().to_string(),
         Test::Flip(FlipStatistic::Mean) => "mean of the differences".into(),
         Test::Flip(FlipStatistic::Median) => "median of the differences".into(),
+        Test::Flip(FlipStatistic::SignedRank) => "mean signed rank of the differences".into(),
         Test::K(k) => k.label().to_string(),
         Test::Exact => "difference in proportions (exact test)".into(),
     }

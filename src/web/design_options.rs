@@ -205,6 +205,7 @@ pub fn PairedOptions(fm: Form, columns: Signal<Vec<(String, ColumnKind)>>) -> im
             <TypedSelect id="flip-stat" chosen=fm.flip_stat key=FlipStatistic::key choices=vec![
                 (FlipStatistic::Mean, "mean"),
                 (FlipStatistic::Median, "median"),
+                (FlipStatistic::SignedRank, "signed ranks: Wilcoxon (with the rank-biserial correlation)"),
             ]/>
         </div>
     }

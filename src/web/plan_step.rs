@@ -26,7 +26,7 @@ pub fn PlanOptions(fm: Form, columns: Signal<Vec<(String, ColumnKind)>>) -> impl
                         <select id="plan-stat" on:change=move |ev| fm.plan.stat.set(event_target_value(&ev))>
                             {move || {
                                 let opts: Vec<(&str, &str)> = match fm.plan.design.get().as_str() {
-                                    "paired" => vec![("mean", "the mean difference"), ("median", "the median difference")],
+                                    "paired" => vec![("mean", "the mean difference"), ("median", "the median difference"), ("signed-rank", "the signed ranks (Wilcoxon)")],
                                     "k-groups" => vec![("f", "F statistic"), ("welch-f", "Welch F"), ("median-spread", "spread of the medians")],
                                     "yes-no" => vec![("proportion-difference", "difference in proportions (exact test)")],
                                     _ => vec![("mean-difference", "difference in means"), ("welch-t", "Welch t"), ("median-difference", "difference in medians"), ("trimmed-mean-difference", "difference in 20% trimmed means"), ("rank-sum", "Wilcoxon–Mann–Whitney (ranks)")],

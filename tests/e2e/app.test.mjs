@@ -441,6 +441,15 @@ test("paired and one-sample designs in the page match the native command", async
   await page.click("#run");
   await page.waitForFunction((f) => document.querySelector("#finding")?.textContent === f, one.finding, { timeout: 60000 });
   await page.screenshot({ path: path.join(out, "paired.png"), fullPage: true });
+  // The signed-rank statistic of the one sample: the command's finding and rank-biserial
+  // correlation (tests/signed_rank_checks.rs checks them against scipy).
+  const ranked = nativeRun(["analyze", "tests/reference/data/sleep-paired.csv", "--design", "one-sample",
+    "--value", "drug1", "--reference", "0.5", "--statistic", "signed-rank", "--seed", "55"]);
+  await page.selectOption("#flip-stat", "signed-rank");
+  await page.click("#run");
+  await page.waitForFunction((f) => document.querySelector("#finding")?.textContent === f, ranked.finding, { timeout: 60000 });
+  assert.match(ranked.finding, /rank-biserial correlation/);
+  assert.equal(await num(page, "data-estimate"), ranked.rank_biserial);
   assert.deepEqual(errors, []);
   await page.close();
 });

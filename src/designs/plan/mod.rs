@@ -121,7 +121,7 @@ fn check(req: &PlanRequest) -> Result<(Sim, ModelSummary, f64, f64), Error> {
         (PlanDesign::Paired, "") => Test::Flip(FlipStatistic::Mean),
         (PlanDesign::Paired, k) => Test::Flip(FlipStatistic::from_key(k).ok_or_else(|| {
             Error::settings(format!(
-                "For paired data the statistic is mean or median (not \"{k}\")."
+                "For paired data the statistic is mean, median or signed-rank (not \"{k}\")."
             ))
         })?),
         (PlanDesign::KGroups, "") => Test::K(KStatistic::F),
