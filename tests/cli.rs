@@ -947,3 +947,49 @@ fn hints_and_robustness_in_every_output() {
     }
     std::fs::remove_dir_all(&dir).ok();
 }
+
+/// Continuing a saved analysis: the link of a run of 20,000 relabellings and 2,000 bootstrap
+/// resamples, continued with 20,000 and 1,000 more, gives the report of a run of 40,000 and
+/// 3,000 from the start (the same seed's next blocks), and its link records the totals; a new
+/// analysis is told to set the totals instead.
+#[test]
+fn a_saved_analysis_continues_with_more_relabellings() {
+    let base = [
+        "demo-data/tomato-irrigation.csv",
+        "--seed",
+        "9",
+        "--exact-limit",
+        "1000",
+    ];
+    let (code, link, err) = reshuffle(
+        &[
+            &["link"][..],
+            &base[..],
+            &["--resamples", "20000", "--bootstrap", "2000"],
+        ]
+        .concat(),
+    );
+    assert_eq!(code, 0, "{err}");
+    let link = link.trim();
+    let more = ["--more", "20000", "--more-bootstrap", "1000"];
+    let continued = json_of(&[&["analyze", "--link", link, "--json"][..], &more[..]].concat());
+    let fresh = json_of(
+        &[
+            &["analyze"][..],
+            &base[..],
+            &["--resamples", "40000", "--bootstrap", "3000", "--json"],
+        ]
+        .concat(),
+    );
+    assert_eq!(continued, fresh);
+    assert_eq!(continued["resamples"], 40000);
+    assert_eq!(continued["bootstrap_resamples"], 3000);
+    // The continued link carries the totals.
+    let (code, link2, _) = reshuffle(&[&["link", "--link", link][..], &more[..]].concat());
+    assert_eq!(code, 0);
+    let again = json_of(&["analyze", "--link", link2.trim(), "--json"]);
+    assert_eq!(again, fresh);
+    let (code, _, err) = reshuffle(&[&["analyze"][..], &base[..], &more[..]].concat());
+    assert_eq!(code, 2);
+    assert!(err.contains("continue a saved analysis"), "{err}");
+}

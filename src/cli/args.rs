@@ -26,6 +26,12 @@ pub fn resamples(s: &str) -> Result<u64, String> {
     whole(s, 99, MAX_RESAMPLES)
 }
 
+/// More relabellings or resamples to continue a run with: 1 to 10^7 (the totals are then
+/// checked as every run's are).
+pub fn more(s: &str) -> Result<u64, String> {
+    whole(s, 1, MAX_RESAMPLES)
+}
+
 /// Bootstrap resamples: 200 to 10^6.
 pub fn bootstrap(s: &str) -> Result<u64, String> {
     whole(s, 200, MAX_BOOTSTRAP)

@@ -50,8 +50,8 @@ pub enum WeightsArg {
 #[derive(Args, Debug, Clone)]
 #[command(
     after_help = "Statistics by design: two groups: mean-difference (default), \
-    median-difference, trimmed-mean-difference, welch-t, rank-sum; paired and one-sample: mean, median; \
-    association: pearson, spearman, slope; k groups: f, welch-f, median-spread; yes/no: \
+    median-difference, trimmed-mean-difference, welch-t, rank-sum; paired and one-sample: mean, median, \
+    signed-rank; association: pearson, spearman, slope, kendall; k groups: f, welch-f, median-spread; yes/no: \
     proportion-difference, risk-ratio, odds-ratio."
 )]
 pub struct AnalyzeArgs {
@@ -102,6 +102,14 @@ pub struct AnalyzeArgs {
     /// The test statistic (see below for each design).
     #[arg(long, value_name = "KEY")]
     pub statistic: Option<String>,
+    /// Continue a saved analysis (--link or --request) with N more relabellings (or sign
+    /// patterns, pairings): the next blocks of the same seed, so the earlier ones are kept
+    /// and the report and link record the total.
+    #[arg(long, value_name = "N", value_parser = args::more)]
+    pub more: Option<u64>,
+    /// Continue a saved analysis with N more bootstrap resamples (the next ones of the seed).
+    #[arg(long, value_name = "N", value_parser = args::more)]
+    pub more_bootstrap: Option<u64>,
     /// Two groups: also answer with the other statistics (mean, median and trimmed-mean
     /// differences, Welch t, rank-sum) and the percentile and BCa intervals, side by side.
     #[arg(long)]
@@ -191,8 +199,18 @@ impl AnalyzeArgs {
         } else {
             None
         };
-        // A saved analysis keeps its settings; --robustness adds the table to two groups.
+        // A saved analysis keeps its settings; --robustness adds the table to two groups,
+        // --more and --more-bootstrap continue its run.
         if let Some(mut job) = saved {
+            if self.more.is_some() || self.more_bootstrap.is_some() {
+                let Some(set) = job.test_settings() else {
+                    return Err(Error::settings(
+                        "--more and --more-bootstrap continue a test; this saved analysis \
+                         has none (an estimate or a plan: raise its resamples instead).",
+                    ));
+                };
+                set.continue_with(self.more.unwrap_or(0), self.more_bootstrap.unwrap_or(0))?;
+            }
             match (&mut job, self.robustness) {
                 (_, false) => {}
                 (Job::TwoGroups(r), true) => r.robustness = true,
@@ -206,6 +224,12 @@ impl AnalyzeArgs {
             return Ok(job);
         }
         let header = self.test.header.into();
+        if self.more.is_some() || self.more_bootstrap.is_some() {
+            return Err(Error::settings(
+                "--more and --more-bootstrap continue a saved analysis (--link or --request); \
+                 for a new one, set --resamples and --bootstrap.",
+            ));
+        }
         if self.robustness && !matches!(self.design, DesignArg::TwoGroups) {
             return Err(Error::settings(
                 "--robustness compares the statistics of two groups; leave it out for this \
@@ -288,7 +312,7 @@ impl AnalyzeArgs {
                     &self.statistic,
                     AssocStatistic::from_key,
                     AssocStatistic::Pearson,
-                    "pearson, spearman or slope",
+                    "pearson, spearman, slope or kendall",
                 )?;
                 r.settings = self.settings(TestSettings::new(0));
                 Job::Association(r)

@@ -13,6 +13,7 @@ use crate::input::columns::{self as groups, plural};
 use crate::input::table::{self, HeaderChoice};
 use crate::num::{normal, stats};
 use crate::resample::boot::{Design as Resampling, SeMethod, Stat};
+use crate::resample::kendall::{self, Kendall};
 pub use crate::resample::pairings::AssocStatistic;
 use crate::resample::pairings::{factorial, heap_enumerate, kernel_r, random_block, Kernel};
 use crate::resample::summary::histogram;
@@ -126,14 +127,23 @@ impl Design for AssociationDesign {
     fn seed(req: &AssocRequest) -> u64 {
         req.settings.seed
     }
+
+    fn test_settings(req: &mut AssocRequest) -> Option<&mut TestSettings> {
+        Some(&mut req.settings)
+    }
+
+    fn test_outcome(report: &AssocReport) -> Option<&TestOutcome> {
+        Some(&report.test)
+    }
 }
 
-/// The estimate whose bootstrap the statistic's interval uses.
-fn estimate_of(st: AssocStatistic) -> Estimate {
+/// The estimate whose bootstrap the statistic's interval uses (Kendall's tau-b has its own).
+fn estimate_of(st: AssocStatistic) -> Option<Estimate> {
     match st {
-        AssocStatistic::Pearson => Estimate::Pearson,
-        AssocStatistic::Spearman => Estimate::Spearman,
-        AssocStatistic::Slope => Estimate::Slope,
+        AssocStatistic::Pearson => Some(Estimate::Pearson),
+        AssocStatistic::Spearman => Some(Estimate::Spearman),
+        AssocStatistic::Slope => Some(Estimate::Slope),
+        AssocStatistic::Kendall => None,
     }
 }
 
@@ -160,15 +170,26 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
             if vary(&x) { &req.y } else { &req.x }
         )));
     }
-    let kernel = Kernel::new(req.statistic, &x, &y);
-    let observed = kernel
-        .a
-        .iter()
-        .zip(&kernel.b)
-        .map(|(p, q)| p * q)
-        .sum::<f64>()
-        * kernel.scale;
-    let tol = crate::resample::pairings::tie_tolerance(&kernel);
+    // Kendall's tau-b is not linear in S: its own kernel (the linear one then serves r).
+    let kendall = (req.statistic == AssocStatistic::Kendall).then(|| Kendall::new(&x, &y));
+    let linear = match req.statistic {
+        AssocStatistic::Kendall => AssocStatistic::Pearson,
+        st => st,
+    };
+    let kernel = Kernel::new(linear, &x, &y);
+    let (observed, tol) = match &kendall {
+        Some(k) => (kendall::tau_b(&x, &y), k.tolerance()),
+        None => (
+            kernel
+                .a
+                .iter()
+                .zip(&kernel.b)
+                .map(|(p, q)| p * q)
+                .sum::<f64>()
+                * kernel.scale,
+            crate::resample::pairings::tie_tolerance(&kernel),
+        ),
+    };
     let pairings = factorial(n);
     let null = driver::Relabelling {
         count: pairings,
@@ -181,8 +202,14 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
     }
     .run(
         progress,
-        &mut |cb| heap_enumerate(&kernel, observed, tol, cb),
-        &|s, len| random_block(&kernel, observed, tol, s, len),
+        &mut |cb| match &kendall {
+            Some(k) => k.enumerate(observed, tol, cb),
+            None => heap_enumerate(&kernel, observed, tol, cb),
+        },
+        &|s, len| match &kendall {
+            Some(k) => k.random_block(observed, tol, s, len),
+            None => random_block(&kernel, observed, tol, s, len),
+        },
     )?;
     let mut test =
         TestOutcome::from_null(&null, set.alternative, set.two_sided, observed, set.seed);
@@ -191,7 +218,10 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
     test.null_histogram = histogram(values, &[observed], 48);
 
     // Bootstrap of pairs.
-    let f = estimate::estimator(estimate_of(req.statistic), 0.5);
+    let f: boot::BoxedStat = match estimate_of(req.statistic) {
+        Some(e) => estimate::estimator(e, 0.5),
+        None => Box::new(|a, b| kendall::tau_b(a, b)),
+    };
     let design = Resampling::Pairs { x: &x, y: &y };
     let stat = Stat {
         f: f.as_ref(),
@@ -200,7 +230,7 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
     };
     let methods = set.methods();
     let studentize = methods.contains(&IntervalMethod::Studentized);
-    let se_f = estimate::se_formula(estimate_of(req.statistic), false);
+    let se_f = estimate_of(req.statistic).and_then(|e| estimate::se_formula(e, false));
     let stat = if studentize {
         Stat {
             se: se_f.as_ref().map_or(SeMethod::Nested(boot::NESTED), |g| {
@@ -246,7 +276,16 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
         AssocStatistic::Slope => kernel_r(&x, &y),
         _ => observed,
     };
-    let (tstat, tp) = if df > 0.0 && r_for_t.abs() < 1.0 {
+    let (tstat, tp) = if req.statistic == AssocStatistic::Kendall {
+        // Kendall's normal approximation with the tie-corrected variance of S.
+        let (_, z) = kendall::normal_z(&x, &y);
+        let p = z.is_finite().then(|| match set.alternative {
+            Alternative::TwoSided => (2.0 * normal::cdf(-z.abs())).min(1.0),
+            Alternative::Greater => normal::cdf(-z),
+            Alternative::Less => normal::cdf(z),
+        });
+        (z.is_finite().then_some(z), p)
+    } else if df > 0.0 && r_for_t.abs() < 1.0 {
         let t = r_for_t * (df / (1.0 - r_for_t * r_for_t)).sqrt();
         let d = StudentsT::new(0.0, 1.0, df).ok();
         let p = d.map(|d| match set.alternative {
@@ -284,9 +323,16 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
         }
         _ => {
             classical_ci.method = Method::FisherZ;
-            if n > 3 && observed.abs() < 1.0 {
+            // Fisher z of tau-b with variance 0.437/(n − 4) (Fieller, Hartley & Pearson
+            // 1957); of r and rho, 1/(n − 3).
+            let (var, least) = if req.statistic == AssocStatistic::Kendall {
+                (0.437 / (nf - 4.0), 5)
+            } else {
+                (1.0 / (nf - 3.0), 4)
+            };
+            if n >= least && observed.abs() < 1.0 {
                 let z = observed.atanh();
-                let h = zq / (nf - 3.0).sqrt();
+                let h = zq * var.sqrt();
                 classical_ci.low = Some((z - h).tanh());
                 classical_ci.high = Some((z + h).tanh());
             } else {

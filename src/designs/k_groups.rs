@@ -152,6 +152,14 @@ impl Design for KGroupsDesign {
     fn seed(req: &KGroupsRequest) -> u64 {
         req.settings.seed
     }
+
+    fn test_settings(req: &mut KGroupsRequest) -> Option<&mut TestSettings> {
+        Some(&mut req.settings)
+    }
+
+    fn test_outcome(report: &KGroupsReport) -> Option<&TestOutcome> {
+        Some(&report.test)
+    }
 }
 
 /// Eta squared of groups given as values with cell labels (the bootstrap's form).

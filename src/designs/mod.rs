@@ -55,6 +55,15 @@ pub trait Design {
     }
     /// The seed of the request's random streams.
     fn seed(request: &Self::Request) -> u64;
+    /// The test settings, for designs with a permutation test (to continue a run with more
+    /// relabellings or resamples); none for estimates and plans.
+    fn test_settings(_request: &mut Self::Request) -> Option<&mut TestSettings> {
+        None
+    }
+    /// The permutation test of a report, for designs with one.
+    fn test_outcome(_report: &Self::Report) -> Option<&TestOutcome> {
+        None
+    }
 }
 
 /// The designs, as requests, reports, links and the command name them.
@@ -277,6 +286,23 @@ pub fn check_kernels(kernels: u32) -> Result<(), Error> {
 }
 
 impl TestSettings {
+    /// Continues a run: `relabellings` more random relabellings and `bootstrap` more
+    /// bootstrap resamples. Blocks are drawn from streams numbered from the seed, so a run of
+    /// the new totals repeats the earlier draws and adds the next ones: its numbers are those
+    /// the earlier run would have reached had it gone on.
+    pub fn continue_with(&mut self, relabellings: u64, bootstrap: u64) -> Result<(), Error> {
+        let add = |total: u64, more: u64, what: &str| {
+            total.checked_add(more).ok_or_else(|| {
+                Error::settings(format!(
+                    "{total} {what} and {more} more are more than can be counted; ask for fewer."
+                ))
+            })
+        };
+        self.resamples = add(self.resamples, relabellings, "relabellings")?;
+        self.bootstrap_resamples = add(self.bootstrap_resamples, bootstrap, "bootstrap resamples")?;
+        Ok(())
+    }
+
     /// The defaults the page and the command start from.
     pub fn new(seed: u64) -> TestSettings {
         TestSettings {

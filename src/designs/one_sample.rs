@@ -90,6 +90,14 @@ impl Design for OneSampleDesign {
     fn seed(req: &OneSampleRequest) -> u64 {
         req.settings.seed
     }
+
+    fn test_settings(req: &mut OneSampleRequest) -> Option<&mut TestSettings> {
+        Some(&mut req.settings)
+    }
+
+    fn test_outcome(report: &SignFlipReport) -> Option<&super::TestOutcome> {
+        Some(&report.test)
+    }
 }
 
 /// Runs a one-sample request.

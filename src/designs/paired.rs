@@ -187,6 +187,14 @@ impl Design for PairedDesign {
     fn seed(req: &PairedRequest) -> u64 {
         req.settings.seed
     }
+
+    fn test_settings(req: &mut PairedRequest) -> Option<&mut TestSettings> {
+        Some(&mut req.settings)
+    }
+
+    fn test_outcome(report: &SignFlipReport) -> Option<&TestOutcome> {
+        Some(&report.test)
+    }
 }
 
 /// Runs a paired request.

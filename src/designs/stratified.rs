@@ -199,6 +199,14 @@ impl Design for StratifiedDesign {
     fn seed(req: &StrataRequest) -> u64 {
         req.settings.seed
     }
+
+    fn test_settings(req: &mut StrataRequest) -> Option<&mut TestSettings> {
+        Some(&mut req.settings)
+    }
+
+    fn test_outcome(report: &StrataReport) -> Option<&TestOutcome> {
+        Some(&report.test)
+    }
 }
 
 /// The data of one usable stratum.

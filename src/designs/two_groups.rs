@@ -168,6 +168,14 @@ impl Design for TwoGroupsDesign {
     fn seed(req: &TwoGroupsRequest) -> u64 {
         req.settings.seed
     }
+
+    fn test_settings(req: &mut TwoGroupsRequest) -> Option<&mut TestSettings> {
+        Some(&mut req.settings)
+    }
+
+    fn test_outcome(report: &TwoGroupsReport) -> Option<&TestOutcome> {
+        Some(&report.test)
+    }
 }
 
 /// Runs a two-group request.

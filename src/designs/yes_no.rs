@@ -223,6 +223,14 @@ impl Design for YesNoDesign {
     fn seed(req: &YesNoRequest) -> u64 {
         req.settings.seed
     }
+
+    fn test_settings(req: &mut YesNoRequest) -> Option<&mut TestSettings> {
+        Some(&mut req.settings)
+    }
+
+    fn test_outcome(report: &YesNoReport) -> Option<&TestOutcome> {
+        Some(&report.test)
+    }
 }
 
 /// The statistic when the first group has `a` yes answers and the margins are fixed.

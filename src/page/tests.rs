@@ -106,6 +106,7 @@ fn every_comparison_design_round_trips() {
         AssocStatistic::Pearson,
         AssocStatistic::Spearman,
         AssocStatistic::Slope,
+        AssocStatistic::Kendall,
     ] {
         w.assoc_stat = st;
         round_trip("association", &w);

@@ -120,13 +120,24 @@ pub fn doc(r: &AssocReport, date: &str) -> Doc {
             words::interval_line(iv, d),
         ));
     }
-    lines.push((
-        "t-test (cross-check)".into(),
-        match (r.t, r.t_p_value) {
-            (Some(tv), Some(p)) => format!("t = {tv:.3}, df = {}, p = {p:.3e}", r.n - 2),
-            _ => "undefined".into(),
-        },
-    ));
+    let kendall = r.statistic == AssocStatistic::Kendall;
+    lines.push(if kendall {
+        (
+            "Kendall's normal approximation (cross-check)".into(),
+            match (r.t, r.t_p_value) {
+                (Some(z), Some(p)) => format!("z = {z:.3}, p = {p:.3e} (tie-corrected variance)"),
+                _ => "undefined".into(),
+            },
+        )
+    } else {
+        (
+            "t-test (cross-check)".into(),
+            match (r.t, r.t_p_value) {
+                (Some(tv), Some(p)) => format!("t = {tv:.3}, df = {}, p = {p:.3e}", r.n - 2),
+                _ => "undefined".into(),
+            },
+        )
+    });
     lines.push((
         "Classical interval".into(),
         words::interval_line(&r.classical_ci, d),
@@ -160,8 +171,8 @@ pub fn doc(r: &AssocReport, date: &str) -> Doc {
     }
     let methods = format!(
         "Permutation test re-pairing y with x ({}); {} bootstrap interval from {} resampled \
-         pairs; t-test with n − 2 df and {} as cross-checks. Random numbers: {}, seed {}. \
-         Computed with Reshuffle {ENGINE_VERSION} on {date}.",
+         pairs; {} and {} as cross-checks. Random numbers: {}, seed {}. Computed with \
+         Reshuffle {ENGINE_VERSION} on {date}.",
         if t.exact {
             format!("exact, all {} pairings", fmt::count(t.resamples))
         } else {
@@ -169,7 +180,18 @@ pub fn doc(r: &AssocReport, date: &str) -> Doc {
         },
         words::method(r.ci.method),
         fmt::count(r.bootstrap_resamples),
-        words::method(r.classical_ci.method),
+        if kendall {
+            "Kendall's normal approximation of S = C − D with the tie-corrected variance \
+             (Kendall 1970), tau-b by Knight's O(n log n) method"
+        } else {
+            "t-test with n − 2 df"
+        },
+        if kendall {
+            "the Fisher z interval of tau-b with variance 0.437/(n − 4) (Fieller, Hartley & \
+             Pearson 1957)"
+        } else {
+            words::method(r.classical_ci.method)
+        },
         t.rng,
         t.seed,
     );

@@ -6,6 +6,7 @@ pub mod boot;
 pub mod combin;
 pub mod driver;
 pub mod k_groups;
+pub mod kendall;
 pub mod large;
 pub mod large_boot;
 pub mod pairings;

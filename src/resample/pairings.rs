@@ -13,6 +13,8 @@ pub enum AssocStatistic {
     Pearson,
     Spearman,
     Slope,
+    /// Kendall's tau-b ([`crate::resample::kendall`]); the only one not linear in S.
+    Kendall,
 }
 
 impl AssocStatistic {
@@ -21,6 +23,7 @@ impl AssocStatistic {
             AssocStatistic::Pearson => "pearson",
             AssocStatistic::Spearman => "spearman",
             AssocStatistic::Slope => "slope",
+            AssocStatistic::Kendall => "kendall",
         }
     }
     pub fn from_key(s: &str) -> Option<AssocStatistic> {
@@ -28,6 +31,7 @@ impl AssocStatistic {
             AssocStatistic::Pearson,
             AssocStatistic::Spearman,
             AssocStatistic::Slope,
+            AssocStatistic::Kendall,
         ]
         .into_iter()
         .find(|x| x.key() == s)
@@ -37,6 +41,7 @@ impl AssocStatistic {
             AssocStatistic::Pearson => "Pearson correlation r",
             AssocStatistic::Spearman => "Spearman correlation rho",
             AssocStatistic::Slope => "least-squares slope",
+            AssocStatistic::Kendall => "Kendall tau-b",
         }
     }
 }

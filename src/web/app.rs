@@ -255,6 +255,30 @@ fn App() -> impl IntoView {
                 <div class="findings-wrap" class:is-stale=move || stale.get() aria-describedby=move || stale.get().then_some("stale-note")>
                     {move || shown.get().map(|r| view! { <Findings doc=super::findings::page_doc(&r, result_workers.get())/> })}
                 </div>
+                {move || {
+                    // Continue a Monte Carlo result: as many random draws again, the next
+                    // blocks of the same seed (the earlier ones are drawn again, unchanged).
+                    let mc = shown.with(|r| r.as_ref().and_then(|r| r.test_outcome()).is_some_and(|t| !t.exact));
+                    (mc && !stale.get() && !running.get()).then(|| {
+                        let n = shown.with(|r| r.as_ref().and_then(|r| r.test_outcome()).map_or(0, |t| t.resamples));
+                        let unit = match fm.design.get_untracked().as_str() {
+                            "paired" | "one-sample" => "sign patterns",
+                            "association" => "pairings",
+                            _ => "relabellings",
+                        };
+                        let label = format!("Add {} more {unit}", crate::base::format::count(n));
+                        view! {
+                            <div class="actions continue-run">
+                                <button type="button" id="continue-run" class="secondary" on:click=move |_| {
+                                    let total = fm.resamples.get_untracked().trim().replace([',', '_', ' '], "").parse::<u64>().unwrap_or(n);
+                                    fm.resamples.set((total.max(n) + n).to_string());
+                                    run();
+                                }>{label}</button>
+                                <span class="hint">"The same seed: the first "{crate::base::format::count(n)}" are drawn again unchanged, the p-value sharpens, and the link records the total."</span>
+                            </div>
+                        }
+                    })
+                }}
                 {move || shown.get().is_some().then(|| view! { <SharePanel shown=shown last_job=last_job workers=result_workers/> })}
             </section>
         </main>

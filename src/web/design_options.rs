@@ -167,6 +167,7 @@ pub fn AssociationOptions(fm: Form, columns: Signal<Vec<(String, ColumnKind)>>) 
                 (AssocStatistic::Pearson, "Pearson correlation r"),
                 (AssocStatistic::Spearman, "Spearman rank correlation rho"),
                 (AssocStatistic::Slope, "least-squares slope of y on x"),
+                (AssocStatistic::Kendall, "Kendall rank correlation tau-b"),
             ]/>
         </div>
     }

@@ -106,9 +106,24 @@ macro_rules! registry {
                     $(Job::$variant(r) => <$design as Design>::seed(r),)*
                 }
             }
+
+            /// The test settings of a job with a permutation test (none for estimates and
+            /// plans).
+            pub fn test_settings(&mut self) -> Option<&mut crate::designs::TestSettings> {
+                match self {
+                    $(Job::$variant(r) => <$design as Design>::test_settings(r),)*
+                }
+            }
         }
 
         impl Report {
+            /// The permutation test of the report, for designs with one.
+            pub fn test_outcome(&self) -> Option<&crate::designs::TestOutcome> {
+                match self {
+                    $(Report::$variant(r) => <$design as Design>::test_outcome(r),)*
+                }
+            }
+
             /// The design of the report.
             pub fn key(&self) -> DesignKey {
                 match self {

@@ -473,6 +473,15 @@ test("association in the page matches the native command and draws a scatter plo
   assert.equal((await page.$$("#figure-scatter circle")).length, 50);
   assert.match(await page.textContent(".cautions"), /not causation/);
   await page.screenshot({ path: path.join(out, "association.png"), fullPage: true });
+  // Kendall's tau-b: the command's numbers (tests/kendall_checks.rs checks them against scipy).
+  const tau = nativeRun(["analyze", "tests/reference/data/cars.csv", "--design", "association",
+    "--x", "speed", "--y", "dist", "--statistic", "kendall", "--seed", "66"]);
+  await page.selectOption("#assoc-stat", "kendall");
+  await page.click("#run");
+  await page.waitForFunction((f) => document.querySelector("#finding")?.textContent === f, tau.finding, { timeout: 60000 });
+  assert.match(tau.finding, /Kendall tau-b/);
+  assert.equal(await num(page, "data-p-value"), tau.p_value);
+  assert.match(await page.textContent("#findings"), /Kendall's normal approximation/);
   assert.deepEqual(errors, []);
   await page.close();
 });
@@ -856,6 +865,24 @@ test("hints from the data: skew, far-out values and a look of pairing, worded as
   assert.equal(section.length, 5);
   for (const item of section) assert.ok(text.includes(item), item);
   assert.match(section.join(" "), /rise and fall together row by row/);
+  assert.deepEqual(errors, []);
+  await page.close();
+});
+
+test("a run continues with as many relabellings again: the command's numbers for the total", async () => {
+  const json = nativeRun(["analyze", "demo-data/tomato-irrigation.csv", "--seed", "4242", "--resamples", "40000"]);
+  const { page, errors } = await openPage();
+  await page.waitForSelector("#preview table");
+  await page.click("details:has(#seed) > summary");
+  await page.fill("#resamples", "20000");
+  await runWithSeed(page, 4242);
+  await page.waitForSelector("#continue-run", { timeout: 60000 });
+  assert.match(await page.textContent("#continue-run"), /Add 20,000 more relabellings/);
+  await page.click("#continue-run");
+  await page.waitForFunction(() => /40,000 random relabellings/.test(document.querySelector("#finding")?.textContent || ""), null, { timeout: 60000 });
+  assert.equal(await num(page, "data-p-value"), json.p_value);
+  assert.equal(await page.textContent("#finding"), json.finding);
+  assert.equal(await page.inputValue("#resamples"), "40000");
   assert.deepEqual(errors, []);
   await page.close();
 });
