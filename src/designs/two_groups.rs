@@ -400,7 +400,8 @@ fn two_group_report(
 ) -> Result<TwoGroupsReport, Error> {
     let set = &req.settings;
     let (a, b) = (&g.a, &g.b);
-    super::check_work(a.len() + b.len(), 1, set)?;
+    // The robustness table runs four more relabelling tests (its bound counts five of all).
+    super::check_work(a.len() + b.len(), if req.robustness { 5 } else { 1 }, set)?;
     let mut notes = g.notes.clone();
     let st = req.statistic;
     let setup = Setup::for_run(st, a, b, set.kernels, set.exact_limit);
