@@ -51,8 +51,12 @@ fn f(v: &Value) -> f64 {
 fn exact_p_values_match_brute_force_enumeration() {
     let exp = expected();
     for case in exp["cases"].as_array().unwrap() {
-        // The rank-sum statistic has its own checks against scipy: tests/rank_checks.rs.
-        for st in Statistic::ALL.into_iter().filter(|s| !s.on_ranks()) {
+        // The rank-sum statistic and the distance have their own checks against scipy:
+        // tests/rank_checks.rs and tests/ks_checks.rs.
+        for st in Statistic::ALL
+            .into_iter()
+            .filter(|s| !s.on_ranks() && *s != Statistic::KsDistance)
+        {
             let e = &case["exact"][st.key()];
             let mut r = request(case, st);
             for (alt, rule, key) in [
@@ -93,8 +97,12 @@ fn exact_p_values_match_brute_force_enumeration() {
 fn monte_carlo_p_agrees_with_exact_within_its_error() {
     let exp = expected();
     for case in exp["cases"].as_array().unwrap() {
-        // The rank-sum statistic has its own checks against scipy: tests/rank_checks.rs.
-        for st in Statistic::ALL.into_iter().filter(|s| !s.on_ranks()) {
+        // The rank-sum statistic and the distance have their own checks against scipy:
+        // tests/rank_checks.rs and tests/ks_checks.rs.
+        for st in Statistic::ALL
+            .into_iter()
+            .filter(|s| !s.on_ranks() && *s != Statistic::KsDistance)
+        {
             let mut r = request(case, st);
             r.settings.exact_limit = 0;
             r.settings.resamples = 40_000;

@@ -6,10 +6,10 @@
 
 use serde::{Deserialize, Serialize};
 
-use super::two_groups::Statistic;
 use crate::base::{IntervalMethod, Note};
 use crate::input::columns::Layout;
 use crate::num::stats;
+use crate::resample::two_groups::Statistic;
 
 /// |skewness| above this in a group counts as strong skew (common practice, e.g. Bulmer
 /// 1979, "Principles of Statistics": beyond 1 "highly skewed"; from memory).

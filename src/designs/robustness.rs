@@ -133,12 +133,13 @@ fn excludes(iv: &Interval, null: f64) -> Option<bool> {
 }
 
 /// The table from the other statistics' tests and the chosen analysis: its p-value, its
-/// effect's intervals and the Welch t-test.
+/// effect's intervals (read when `intervals_read`: a two-sided test of an effect with a value
+/// of no difference) and the Welch t-test.
 #[allow(clippy::too_many_arguments)]
 pub fn table(
     statistics: Vec<OtherStatistic>,
     chosen_p: f64,
-    alternative: Alternative,
+    intervals_read: bool,
     confidence: f64,
     null_effect: f64,
     intervals: &[Interval],
@@ -151,7 +152,6 @@ pub fn table(
         .filter(|o| (o.p_value <= level) != chosen_below)
         .map(|o| o.statistic)
         .collect();
-    let intervals_read = alternative == Alternative::TwoSided;
     let intervals_differ = if intervals_read {
         intervals
             .iter()
@@ -224,15 +224,7 @@ mod tests {
             other(Statistic::RankSum, 0.03),
         ];
         let ivs = [iv(0.2, 1.4, Method::Bca), iv(-0.1, 1.5, Method::Percentile)];
-        let r = table(
-            others,
-            0.04,
-            Alternative::TwoSided,
-            0.95,
-            0.0,
-            &ivs,
-            &welch(0.2),
-        );
+        let r = table(others, 0.04, true, 0.95, 0.0, &ivs, &welch(0.2));
         assert!(r.verdict.chosen_below);
         assert_eq!(
             r.verdict.statistics_differ,
@@ -243,18 +235,10 @@ mod tests {
         assert!(!r.verdict.same());
         // All on one side: the same conclusion; one-sided tests leave the intervals out.
         let all = vec![other(Statistic::MedianDifference, 0.01)];
-        let r = table(all, 0.2, Alternative::Greater, 0.95, 0.0, &ivs, &welch(0.3));
+        let r = table(all, 0.2, false, 0.95, 0.0, &ivs, &welch(0.3));
         assert!(!r.verdict.chosen_below);
         assert!(r.verdict.statistics_differ.len() == 1 && !r.intervals_read);
-        let r = table(
-            Vec::new(),
-            0.2,
-            Alternative::TwoSided,
-            0.95,
-            0.5,
-            &[],
-            &welch(0.3),
-        );
+        let r = table(Vec::new(), 0.2, true, 0.95, 0.5, &[], &welch(0.3));
         assert!(r.verdict.same());
     }
 }

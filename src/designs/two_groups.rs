@@ -139,6 +139,16 @@ impl Design for TwoGroupsDesign {
     type Report = TwoGroupsReport;
 
     fn check(req: &TwoGroupsRequest) -> Result<(), Error> {
+        if req.statistic == Statistic::KsDistance
+            && (req.settings.alternative != Alternative::TwoSided
+                || req.settings.two_sided != TwoSidedRule::Absolute)
+        {
+            return Err(Error::settings(
+                "The Kolmogorov–Smirnov distance has no direction: it answers the two-sided \
+                 question only (alternative two-sided, two-sided rule absolute). For a \
+                 one-sided question, compare means, medians or ranks.",
+            ));
+        }
         req.settings.check("relabellings")
     }
 
@@ -186,6 +196,7 @@ pub fn run(req: &TwoGroupsRequest, progress: ProgressFn) -> Result<TwoGroupsRepo
 fn effect_fn(st: Statistic) -> TwoSampleFn {
     match st.effect() {
         Statistic::RankSum => |a, b| perm::superiority(a, b),
+        Statistic::KsDistance => |a, b| perm::ks_distance(a, b),
         Statistic::MedianDifference => |a, b| stats::median_select(a) - stats::median_select(b),
         Statistic::TrimmedMeanDifference => {
             |a, b| stats::trimmed_mean_select(a) - stats::trimmed_mean_select(b)
@@ -280,6 +291,7 @@ fn effect_se(st: Statistic) -> boot::SeMethod<'static> {
     match st.effect() {
         // Bootstrapped by counts, with no studentized interval.
         Statistic::RankSum => boot::SeMethod::None,
+        Statistic::KsDistance => boot::SeMethod::Nested(boot::NESTED),
         Statistic::MedianDifference => boot::SeMethod::Nested(boot::NESTED),
         Statistic::TrimmedMeanDifference => boot::SeMethod::Formula(&|a, b| {
             (stats::trimmed_mean_se2(a) + stats::trimmed_mean_se2(b)).sqrt()
@@ -464,8 +476,10 @@ fn two_group_report(
     // median or trimmed-mean difference (its standard error needs the values themselves).
     // The probability of superiority is always bootstrapped by counts (a merge of the two
     // groups per resample instead of a sort), without a studentized interval.
+    // The Kolmogorov–Smirnov distance is bootstrapped from the values themselves.
     let streaming_boot = st.on_ranks()
-        || set.kernels >= 2
+        || st != Statistic::KsDistance
+            && set.kernels >= 2
             && a.len() + b.len() >= LARGE
             && !(studentize && st.effect() != Statistic::MeanDifference);
     let (values, tvals) = if streaming_boot {
@@ -487,10 +501,15 @@ fn two_group_report(
         studentize.then_some((&tvals[0][..], se_hat)),
         None,
         &mut || {
-            (
-                boot::acceleration_from_loo(&effect_leave_one_out(st, a, b)),
-                false,
-            )
+            if st == Statistic::KsDistance {
+                // No leave-one-out shortcut: the jackknife itself (grouped when large).
+                boot::acceleration(&design, &effect_f)
+            } else {
+                (
+                    boot::acceleration_from_loo(&effect_leave_one_out(st, a, b)),
+                    false,
+                )
+            }
         },
     );
     let g_finite: Vec<f64> = boot_g.iter().copied().filter(|v| v.is_finite()).collect();
@@ -601,7 +620,8 @@ fn two_group_report(
         report.robustness = Some(robustness::table(
             others,
             report.test.p_value,
-            set.alternative,
+            // A distance has no value of no difference to read its interval against.
+            set.alternative == Alternative::TwoSided && st != Statistic::KsDistance,
             set.confidence,
             if st.on_ranks() { 0.5 } else { 0.0 },
             &report.intervals,
@@ -639,7 +659,10 @@ fn cautions(st: Statistic, groups: &[GroupSummary]) -> Vec<Caution> {
     if smallest < 10 {
         c.push(Caution::SmallSample { smallest });
     }
-    if st != Statistic::WelchT && st != Statistic::MedianDifference {
+    if !matches!(
+        st,
+        Statistic::WelchT | Statistic::MedianDifference | Statistic::KsDistance
+    ) {
         let (s1, s2) = (groups[0].sd, groups[1].sd);
         let ratio = if s1.min(s2) > 0.0 {
             s1.max(s2) / s1.min(s2)
@@ -719,7 +742,26 @@ mod tests {
         r.data = "y,g\n5.1,a\n4.8,a\n6.0,a\n5.6,a\n5.9,a\n6.3,a\n5.2,a\n4.9,a\n\
                   4.2,b\n4.9,b\n5.0,b\n4.4,b\n4.7,b\n5.3,b\n4.1,b\n4.6,b\n"
             .into();
-        for st in Statistic::ALL {
+        // The distance has no sign: swapping the groups gives the same distance and p-value.
+        r.statistic = Statistic::KsDistance;
+        let ab = run(&r, &mut |_| true).unwrap();
+        r.first = Some("b".into());
+        let ba = run(&r, &mut |_| true).unwrap();
+        assert!(ab.test.exact && ab.test.observed > 0.0);
+        assert_eq!(
+            (ab.test.observed, ab.test.p_value),
+            (ba.test.observed, ba.test.p_value)
+        );
+        r.settings.alternative = Alternative::Greater;
+        assert!(
+            run(&r, &mut |_| true).is_err(),
+            "one-sided distance refused"
+        );
+        r.settings.alternative = Alternative::TwoSided;
+        for st in Statistic::ALL
+            .into_iter()
+            .filter(|s| *s != Statistic::KsDistance)
+        {
             r.statistic = st;
             r.first = None;
             r.settings.alternative = Alternative::Greater;
@@ -758,7 +800,11 @@ mod tests {
     fn fast_jackknife_equals_the_generic_one() {
         let a = [3.1, 4.7, 2.2, 5.9, 4.0, 4.0, 7.5];
         let b = [1.8, 2.9, 3.3, 2.1, 0.7, 2.6, 2.6, 9.0, 1.1];
-        for st in Statistic::ALL {
+        // The distance has no leave-one-out shortcut (the design jackknifes it directly).
+        for st in Statistic::ALL
+            .into_iter()
+            .filter(|s| *s != Statistic::KsDistance)
+        {
             let fast = boot::acceleration_from_loo(&effect_leave_one_out(st, &a, &b)).unwrap();
             let slow = boot::acceleration(&boot::Design::Two { a: &a, b: &b }, &effect_fn(st))
                 .0

@@ -42,7 +42,8 @@ fn how(exact: bool, resamples: u64, se: Option<f64>) -> String {
 }
 
 /// The table's rows: the chosen statistic, the others, the interval methods, Welch.
-pub fn table(r: &TwoGroupsReport, rb: &Robustness, d: usize) -> DocTable {
+/// `effect`: what the chosen analysis's interval is for.
+pub fn table(r: &TwoGroupsReport, rb: &Robustness, d: usize, effect: &str) -> DocTable {
     let level = rb.level;
     let mut rows = vec![vec![
         format!("{} (chosen)", r.statistic.label()),
@@ -61,13 +62,12 @@ pub fn table(r: &TwoGroupsReport, rb: &Robustness, d: usize) -> DocTable {
         ]);
     }
     let null = fmt::plain(rb.null_effect);
-    let effect = super::two_groups::effect_label(r.statistic);
     for iv in &r.intervals {
         let (cell, reads) = match (iv.low, iv.high) {
             (Some(l), Some(h)) => (
                 fmt::ci(iv.level, l, h, d),
                 if !rb.intervals_read {
-                    "not read (one-sided test)".to_string()
+                    "not read (one-sided test, or a distance)".to_string()
                 } else if l > rb.null_effect || h < rb.null_effect {
                     format!("excludes {null}")
                 } else {

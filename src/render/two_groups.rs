@@ -56,7 +56,14 @@ pub fn finding(r: &TwoGroupsReport) -> String {
     };
     let d = effect_decimals(r);
     let size = fmt::fixed(r.effect.abs(), d);
-    let mut s = if r.statistic.on_ranks() {
+    let mut s = if r.statistic == Statistic::KsDistance {
+        format!(
+            "The largest gap between the cumulative distributions of{} in {first} and \
+             {second} (Kolmogorov–Smirnov distance) was {}",
+            if of.is_empty() { " the values" } else { &of },
+            fmt::fixed(r.effect, d.max(2))
+        )
+    } else if r.statistic.on_ranks() {
         let what = if of.is_empty() {
             " the value".to_string()
         } else {
@@ -88,10 +95,14 @@ pub fn finding(r: &TwoGroupsReport) -> String {
     }
     let stat_words = match r.statistic {
         Statistic::WelchT => "a Welch t".to_string(),
+        Statistic::KsDistance => "a distance".to_string(),
         Statistic::RankSum => "a difference in mean ranks".to_string(),
         _ => format!("a difference in {what}s"),
     };
     let how = match (r.alternative, r.two_sided) {
+        (Alternative::TwoSided, TwoSidedRule::Absolute) if r.statistic == Statistic::KsDistance => {
+            format!("{stat_words} at least this large")
+        }
         (Alternative::TwoSided, TwoSidedRule::Absolute) => {
             format!("{stat_words} at least this large in either direction")
         }
@@ -298,7 +309,7 @@ pub fn doc(r: &TwoGroupsReport, date: &str) -> Doc {
         ));
     }
     if let Some(rb) = &r.robustness {
-        tables.push(super::robustness::table(r, rb, d));
+        tables.push(super::robustness::table(r, rb, d, effect_label));
         sections.push((
             "Would another reasonable choice change the answer?".to_string(),
             vec![

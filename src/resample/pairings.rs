@@ -13,7 +13,7 @@ pub enum AssocStatistic {
     Pearson,
     Spearman,
     Slope,
-    /// Kendall's tau-b ([`crate::resample::kendall`]); the only one not linear in S.
+    /// Kendall's tau-b (computed by the kendall module); the only one not linear in S.
     Kendall,
 }
 

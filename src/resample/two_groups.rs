@@ -31,15 +31,20 @@ pub enum Statistic {
     /// of the pooled values, ties given their mid-rank): a relabelling test of it is the
     /// rank-sum test, exact over the mid-ranks when enumerated.
     RankSum,
+    /// The two-sample Kolmogorov–Smirnov distance: the largest gap between the groups'
+    /// empirical distribution functions, read after each run of tied values. It has no
+    /// sign, so it answers a two-sided question only.
+    KsDistance,
 }
 
 impl Statistic {
-    pub const ALL: [Statistic; 5] = [
+    pub const ALL: [Statistic; 6] = [
         Statistic::MeanDifference,
         Statistic::MedianDifference,
         Statistic::TrimmedMeanDifference,
         Statistic::WelchT,
         Statistic::RankSum,
+        Statistic::KsDistance,
     ];
 
     pub fn key(self) -> &'static str {
@@ -49,6 +54,7 @@ impl Statistic {
             Statistic::TrimmedMeanDifference => "trimmed-mean-difference",
             Statistic::WelchT => "welch-t",
             Statistic::RankSum => "rank-sum",
+            Statistic::KsDistance => "ks-distance",
         }
     }
 
@@ -68,6 +74,7 @@ impl Statistic {
             Statistic::TrimmedMeanDifference => "difference in 20% trimmed means",
             Statistic::WelchT => "Welch t statistic",
             Statistic::RankSum => "Wilcoxon–Mann–Whitney difference in mean ranks",
+            Statistic::KsDistance => "Kolmogorov–Smirnov distance",
         }
     }
 
@@ -211,6 +218,8 @@ impl Setup {
         // Sums here run over every value of the pool (members and not), in words.
         s.tolerance = match statistic {
             Statistic::WelchT => TIE_TOLERANCE * 1.0f64.max(s.observed.abs()),
+            // Distinct distances differ by at least 1/(n1 n2).
+            Statistic::KsDistance => 0.25 / (n1 as f64 * n2 as f64),
             _ => sum_tolerance(spread, n, 1.0 / n1 as f64 + 1.0 / n2 as f64),
         };
         s
@@ -249,7 +258,32 @@ impl Setup {
                 };
                 tm(n1, first) - tm(n2, !first)
             }
+            Statistic::KsDistance => self.ks_from_mask(&sub.words),
         }
+    }
+
+    /// The Kolmogorov–Smirnov distance of the split marked by the bit set `drawn` over the
+    /// sorted pool: one pass, the gap read where the next value differs.
+    fn ks_from_mask(&self, drawn: &[u64]) -> f64 {
+        let n = self.pool.len();
+        let (nd, no) = if self.drawn_is_first {
+            (self.n1 as f64, self.n2 as f64)
+        } else {
+            (self.n2 as f64, self.n1 as f64)
+        };
+        let (mut cd, mut co) = (0.0f64, 0.0f64);
+        let mut gap = 0.0f64;
+        for i in 0..n {
+            if (drawn[i / 64] >> (i % 64)) & 1 == 1 {
+                cd += 1.0;
+            } else {
+                co += 1.0;
+            }
+            if i + 1 == n || self.pool[i + 1] != self.pool[i] {
+                gap = gap.max((cd / nd - co / no).abs());
+            }
+        }
+        gap
     }
 
     /// Whether random relabellings stream through the pool (kernel generation 2, large).
@@ -317,6 +351,7 @@ impl Setup {
         };
         s.tolerance = match statistic {
             Statistic::WelchT => TIE_TOLERANCE * 1.0f64.max(s.observed.abs()),
+            Statistic::KsDistance => 0.25 / (n1 as f64 * n2 as f64),
             _ => sum_tolerance(spread, k, 1.0 / n1 as f64 + 1.0 / n2 as f64),
         };
         s
@@ -383,6 +418,9 @@ impl Setup {
     /// (trimmed mean), added from zero in rank order, the words' bit counts skipping whole
     /// words outside the ranks wanted.
     fn stat_from_mask(&self, drawn: &[u64]) -> f64 {
+        if self.statistic == Statistic::KsDistance {
+            return self.ks_from_mask(drawn);
+        }
         let (n1, n2) = (self.n1, self.n2);
         let ((lo1, hi1), (lo2, hi2)) = match self.statistic {
             Statistic::MedianDifference => (((n1 - 1) / 2, n1 / 2), ((n2 - 1) / 2, n2 / 2)),
@@ -679,7 +717,33 @@ pub fn statistic_value(statistic: Statistic, a: &[f64], b: &[f64]) -> f64 {
             let se2 = stats::variance(a) / a.len() as f64 + stats::variance(b) / b.len() as f64;
             welch_t_from(stats::mean(a) - stats::mean(b), se2)
         }
+        Statistic::KsDistance => ks_distance(a, b),
     }
+}
+
+/// The two-sample Kolmogorov–Smirnov distance sup |F_a − F_b| (as scipy.stats.ks_2samp's
+/// statistic): both groups sorted and merged, the gap read after each run of equal values.
+pub fn ks_distance(a: &[f64], b: &[f64]) -> f64 {
+    let (sa, sb) = (stats::sorted(a), stats::sorted(b));
+    let (na, nb) = (a.len() as f64, b.len() as f64);
+    let (mut i, mut j) = (0, 0);
+    let mut gap = 0.0f64;
+    while i < sa.len() || j < sb.len() {
+        let v = match (sa.get(i), sb.get(j)) {
+            (Some(&x), Some(&y)) => x.min(y),
+            (Some(&x), None) => x,
+            (None, Some(&y)) => y,
+            (None, None) => break,
+        };
+        while i < sa.len() && sa[i] == v {
+            i += 1;
+        }
+        while j < sb.len() && sb[j] == v {
+            j += 1;
+        }
+        gap = gap.max((i as f64 / na - j as f64 / nb).abs());
+    }
+    gap
 }
 
 /// Runs random relabelling blocks `blocks` (a range of block indices) and merges them in
@@ -752,9 +816,14 @@ mod tests {
                 s.observed,
                 direct
             );
-            // Drawn set the other way round.
+            // Drawn set the other way round (the distance has no sign).
             let s2 = Setup::new(st, &B, &A);
-            assert!((s2.observed + direct).abs() < 1e-12, "{st:?}");
+            let want = if st == Statistic::KsDistance {
+                direct
+            } else {
+                -direct
+            };
+            assert!((s2.observed - want).abs() < 1e-12, "{st:?}");
         }
     }
 

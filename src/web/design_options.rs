@@ -30,6 +30,7 @@ pub fn TwoGroupsOptions(fm: Form) -> impl IntoView {
                 (Statistic::TrimmedMeanDifference, "difference in 20% trimmed means"),
                 (Statistic::WelchT, "Welch t (allows unequal spreads)"),
                 (Statistic::RankSum, "ranks: Wilcoxon–Mann–Whitney (with the probability of superiority)"),
+                (Statistic::KsDistance, "whole distributions: Kolmogorov–Smirnov distance (two-sided only)"),
             ]/>
         </div>
         <div class="row" style:display=move || display(fm.design.get() == "two-groups", "flex")>

@@ -817,6 +817,13 @@ test("the rank-sum statistic in the page: the native command's numbers, with the
   // U as the command reports it; tests/rank_checks.rs checks it against scipy's mannwhitneyu.
   assert.ok(text.includes(`rank-sum test (cross-check)U = ${json.rank_sum.u}`));
   assert.match(text, /reacts to the unequal spread as well as to a shift/);
+  // The Kolmogorov–Smirnov distance (tests/ks_checks.rs checks it against scipy).
+  const ks = nativeRun(["analyze", "demo-data/tomato-irrigation.csv", "--statistic", "ks-distance", "--seed", "808"]);
+  await page.selectOption("#statistic", "ks-distance");
+  await page.click("#run");
+  await page.waitForFunction((f) => document.querySelector("#finding")?.textContent === f, ks.finding, { timeout: 60000 });
+  assert.match(ks.finding, /Kolmogorov–Smirnov distance/);
+  assert.equal(await num(page, "data-p-value"), ks.p_value);
   assert.deepEqual(errors, []);
   await page.close();
 });

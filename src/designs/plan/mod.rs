@@ -110,6 +110,12 @@ fn check(req: &PlanRequest) -> Result<(Sim, ModelSummary, f64, f64), Error> {
     if !req.effect.is_finite() {
         return bad("The assumed effect must be a number.".into());
     }
+    if req.statistic == Statistic::KsDistance.key() && req.alternative != Alternative::TwoSided {
+        return bad(
+            "The Kolmogorov–Smirnov distance has no direction: plan a two-sided test with it."
+                .into(),
+        );
+    }
     let test = match (req.design, req.statistic.as_str()) {
         (PlanDesign::TwoGroups, "") => Test::Two(Statistic::MeanDifference),
         (PlanDesign::TwoGroups, k) => Test::Two(Statistic::from_key(k).ok_or_else(|| {
