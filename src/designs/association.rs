@@ -156,7 +156,7 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
     let (x, y) = groups::paired_columns(&t, &req.x, &req.y, &mut notes)?;
     drop(t); // before the resampling (memory on large tables)
     let n = x.len();
-    super::check_work(2 * n, 1, set)?;
+    super::check_work_sorted(2 * n, 1, req.statistic == AssocStatistic::Kendall, set)?;
     if n < 3 {
         return Err(Error::data(format!(
             "Only {n} complete (x, y) row{}; an association needs at least 3.",

@@ -146,12 +146,29 @@ pub const MAX_PAIRS: usize = 1225;
 /// Refuses a request whose work (`n` values, each run of `runs` resampling passes of
 /// `settings`) is above [`MAX_WORK`], saying how much it would be and what to lower.
 pub fn check_work(n: usize, runs: usize, settings: &TestSettings) -> Result<(), Error> {
+    check_work_sorted(n, runs, false, settings)
+}
+
+/// [`check_work`] for a statistic that sorts or merge-counts its `n` values per resample
+/// (Kendall's tau-b, the Kolmogorov–Smirnov distance): each value then costs about log2 n
+/// steps, which the bound counts.
+pub fn check_work_sorted(
+    n: usize,
+    runs: usize,
+    sorts: bool,
+    settings: &TestSettings,
+) -> Result<(), Error> {
     let per_value = (settings.resamples + settings.bootstrap_resamples) as f64;
-    let work = n as f64 * per_value * runs as f64;
+    let steps = if sorts {
+        (n.max(2) as f64).log2().ceil()
+    } else {
+        1.0
+    };
+    let work = n as f64 * per_value * runs as f64 * steps;
     if work <= MAX_WORK {
         return Ok(());
     }
-    let fit = (MAX_WORK / (n as f64 * runs as f64)).floor();
+    let fit = (MAX_WORK / (n as f64 * runs as f64 * steps)).floor();
     Err(over_work_limit(
         format!(
             "This analysis would draw about {} values ({} values × ({} relabellings + {} \
@@ -162,6 +179,10 @@ pub fn check_work(n: usize, runs: usize, settings: &TestSettings) -> Result<(), 
             fmt::count(settings.bootstrap_resamples),
             if runs > 1 {
                 format!(" × {} tests", fmt::count(runs as u64))
+            } else {
+                String::new()
+            } + &if sorts {
+                format!(" × {steps} steps per value for this statistic, which sorts its values")
             } else {
                 String::new()
             },
@@ -712,6 +733,18 @@ pub fn group_summary(name: &str, x: &[f64], shift: f64) -> GroupSummary {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// A statistic that sorts its values per resample counts log2 n steps a value: 300,000
+    /// pairs pass the plain bound with the default settings and fail the sorted one, which
+    /// names the steps.
+    #[test]
+    fn sorting_statistics_count_their_steps() {
+        let set = TestSettings::new(1);
+        assert!(check_work(600_000, 1, &set).is_ok());
+        let e = check_work_sorted(600_000, 1, true, &set).unwrap_err();
+        assert!(e.message.contains("× 20 steps per value"), "{}", e.message);
+        assert!(check_work_sorted(20_000, 1, true, &set).is_ok());
+    }
     use crate::resample::driver::random_range;
     use crate::resample::rng::{self, Stream};
 

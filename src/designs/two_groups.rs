@@ -413,7 +413,12 @@ fn two_group_report(
     let set = &req.settings;
     let (a, b) = (&g.a, &g.b);
     // The robustness table runs four more relabelling tests (its bound counts five of all).
-    super::check_work(a.len() + b.len(), if req.robustness { 5 } else { 1 }, set)?;
+    super::check_work_sorted(
+        a.len() + b.len(),
+        if req.robustness { 5 } else { 1 },
+        req.statistic == Statistic::KsDistance,
+        set,
+    )?;
     let mut notes = g.notes.clone();
     let st = req.statistic;
     let setup = Setup::for_run(st, a, b, set.kernels, set.exact_limit);
