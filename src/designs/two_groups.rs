@@ -149,6 +149,12 @@ impl Design for TwoGroupsDesign {
                  one-sided question, compare means, medians or ranks.",
             ));
         }
+        if req.statistic.on_spread() && req.robustness {
+            return Err(Error::settings(
+                "The robustness table compares statistics of location (means, medians, ranks); \
+                 for the log ratio of the SDs, leave it out.",
+            ));
+        }
         req.settings.check("relabellings")
     }
 
@@ -197,6 +203,9 @@ fn effect_fn(st: Statistic) -> TwoSampleFn {
     match st.effect() {
         Statistic::RankSum => |a, b| perm::superiority(a, b),
         Statistic::KsDistance => |a, b| perm::ks_distance(a, b),
+        Statistic::LogSdRatio => {
+            |a, b| perm::log_sd_ratio_from(stats::variance(a), stats::variance(b))
+        }
         Statistic::MedianDifference => |a, b| stats::median_select(a) - stats::median_select(b),
         Statistic::TrimmedMeanDifference => {
             |a, b| stats::trimmed_mean_select(a) - stats::trimmed_mean_select(b)
@@ -291,7 +300,7 @@ fn effect_se(st: Statistic) -> boot::SeMethod<'static> {
     match st.effect() {
         // Bootstrapped by counts, with no studentized interval.
         Statistic::RankSum => boot::SeMethod::None,
-        Statistic::KsDistance => boot::SeMethod::Nested(boot::NESTED),
+        Statistic::KsDistance | Statistic::LogSdRatio => boot::SeMethod::Nested(boot::NESTED),
         Statistic::MedianDifference => boot::SeMethod::Nested(boot::NESTED),
         Statistic::TrimmedMeanDifference => boot::SeMethod::Formula(&|a, b| {
             (stats::trimmed_mean_se2(a) + stats::trimmed_mean_se2(b)).sqrt()
@@ -421,7 +430,19 @@ fn two_group_report(
     )?;
     let mut notes = g.notes.clone();
     let st = req.statistic;
-    let setup = Setup::for_run(st, a, b, set.kernels, set.exact_limit);
+    // A statistic of spread is relabelled on the groups aligned at their medians, so that a
+    // difference in location does not enter the test (its observed value is unchanged).
+    let aligned = st.on_spread().then(|| {
+        let align = |x: &[f64]| {
+            let m = stats::median(x);
+            x.iter().map(|v| v - m).collect::<Vec<f64>>()
+        };
+        (align(a), align(b))
+    });
+    let (ta, tb) = aligned
+        .as_ref()
+        .map_or((&a[..], &b[..]), |(x, y)| (&x[..], &y[..]));
+    let setup = Setup::for_run(st, ta, tb, set.kernels, set.exact_limit);
     let streaming_null = setup.is_streaming();
     let stop = set.stop(set.alternative, setup.observed, setup.tolerance);
     let null = null_distribution(
@@ -433,6 +454,7 @@ fn two_group_report(
         progress,
     )?;
     drop(setup); // its pooled copy of the values, before the bootstrap
+    drop(aligned);
     let others = if req.robustness {
         Some(robustness::other_tests(st, a, b, set, progress)?)
     } else {
@@ -483,7 +505,7 @@ fn two_group_report(
     // groups per resample instead of a sort), without a studentized interval.
     // The Kolmogorov–Smirnov distance is bootstrapped from the values themselves.
     let streaming_boot = st.on_ranks()
-        || st != Statistic::KsDistance
+        || !matches!(st, Statistic::KsDistance | Statistic::LogSdRatio)
             && set.kernels >= 2
             && a.len() + b.len() >= LARGE
             && !(studentize && st.effect() != Statistic::MeanDifference);
@@ -506,7 +528,7 @@ fn two_group_report(
         studentize.then_some((&tvals[0][..], se_hat)),
         None,
         &mut || {
-            if st == Statistic::KsDistance {
+            if matches!(st, Statistic::KsDistance | Statistic::LogSdRatio) {
                 // No leave-one-out shortcut: the jackknife itself (grouped when large).
                 boot::acceleration(&design, &effect_f)
             } else {
@@ -666,7 +688,10 @@ fn cautions(st: Statistic, groups: &[GroupSummary]) -> Vec<Caution> {
     }
     if !matches!(
         st,
-        Statistic::WelchT | Statistic::MedianDifference | Statistic::KsDistance
+        Statistic::WelchT
+            | Statistic::MedianDifference
+            | Statistic::KsDistance
+            | Statistic::LogSdRatio
     ) {
         let (s1, s2) = (groups[0].sd, groups[1].sd);
         let ratio = if s1.min(s2) > 0.0 {
@@ -805,10 +830,11 @@ mod tests {
     fn fast_jackknife_equals_the_generic_one() {
         let a = [3.1, 4.7, 2.2, 5.9, 4.0, 4.0, 7.5];
         let b = [1.8, 2.9, 3.3, 2.1, 0.7, 2.6, 2.6, 9.0, 1.1];
-        // The distance has no leave-one-out shortcut (the design jackknifes it directly).
+        // The distance and the SD ratio have no leave-one-out shortcut (the design
+        // jackknifes them directly).
         for st in Statistic::ALL
             .into_iter()
-            .filter(|s| *s != Statistic::KsDistance)
+            .filter(|s| !matches!(s, Statistic::KsDistance | Statistic::LogSdRatio))
         {
             let fast = boot::acceleration_from_loo(&effect_leave_one_out(st, &a, &b)).unwrap();
             let slow = boot::acceleration(&boot::Design::Two { a: &a, b: &b }, &effect_fn(st))

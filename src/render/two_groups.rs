@@ -56,7 +56,25 @@ pub fn finding(r: &TwoGroupsReport) -> String {
     };
     let d = effect_decimals(r);
     let size = fmt::fixed(r.effect.abs(), d);
-    let mut s = if r.statistic == Statistic::KsDistance {
+    let mut s = if r.statistic == Statistic::LogSdRatio {
+        let ratio = |x: f64| fmt::sig(x.exp());
+        let mut s = format!(
+            "The SD of{} in {first} was {} times that in {second} (log ratio {}",
+            if of.is_empty() { " the values" } else { &of },
+            ratio(r.effect),
+            fmt::fixed(r.effect, d.max(2))
+        );
+        if let (Some(lo), Some(hi)) = (r.ci.low, r.ci.high) {
+            s.push_str(&format!(
+                ", {}: a ratio from {} to {}",
+                fmt::ci(r.ci.level, lo, hi, d.max(2)),
+                ratio(lo),
+                ratio(hi)
+            ));
+        }
+        s.push(')');
+        s
+    } else if r.statistic == Statistic::KsDistance {
         format!(
             "The largest gap between the cumulative distributions of{} in {first} and \
              {second} (Kolmogorov–Smirnov distance) was {}",
@@ -85,7 +103,9 @@ pub fn finding(r: &TwoGroupsReport) -> String {
         let dir = if r.effect > 0.0 { "higher" } else { "lower" };
         format!("The {what}{of} was {size} {dir} in {first} than in {second}")
     };
-    if r.statistic.on_ranks() {
+    if r.statistic == Statistic::LogSdRatio {
+        // The interval is in the sentence already.
+    } else if r.statistic.on_ranks() {
         if let (Some(lo), Some(hi)) = (r.ci.low, r.ci.high) {
             s.push_str(&format!("; {}", fmt::ci(r.ci.level, lo, hi, d.max(2))));
         }
@@ -96,6 +116,7 @@ pub fn finding(r: &TwoGroupsReport) -> String {
     let stat_words = match r.statistic {
         Statistic::WelchT => "a Welch t".to_string(),
         Statistic::KsDistance => "a distance".to_string(),
+        Statistic::LogSdRatio => "a log SD ratio".to_string(),
         Statistic::RankSum => "a difference in mean ranks".to_string(),
         _ => format!("a difference in {what}s"),
     };
@@ -152,15 +173,16 @@ fn methods(r: &TwoGroupsReport, date: &str) -> String {
     };
     format!(
         "Design: two independent groups ({a} with n = {}, {b} with n = {}). Test statistic: \
-         the {} ({a} minus {b}). Alternative: {alt}. Null distribution: {}; ties with the \
+         the {} ({a} {} {b}). Alternative: {alt}. Null distribution: {}; ties with the \
          observed value counted as at least as extreme (within the rounding error of the statistic's arithmetic). Effect: the \
          {} with a {} {} bootstrap interval from {} resamples drawn within each group; Hedges' \
          g with its bootstrap interval; Welch's t-test with Welch–Satterthwaite degrees of \
-         freedom as a classical cross-check{}.{} Random numbers: {}, seed {}. Computed with \
+         freedom as a classical cross-check{}.{}{} Random numbers: {}, seed {}. Computed with \
          Reshuffle {ENGINE_VERSION} on {date}.",
         r.groups[0].n,
         r.groups[1].n,
         r.statistic.label(),
+        if r.statistic.on_spread() { "over" } else { "minus" },
         words::how(&r.test, "relabellings"),
         effect_label(r.statistic),
         fmt::percent(r.ci.level),
@@ -173,6 +195,14 @@ fn methods(r: &TwoGroupsReport, date: &str) -> String {
              probability of superiority − 1, its interval mapped the same way; the rank-sum \
              test by its normal approximation (continuity and tie corrections) as a further \
              cross-check"
+        } else {
+            ""
+        },
+        if r.statistic.on_spread() {
+            " The relabellings are of each value's deviation from its group's median (the \
+             groups aligned, so that a difference in location does not enter this test of \
+             spread; the test is then approximate, exact only when the groups' shapes agree \
+             apart from their spread); the bootstrap resamples the values themselves."
         } else {
             ""
         },
@@ -231,12 +261,26 @@ pub fn doc(r: &TwoGroupsReport, date: &str) -> Doc {
             words::interval_line(iv, d),
         ));
     }
+    // Welch's interval is for the difference in means, in the values' units (decimals
+    // from the SDs where the effect has no units).
+    let unitless = r.statistic.on_ranks()
+        || matches!(r.statistic, Statistic::KsDistance | Statistic::LogSdRatio);
+    let dw = if !unitless {
+        d
+    } else {
+        let sd = r.groups.iter().map(|g| g.sd).fold(0.0, f64::max);
+        if sd > 0.0 {
+            fmt::decimals_for(sd)
+        } else {
+            d
+        }
+    };
     lines.push((
         "Welch t-test (cross-check)".into(),
         match (r.welch.t, r.welch.df, r.welch.p_value) {
             (Some(t), Some(df), Some(p)) => {
                 let ci = match (r.welch.ci.low, r.welch.ci.high) {
-                    (Some(l), Some(h)) => format!(", {}", fmt::ci(r.welch.ci.level, l, h, d)),
+                    (Some(l), Some(h)) => format!(", {}", fmt::ci(r.welch.ci.level, l, h, dw)),
                     _ => String::new(),
                 };
                 format!("t = {t:.3}, df = {df:.2}, p = {p:.5}{ci}")

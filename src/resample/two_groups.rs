@@ -35,16 +35,21 @@ pub enum Statistic {
     /// empirical distribution functions, read after each run of tied values. It has no
     /// sign, so it answers a two-sided question only.
     KsDistance,
+    /// The log of the ratio of the groups' standard deviations, a statistic of spread. The
+    /// two-group design relabels the groups aligned at their medians (each value's deviation
+    /// from its group's median), so that a difference in location does not enter the test.
+    LogSdRatio,
 }
 
 impl Statistic {
-    pub const ALL: [Statistic; 6] = [
+    pub const ALL: [Statistic; 7] = [
         Statistic::MeanDifference,
         Statistic::MedianDifference,
         Statistic::TrimmedMeanDifference,
         Statistic::WelchT,
         Statistic::RankSum,
         Statistic::KsDistance,
+        Statistic::LogSdRatio,
     ];
 
     pub fn key(self) -> &'static str {
@@ -55,7 +60,19 @@ impl Statistic {
             Statistic::WelchT => "welch-t",
             Statistic::RankSum => "rank-sum",
             Statistic::KsDistance => "ks-distance",
+            Statistic::LogSdRatio => "log-sd-ratio",
         }
+    }
+
+    /// Whether relabelling it needs the sums of squares as well as the sums.
+    pub fn needs_squares(self) -> bool {
+        matches!(self, Statistic::WelchT | Statistic::LogSdRatio)
+    }
+
+    /// Whether the statistic measures spread (tested on the groups aligned at their
+    /// medians).
+    pub fn on_spread(self) -> bool {
+        self == Statistic::LogSdRatio
     }
 
     /// Whether the statistic is computed from the pooled values' ranks.
@@ -75,6 +92,7 @@ impl Statistic {
             Statistic::WelchT => "Welch t statistic",
             Statistic::RankSum => "Wilcoxon–Mann–Whitney difference in mean ranks",
             Statistic::KsDistance => "Kolmogorov–Smirnov distance",
+            Statistic::LogSdRatio => "log ratio of the SDs",
         }
     }
 
@@ -212,12 +230,14 @@ impl Setup {
         let observed = Subset::from_members(
             &s.pool,
             |p| (first[p / 64] >> (p % 64)) & 1 == 1,
-            statistic == Statistic::WelchT,
+            statistic.needs_squares(),
         );
         s.observed = s.stat_from_subset(&observed);
         // Sums here run over every value of the pool (members and not), in words.
         s.tolerance = match statistic {
-            Statistic::WelchT => TIE_TOLERANCE * 1.0f64.max(s.observed.abs()),
+            Statistic::WelchT | Statistic::LogSdRatio => {
+                TIE_TOLERANCE * 1.0f64.max(s.observed.abs())
+            }
             // Distinct distances differ by at least 1/(n1 n2).
             Statistic::KsDistance => 0.25 / (n1 as f64 * n2 as f64),
             _ => sum_tolerance(spread, n, 1.0 / n1 as f64 + 1.0 / n2 as f64),
@@ -235,9 +255,10 @@ impl Setup {
         // Group 1 is the members when the drawn group is the first.
         let first = self.drawn_is_first;
         match self.statistic {
-            Statistic::MeanDifference | Statistic::WelchT | Statistic::RankSum => {
-                self.stat_from_sums(sub.sum(), sub.sum_sq())
-            }
+            Statistic::MeanDifference
+            | Statistic::WelchT
+            | Statistic::RankSum
+            | Statistic::LogSdRatio => self.stat_from_sums(sub.sum(), sub.sum_sq()),
             Statistic::MedianDifference => {
                 let med = |size: usize, members: bool| {
                     let (lo, hi) = ((size - 1) / 2, size / 2);
@@ -341,7 +362,10 @@ impl Setup {
             mask[i / 64] |= 1 << (i % 64);
         }
         s.observed = match statistic {
-            Statistic::MeanDifference | Statistic::WelchT | Statistic::RankSum => {
+            Statistic::MeanDifference
+            | Statistic::WelchT
+            | Statistic::RankSum
+            | Statistic::LogSdRatio => {
                 let (sum, sq) = s.observed_set.iter().fold((0.0, 0.0), |(x, y), &i| {
                     (x + s.pool[i], y + s.pool[i] * s.pool[i])
                 });
@@ -350,7 +374,9 @@ impl Setup {
             _ => s.stat_from_mask(&mask),
         };
         s.tolerance = match statistic {
-            Statistic::WelchT => TIE_TOLERANCE * 1.0f64.max(s.observed.abs()),
+            Statistic::WelchT | Statistic::LogSdRatio => {
+                TIE_TOLERANCE * 1.0f64.max(s.observed.abs())
+            }
             Statistic::KsDistance => 0.25 / (n1 as f64 * n2 as f64),
             _ => sum_tolerance(spread, k, 1.0 / n1 as f64 + 1.0 / n2 as f64),
         };
@@ -360,7 +386,10 @@ impl Setup {
     fn is_sum_based(&self) -> bool {
         matches!(
             self.statistic,
-            Statistic::MeanDifference | Statistic::WelchT | Statistic::RankSum
+            Statistic::MeanDifference
+                | Statistic::WelchT
+                | Statistic::RankSum
+                | Statistic::LogSdRatio
         )
     }
 
@@ -381,7 +410,11 @@ impl Setup {
                 let q2 = self.total_sq - q1;
                 let v1 = ((q1 - s1 * m1) / (n1 - 1.0)).max(0.0);
                 let v2 = ((q2 - (self.total - s1) * m2) / (n2 - 1.0)).max(0.0);
-                welch_t_from(m1 - m2, v1 / n1 + v2 / n2)
+                if self.statistic == Statistic::LogSdRatio {
+                    log_sd_ratio_from(v1, v2)
+                } else {
+                    welch_t_from(m1 - m2, v1 / n1 + v2 / n2)
+                }
             }
         }
     }
@@ -475,7 +508,7 @@ impl Setup {
     fn streaming_block(&self, lg: &Large, mut stream: Stream, len: u64) -> (Counts, Vec<f64>) {
         let mut counts = Counts::default();
         let mut values = Vec::with_capacity(len as usize);
-        let mut sub = Subset::new(self.pool.len(), self.statistic == Statistic::WelchT);
+        let mut sub = Subset::new(self.pool.len(), self.statistic.needs_squares());
         for _ in 0..len {
             lg.split.draw(&self.pool, &mut stream, &mut sub);
             let t = self.stat_from_subset(&sub);
@@ -499,7 +532,7 @@ impl Setup {
             // Shuffle the values themselves and sum the drawn part as it is drawn.
             let mut vals = self.pool.clone();
             let vals = &mut vals[..n];
-            if self.statistic == Statistic::WelchT {
+            if self.statistic.needs_squares() {
                 for _ in 0..len {
                     let (mut s, mut q) = (0.0, 0.0);
                     for i in 0..k {
@@ -718,6 +751,17 @@ pub fn statistic_value(statistic: Statistic, a: &[f64], b: &[f64]) -> f64 {
             welch_t_from(stats::mean(a) - stats::mean(b), se2)
         }
         Statistic::KsDistance => ks_distance(a, b),
+        Statistic::LogSdRatio => log_sd_ratio_from(stats::variance(a), stats::variance(b)),
+    }
+}
+
+/// The log ratio of two SDs from the variances: 0 when both are 0, ±∞ when one is.
+pub fn log_sd_ratio_from(v1: f64, v2: f64) -> f64 {
+    match (v1 > 0.0, v2 > 0.0) {
+        (true, true) => 0.5 * (v1 / v2).ln(),
+        (false, false) => 0.0,
+        (true, false) => f64::INFINITY,
+        (false, true) => f64::NEG_INFINITY,
     }
 }
 
@@ -874,7 +918,7 @@ mod tests {
                 let direct = statistic_value(st, x, y);
                 assert!((s.observed - direct).abs() < 1e-9, "{st:?}: observed");
                 let lg = s.large.as_ref().unwrap();
-                let mut sub = Subset::new(s.pool.len(), st == Statistic::WelchT);
+                let mut sub = Subset::new(s.pool.len(), st.needs_squares());
                 let mut stream = Stream::new(4, Purpose::Permutation, 0);
                 for _ in 0..50 {
                     lg.split.draw(&s.pool, &mut stream, &mut sub);

@@ -31,6 +31,7 @@ pub fn TwoGroupsOptions(fm: Form) -> impl IntoView {
                 (Statistic::WelchT, "Welch t (allows unequal spreads)"),
                 (Statistic::RankSum, "ranks: Wilcoxon–Mann–Whitney (with the probability of superiority)"),
                 (Statistic::KsDistance, "whole distributions: Kolmogorov–Smirnov distance (two-sided only)"),
+                (Statistic::LogSdRatio, "spread: log ratio of the SDs (groups aligned at their medians)"),
             ]/>
         </div>
         <div class="row" style:display=move || display(fm.design.get() == "two-groups", "flex")>

@@ -824,6 +824,13 @@ test("the rank-sum statistic in the page: the native command's numbers, with the
   await page.waitForFunction((f) => document.querySelector("#finding")?.textContent === f, ks.finding, { timeout: 60000 });
   assert.match(ks.finding, /Kolmogorov–Smirnov distance/);
   assert.equal(await num(page, "data-p-value"), ks.p_value);
+  // The log ratio of the SDs (tests/spread_checks.rs checks it against scipy).
+  const sd = nativeRun(["analyze", "demo-data/tomato-irrigation.csv", "--statistic", "log-sd-ratio", "--seed", "808"]);
+  await page.selectOption("#statistic", "log-sd-ratio");
+  await page.click("#run");
+  await page.waitForFunction((f) => document.querySelector("#finding")?.textContent === f, sd.finding, { timeout: 60000 });
+  assert.match(sd.finding, /times that in sprinkler/);
+  assert.equal(await num(page, "data-ci-high"), sd.ci.high);
   assert.deepEqual(errors, []);
   await page.close();
 });

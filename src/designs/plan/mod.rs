@@ -110,6 +110,13 @@ fn check(req: &PlanRequest) -> Result<(Sim, ModelSummary, f64, f64), Error> {
     if !req.effect.is_finite() {
         return bad("The assumed effect must be a number.".into());
     }
+    if req.statistic == Statistic::LogSdRatio.key() {
+        return bad(
+            "Plans simulate a shift between the groups; the log ratio of the SDs measures \
+             spread, not a shift. Plan with a statistic of location."
+                .into(),
+        );
+    }
     if req.statistic == Statistic::KsDistance.key() && req.alternative != Alternative::TwoSided {
         return bad(
             "The Kolmogorov–Smirnov distance has no direction: plan a two-sided test with it."

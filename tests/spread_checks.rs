@@ -1,0 +1,115 @@
+//! The log ratio of two groups' SDs against scipy (values in
+//! tests/reference/expected_spread.json from make_reference_spread.py; numpy 2.4.6,
+//! scipy 1.17.1): the statistic; the exact permutation p-values over every split of the
+//! groups aligned at their medians by scipy.stats.permutation_test, for each alternative, on
+//! R's sleep data (ties) and PlantGrowth ctrl against trt2; and the percentile and BCa bounds
+//! against scipy.stats.bootstrap's over 30 seeds.
+
+use reshuffle::base::*;
+use reshuffle::designs::two_groups::{run, Statistic, TwoGroupsReport, TwoGroupsRequest};
+use reshuffle::input::columns::Layout;
+use serde_json::Value;
+
+fn expected() -> Value {
+    let p = concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/reference/expected_spread.json"
+    );
+    serde_json::from_str(&std::fs::read_to_string(p).unwrap()).unwrap()
+}
+
+fn analyse(c: &Value, f: impl Fn(&mut TwoGroupsRequest)) -> TwoGroupsReport {
+    let file = c["file"].as_str().unwrap();
+    let p = format!("{}/tests/reference/data/{file}", env!("CARGO_MANIFEST_DIR"));
+    let mut r = TwoGroupsRequest::new(std::fs::read_to_string(p).unwrap(), 29);
+    r.layout = Layout::Long {
+        value: c["value"].as_str().unwrap().into(),
+        group: c["group"].as_str().unwrap().into(),
+    };
+    r.first = Some(c["first"].as_str().unwrap().into());
+    r.second = Some(c["second"].as_str().unwrap().into());
+    r.statistic = Statistic::LogSdRatio;
+    f(&mut r);
+    run(&r, &mut |_| true).expect("runs")
+}
+
+fn close(got: f64, want: f64, tol: f64, what: &str) {
+    assert!((got - want).abs() <= tol, "{what}: {got} vs {want}");
+}
+
+/// Exact p-values over the aligned groups equal scipy's (two-sided by the doubled rule,
+/// scipy's); random relabellings agree within four standard errors.
+#[test]
+fn exact_spread_p_values_equal_scipy() {
+    let e = expected();
+    for (name, c) in e["cases"].as_object().unwrap() {
+        for (alt, key) in [
+            (Alternative::Greater, "greater"),
+            (Alternative::Less, "less"),
+            (Alternative::TwoSided, "two-sided"),
+        ] {
+            let r = analyse(c, |r| {
+                r.settings.alternative = alt;
+                r.settings.two_sided = TwoSidedRule::DoubledTail;
+            });
+            assert!(r.test.exact);
+            close(
+                r.test.observed,
+                c["observed"].as_f64().unwrap(),
+                1e-12,
+                name,
+            );
+            let want = c[format!("permutation_{key}")].as_f64().unwrap();
+            close(r.test.p_value, want, 1e-12, &format!("{name} {key}"));
+        }
+        let want = c["permutation_two-sided"].as_f64().unwrap();
+        let mc = analyse(c, |r| {
+            r.settings.two_sided = TwoSidedRule::DoubledTail;
+            r.settings.exact_limit = 0;
+            r.settings.resamples = 100_000;
+        });
+        let se = 2.0 * (want / 2.0 * (1.0 - want / 2.0) / 100_000.0f64).sqrt();
+        close(mc.test.p_value, want, 4.0 * se, &format!("{name}: random"));
+    }
+}
+
+/// Percentile and BCa bounds within 4.5 Monte Carlo SDs (plus 0.01) of scipy's mean bounds.
+#[test]
+fn spread_intervals_agree_with_scipy_bootstrap() {
+    let e = expected();
+    for (name, c) in e["cases"].as_object().unwrap() {
+        let r = analyse(c, |r| {
+            r.settings.intervals = vec![IntervalMethod::Bca, IntervalMethod::Percentile];
+        });
+        for iv in &r.intervals {
+            let key = if iv.method == Method::Bca {
+                "BCa"
+            } else {
+                "percentile"
+            };
+            for (end, got) in [("low", iv.low.unwrap()), ("high", iv.high.unwrap())] {
+                let mean = c[format!("{key}_{end}_mean")].as_f64().unwrap();
+                let sd = c[format!("{key}_{end}_sd")].as_f64().unwrap();
+                close(got, mean, 4.5 * sd + 0.01, &format!("{name} {key} {end}"));
+            }
+        }
+    }
+}
+
+/// The robustness table (statistics of location) is refused with a statistic of spread.
+#[test]
+fn robustness_is_refused_for_spread() {
+    let e = expected();
+    let c = &e["cases"]["sleep"];
+    let file = c["file"].as_str().unwrap();
+    let p = format!("{}/tests/reference/data/{file}", env!("CARGO_MANIFEST_DIR"));
+    let mut r = TwoGroupsRequest::new(std::fs::read_to_string(p).unwrap(), 1);
+    r.statistic = Statistic::LogSdRatio;
+    r.robustness = true;
+    let err = run(&r, &mut |_| true).unwrap_err();
+    assert!(
+        err.message.contains("statistics of location"),
+        "{}",
+        err.message
+    );
+}
