@@ -52,7 +52,8 @@ fn exact_p_values_match_brute_force_enumeration() {
     let exp = expected();
     for case in exp["cases"].as_array().unwrap() {
         // The rank-sum statistic, the distance and the SD ratio have their own checks
-        // against scipy: tests/rank_checks.rs, ks_checks.rs and spread_checks.rs.
+        // against scipy: tests/rank_checks.rs, ks_checks.rs and spread_checks.rs (SD and
+        // MAD ratios).
         for st in Statistic::ALL
             .into_iter()
             .filter(|s| !s.on_ranks() && !s.on_spread() && *s != Statistic::KsDistance)
@@ -98,7 +99,8 @@ fn monte_carlo_p_agrees_with_exact_within_its_error() {
     let exp = expected();
     for case in exp["cases"].as_array().unwrap() {
         // The rank-sum statistic, the distance and the SD ratio have their own checks
-        // against scipy: tests/rank_checks.rs, ks_checks.rs and spread_checks.rs.
+        // against scipy: tests/rank_checks.rs, ks_checks.rs and spread_checks.rs (SD and
+        // MAD ratios).
         for st in Statistic::ALL
             .into_iter()
             .filter(|s| !s.on_ranks() && !s.on_spread() && *s != Statistic::KsDistance)

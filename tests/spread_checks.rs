@@ -1,6 +1,6 @@
-//! The log ratio of two groups' SDs against scipy (values in
-//! tests/reference/expected_spread.json from make_reference_spread.py; numpy 2.4.6,
-//! scipy 1.17.1): the statistic; the exact permutation p-values over every split of the
+//! The log ratios of two groups' SDs and of their median absolute deviations against scipy
+//! (values in tests/reference/expected_spread.json from make_reference_spread.py; numpy
+//! 2.4.6, scipy 1.17.1, MADs by scipy.stats.median_abs_deviation): the statistic; the exact permutation p-values over every split of the
 //! groups aligned at their medians by scipy.stats.permutation_test, for each alternative, on
 //! R's sleep data (ties) and PlantGrowth ctrl against trt2; and the percentile and BCa bounds
 //! against scipy.stats.bootstrap's over 30 seeds.
@@ -28,7 +28,7 @@ fn analyse(c: &Value, f: impl Fn(&mut TwoGroupsRequest)) -> TwoGroupsReport {
     };
     r.first = Some(c["first"].as_str().unwrap().into());
     r.second = Some(c["second"].as_str().unwrap().into());
-    r.statistic = Statistic::LogSdRatio;
+    r.statistic = Statistic::from_key(c["statistic"].as_str().unwrap()).unwrap();
     f(&mut r);
     run(&r, &mut |_| true).expect("runs")
 }
@@ -73,11 +73,15 @@ fn exact_spread_p_values_equal_scipy() {
     }
 }
 
-/// Percentile and BCa bounds within 4.5 Monte Carlo SDs (plus 0.01) of scipy's mean bounds.
+/// Percentile and BCa bounds of the SD ratio within 4.5 Monte Carlo SDs (plus 0.01) of
+/// scipy's mean bounds (the script leaves the MAD ratio's out: see its notes).
 #[test]
 fn spread_intervals_agree_with_scipy_bootstrap() {
     let e = expected();
     for (name, c) in e["cases"].as_object().unwrap() {
+        if c["BCa_low_mean"].is_null() {
+            continue;
+        }
         let r = analyse(c, |r| {
             r.settings.intervals = vec![IntervalMethod::Bca, IntervalMethod::Percentile];
         });
@@ -100,7 +104,7 @@ fn spread_intervals_agree_with_scipy_bootstrap() {
 #[test]
 fn robustness_is_refused_for_spread() {
     let e = expected();
-    let c = &e["cases"]["sleep"];
+    let c = &e["cases"]["sleep log-sd-ratio"];
     let file = c["file"].as_str().unwrap();
     let p = format!("{}/tests/reference/data/{file}", env!("CARGO_MANIFEST_DIR"));
     let mut r = TwoGroupsRequest::new(std::fs::read_to_string(p).unwrap(), 1);

@@ -50,7 +50,7 @@ pub enum WeightsArg {
 #[derive(Args, Debug, Clone)]
 #[command(
     after_help = "Statistics by design: two groups: mean-difference (default), \
-    median-difference, trimmed-mean-difference, welch-t, rank-sum, ks-distance, log-sd-ratio; paired and one-sample: mean, median, \
+    median-difference, trimmed-mean-difference, welch-t, rank-sum, ks-distance, log-sd-ratio, log-mad-ratio; paired and one-sample: mean, median, \
     signed-rank; association: pearson, spearman, slope, kendall; k groups: f, welch-f, median-spread; yes/no: \
     proportion-difference, risk-ratio, odds-ratio."
 )]
@@ -246,7 +246,7 @@ impl AnalyzeArgs {
                     &self.statistic,
                     Statistic::from_key,
                     Statistic::MeanDifference,
-                    "mean-difference, median-difference, trimmed-mean-difference, welch-t, rank-sum, ks-distance or log-sd-ratio",
+                    "mean-difference, median-difference, trimmed-mean-difference, welch-t, rank-sum, ks-distance, log-sd-ratio or log-mad-ratio",
                 )?;
                 r.robustness = self.robustness;
                 r.settings = self.settings(TestSettings::new(0));

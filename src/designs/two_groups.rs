@@ -203,6 +203,7 @@ fn effect_fn(st: Statistic) -> TwoSampleFn {
     match st.effect() {
         Statistic::RankSum => |a, b| perm::superiority(a, b),
         Statistic::KsDistance => |a, b| perm::ks_distance(a, b),
+        Statistic::LogMadRatio => |a, b| perm::log_ratio(perm::mad(a), perm::mad(b)),
         Statistic::LogSdRatio => {
             |a, b| perm::log_sd_ratio_from(stats::variance(a), stats::variance(b))
         }
@@ -300,7 +301,9 @@ fn effect_se(st: Statistic) -> boot::SeMethod<'static> {
     match st.effect() {
         // Bootstrapped by counts, with no studentized interval.
         Statistic::RankSum => boot::SeMethod::None,
-        Statistic::KsDistance | Statistic::LogSdRatio => boot::SeMethod::Nested(boot::NESTED),
+        Statistic::KsDistance | Statistic::LogSdRatio | Statistic::LogMadRatio => {
+            boot::SeMethod::Nested(boot::NESTED)
+        }
         Statistic::MedianDifference => boot::SeMethod::Nested(boot::NESTED),
         Statistic::TrimmedMeanDifference => boot::SeMethod::Formula(&|a, b| {
             (stats::trimmed_mean_se2(a) + stats::trimmed_mean_se2(b)).sqrt()
@@ -505,8 +508,10 @@ fn two_group_report(
     // groups per resample instead of a sort), without a studentized interval.
     // The Kolmogorov–Smirnov distance is bootstrapped from the values themselves.
     let streaming_boot = st.on_ranks()
-        || !matches!(st, Statistic::KsDistance | Statistic::LogSdRatio)
-            && set.kernels >= 2
+        || !matches!(
+            st,
+            Statistic::KsDistance | Statistic::LogSdRatio | Statistic::LogMadRatio
+        ) && set.kernels >= 2
             && a.len() + b.len() >= LARGE
             && !(studentize && st.effect() != Statistic::MeanDifference);
     let (values, tvals) = if streaming_boot {
@@ -528,7 +533,10 @@ fn two_group_report(
         studentize.then_some((&tvals[0][..], se_hat)),
         None,
         &mut || {
-            if matches!(st, Statistic::KsDistance | Statistic::LogSdRatio) {
+            if matches!(
+                st,
+                Statistic::KsDistance | Statistic::LogSdRatio | Statistic::LogMadRatio
+            ) {
                 // No leave-one-out shortcut: the jackknife itself (grouped when large).
                 boot::acceleration(&design, &effect_f)
             } else {
@@ -692,6 +700,7 @@ fn cautions(st: Statistic, groups: &[GroupSummary]) -> Vec<Caution> {
             | Statistic::MedianDifference
             | Statistic::KsDistance
             | Statistic::LogSdRatio
+            | Statistic::LogMadRatio
     ) {
         let (s1, s2) = (groups[0].sd, groups[1].sd);
         let ratio = if s1.min(s2) > 0.0 {
@@ -832,10 +841,12 @@ mod tests {
         let b = [1.8, 2.9, 3.3, 2.1, 0.7, 2.6, 2.6, 9.0, 1.1];
         // The distance and the SD ratio have no leave-one-out shortcut (the design
         // jackknifes them directly).
-        for st in Statistic::ALL
-            .into_iter()
-            .filter(|s| !matches!(s, Statistic::KsDistance | Statistic::LogSdRatio))
-        {
+        for st in Statistic::ALL.into_iter().filter(|s| {
+            !matches!(
+                s,
+                Statistic::KsDistance | Statistic::LogSdRatio | Statistic::LogMadRatio
+            )
+        }) {
             let fast = boot::acceleration_from_loo(&effect_leave_one_out(st, &a, &b)).unwrap();
             let slow = boot::acceleration(&boot::Design::Two { a: &a, b: &b }, &effect_fn(st))
                 .0

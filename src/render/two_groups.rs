@@ -56,10 +56,15 @@ pub fn finding(r: &TwoGroupsReport) -> String {
     };
     let d = effect_decimals(r);
     let size = fmt::fixed(r.effect.abs(), d);
-    let mut s = if r.statistic == Statistic::LogSdRatio {
+    let mut s = if r.statistic.on_spread() {
         let ratio = |x: f64| fmt::sig(x.exp());
         let mut s = format!(
-            "The SD of{} in {first} was {} times that in {second} (log ratio {}",
+            "The {} of{} in {first} was {} times that in {second} (log ratio {}",
+            if r.statistic == Statistic::LogSdRatio {
+                "SD"
+            } else {
+                "median absolute deviation"
+            },
             if of.is_empty() { " the values" } else { &of },
             ratio(r.effect),
             fmt::fixed(r.effect, d.max(2))
@@ -103,7 +108,7 @@ pub fn finding(r: &TwoGroupsReport) -> String {
         let dir = if r.effect > 0.0 { "higher" } else { "lower" };
         format!("The {what}{of} was {size} {dir} in {first} than in {second}")
     };
-    if r.statistic == Statistic::LogSdRatio {
+    if r.statistic.on_spread() {
         // The interval is in the sentence already.
     } else if r.statistic.on_ranks() {
         if let (Some(lo), Some(hi)) = (r.ci.low, r.ci.high) {
@@ -117,6 +122,7 @@ pub fn finding(r: &TwoGroupsReport) -> String {
         Statistic::WelchT => "a Welch t".to_string(),
         Statistic::KsDistance => "a distance".to_string(),
         Statistic::LogSdRatio => "a log SD ratio".to_string(),
+        Statistic::LogMadRatio => "a log MAD ratio".to_string(),
         Statistic::RankSum => "a difference in mean ranks".to_string(),
         _ => format!("a difference in {what}s"),
     };
@@ -263,8 +269,8 @@ pub fn doc(r: &TwoGroupsReport, date: &str) -> Doc {
     }
     // Welch's interval is for the difference in means, in the values' units (decimals
     // from the SDs where the effect has no units).
-    let unitless = r.statistic.on_ranks()
-        || matches!(r.statistic, Statistic::KsDistance | Statistic::LogSdRatio);
+    let unitless =
+        r.statistic.on_ranks() || r.statistic.on_spread() || r.statistic == Statistic::KsDistance;
     let dw = if !unitless {
         d
     } else {

@@ -5,6 +5,7 @@ pub mod binomial;
 pub mod boot;
 pub mod combin;
 pub mod driver;
+pub mod effects;
 pub mod k_groups;
 pub mod kendall;
 pub mod large;

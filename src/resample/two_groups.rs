@@ -14,6 +14,10 @@ use crate::base::{Error, ProgressFn, Stage};
 use crate::num::stats;
 use crate::resample::combin::{choose, RevolvingDoor};
 use crate::resample::driver;
+use crate::resample::effects::mad_sorted;
+pub use crate::resample::effects::{
+    joint_ranks, ks_distance, log_ratio, log_sd_ratio_from, mad, superiority, welch_t_from,
+};
 use crate::resample::large::{self, Splitter, Subset};
 #[cfg(test)]
 use crate::resample::rng::Purpose;
@@ -39,10 +43,15 @@ pub enum Statistic {
     /// two-group design relabels the groups aligned at their medians (each value's deviation
     /// from its group's median), so that a difference in location does not enter the test.
     LogSdRatio,
+    /// The log of the ratio of the groups' median absolute deviations (from each group's
+    /// median; the 1.4826 scale factor cancels): a statistic of spread that outliers move
+    /// little, relabelled like [`Statistic::LogSdRatio`] on the groups aligned at their
+    /// medians.
+    LogMadRatio,
 }
 
 impl Statistic {
-    pub const ALL: [Statistic; 7] = [
+    pub const ALL: [Statistic; 8] = [
         Statistic::MeanDifference,
         Statistic::MedianDifference,
         Statistic::TrimmedMeanDifference,
@@ -50,6 +59,7 @@ impl Statistic {
         Statistic::RankSum,
         Statistic::KsDistance,
         Statistic::LogSdRatio,
+        Statistic::LogMadRatio,
     ];
 
     pub fn key(self) -> &'static str {
@@ -61,6 +71,7 @@ impl Statistic {
             Statistic::RankSum => "rank-sum",
             Statistic::KsDistance => "ks-distance",
             Statistic::LogSdRatio => "log-sd-ratio",
+            Statistic::LogMadRatio => "log-mad-ratio",
         }
     }
 
@@ -72,7 +83,7 @@ impl Statistic {
     /// Whether the statistic measures spread (tested on the groups aligned at their
     /// medians).
     pub fn on_spread(self) -> bool {
-        self == Statistic::LogSdRatio
+        matches!(self, Statistic::LogSdRatio | Statistic::LogMadRatio)
     }
 
     /// Whether the statistic is computed from the pooled values' ranks.
@@ -93,6 +104,7 @@ impl Statistic {
             Statistic::RankSum => "Wilcoxon–Mann–Whitney difference in mean ranks",
             Statistic::KsDistance => "Kolmogorov–Smirnov distance",
             Statistic::LogSdRatio => "log ratio of the SDs",
+            Statistic::LogMadRatio => "log ratio of the median absolute deviations",
         }
     }
 
@@ -235,7 +247,7 @@ impl Setup {
         s.observed = s.stat_from_subset(&observed);
         // Sums here run over every value of the pool (members and not), in words.
         s.tolerance = match statistic {
-            Statistic::WelchT | Statistic::LogSdRatio => {
+            Statistic::WelchT | Statistic::LogSdRatio | Statistic::LogMadRatio => {
                 TIE_TOLERANCE * 1.0f64.max(s.observed.abs())
             }
             // Distinct distances differ by at least 1/(n1 n2).
@@ -280,6 +292,28 @@ impl Setup {
                 tm(n1, first) - tm(n2, !first)
             }
             Statistic::KsDistance => self.ks_from_mask(&sub.words),
+            Statistic::LogMadRatio => self.mad_from_mask(&sub.words),
+        }
+    }
+
+    /// The log MAD ratio of the split marked by the bit set `drawn` over the sorted pool:
+    /// each group read out in sorted order, its median, then the median of the absolute
+    /// deviations by selection.
+    fn mad_from_mask(&self, drawn: &[u64]) -> f64 {
+        let n = self.pool.len();
+        let (mut d, mut o) = (Vec::with_capacity(self.k), Vec::with_capacity(n - self.k));
+        for (i, &v) in self.pool.iter().enumerate() {
+            if (drawn[i / 64] >> (i % 64)) & 1 == 1 {
+                d.push(v);
+            } else {
+                o.push(v);
+            }
+        }
+        let (m_d, m_o) = (mad_sorted(&d), mad_sorted(&o));
+        if self.drawn_is_first {
+            log_ratio(m_d, m_o)
+        } else {
+            log_ratio(m_o, m_d)
         }
     }
 
@@ -374,7 +408,7 @@ impl Setup {
             _ => s.stat_from_mask(&mask),
         };
         s.tolerance = match statistic {
-            Statistic::WelchT | Statistic::LogSdRatio => {
+            Statistic::WelchT | Statistic::LogSdRatio | Statistic::LogMadRatio => {
                 TIE_TOLERANCE * 1.0f64.max(s.observed.abs())
             }
             Statistic::KsDistance => 0.25 / (n1 as f64 * n2 as f64),
@@ -451,8 +485,10 @@ impl Setup {
     /// (trimmed mean), added from zero in rank order, the words' bit counts skipping whole
     /// words outside the ranks wanted.
     fn stat_from_mask(&self, drawn: &[u64]) -> f64 {
-        if self.statistic == Statistic::KsDistance {
-            return self.ks_from_mask(drawn);
+        match self.statistic {
+            Statistic::KsDistance => return self.ks_from_mask(drawn),
+            Statistic::LogMadRatio => return self.mad_from_mask(drawn),
+            _ => {}
         }
         let (n1, n2) = (self.n1, self.n2);
         let ((lo1, hi1), (lo2, hi2)) = match self.statistic {
@@ -706,37 +742,7 @@ impl Setup {
     }
 }
 
-/// Welch t from a difference in means and the squared standard error; a zero standard
-/// error gives 0 for no difference and an infinite t otherwise.
-pub fn welch_t_from(diff: f64, se2: f64) -> f64 {
-    if se2 > 0.0 {
-        diff / se2.sqrt()
-    } else if diff == 0.0 {
-        0.0
-    } else {
-        diff.signum() * f64::INFINITY
-    }
-}
-
 /// Direct (non-kernel) value of a statistic, for display and the bootstrap.
-/// The mid-ranks of `a` and of `b` among the pooled values (ties share the mean of their
-/// ranks).
-pub fn joint_ranks(a: &[f64], b: &[f64]) -> (Vec<f64>, Vec<f64>) {
-    let pooled: Vec<f64> = a.iter().chain(b).copied().collect();
-    let mut r = stats::ranks(&pooled);
-    let rb = r.split_off(a.len());
-    (r, rb)
-}
-
-/// The probability of superiority of `a` over `b`, P(X > Y) + P(X = Y)/2 for X from `a` and
-/// Y from `b` (the common-language effect size; the area under the ROC curve): the first
-/// group's Mann–Whitney U over n1·n2, from the mid-ranks.
-pub fn superiority(a: &[f64], b: &[f64]) -> f64 {
-    let (n1, n2) = (a.len() as f64, b.len() as f64);
-    let (ra, _) = joint_ranks(a, b);
-    (ra.iter().sum::<f64>() - n1 * (n1 + 1.0) / 2.0) / (n1 * n2)
-}
-
 pub fn statistic_value(statistic: Statistic, a: &[f64], b: &[f64]) -> f64 {
     match statistic {
         Statistic::RankSum => {
@@ -752,42 +758,8 @@ pub fn statistic_value(statistic: Statistic, a: &[f64], b: &[f64]) -> f64 {
         }
         Statistic::KsDistance => ks_distance(a, b),
         Statistic::LogSdRatio => log_sd_ratio_from(stats::variance(a), stats::variance(b)),
+        Statistic::LogMadRatio => log_ratio(mad(a), mad(b)),
     }
-}
-
-/// The log ratio of two SDs from the variances: 0 when both are 0, ±∞ when one is.
-pub fn log_sd_ratio_from(v1: f64, v2: f64) -> f64 {
-    match (v1 > 0.0, v2 > 0.0) {
-        (true, true) => 0.5 * (v1 / v2).ln(),
-        (false, false) => 0.0,
-        (true, false) => f64::INFINITY,
-        (false, true) => f64::NEG_INFINITY,
-    }
-}
-
-/// The two-sample Kolmogorov–Smirnov distance sup |F_a − F_b| (as scipy.stats.ks_2samp's
-/// statistic): both groups sorted and merged, the gap read after each run of equal values.
-pub fn ks_distance(a: &[f64], b: &[f64]) -> f64 {
-    let (sa, sb) = (stats::sorted(a), stats::sorted(b));
-    let (na, nb) = (a.len() as f64, b.len() as f64);
-    let (mut i, mut j) = (0, 0);
-    let mut gap = 0.0f64;
-    while i < sa.len() || j < sb.len() {
-        let v = match (sa.get(i), sb.get(j)) {
-            (Some(&x), Some(&y)) => x.min(y),
-            (Some(&x), None) => x,
-            (None, Some(&y)) => y,
-            (None, None) => break,
-        };
-        while i < sa.len() && sa[i] == v {
-            i += 1;
-        }
-        while j < sb.len() && sb[j] == v {
-            j += 1;
-        }
-        gap = gap.max((i as f64 / na - j as f64 / nb).abs());
-    }
-    gap
 }
 
 /// Runs random relabelling blocks `blocks` (a range of block indices) and merges them in

@@ -32,6 +32,7 @@ pub fn TwoGroupsOptions(fm: Form) -> impl IntoView {
                 (Statistic::RankSum, "ranks: Wilcoxon–Mann–Whitney (with the probability of superiority)"),
                 (Statistic::KsDistance, "whole distributions: Kolmogorov–Smirnov distance (two-sided only)"),
                 (Statistic::LogSdRatio, "spread: log ratio of the SDs (groups aligned at their medians)"),
+                (Statistic::LogMadRatio, "spread, robust to outliers: log ratio of the median absolute deviations"),
             ]/>
         </div>
         <div class="row" style:display=move || display(fm.design.get() == "two-groups", "flex")>

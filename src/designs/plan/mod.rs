@@ -110,9 +110,9 @@ fn check(req: &PlanRequest) -> Result<(Sim, ModelSummary, f64, f64), Error> {
     if !req.effect.is_finite() {
         return bad("The assumed effect must be a number.".into());
     }
-    if req.statistic == Statistic::LogSdRatio.key() {
+    if Statistic::from_key(&req.statistic).is_some_and(|s| s.on_spread()) {
         return bad(
-            "Plans simulate a shift between the groups; the log ratio of the SDs measures \
+            "Plans simulate a shift between the groups; a log ratio of spreads measures \
              spread, not a shift. Plan with a statistic of location."
                 .into(),
         );
