@@ -117,3 +117,33 @@ fn robustness_is_refused_for_spread() {
         err.message
     );
 }
+
+/// Relabellings whose groups have no spread give infinite log ratios; a report that keeps
+/// them (as the page asks, for its CSV download) and an infinite effect survive the JSON the
+/// worker sends to the page. (Found in the page: such a report could not be read.)
+#[test]
+fn infinite_ratios_survive_the_worker_message() {
+    use reshuffle::wire::{Report, WorkerMessage};
+    let mut r = TwoGroupsRequest::new("g,y\na,1\na,1\na,1\na,2\nb,1\nb,3\nb,4\nb,6\n".into(), 3);
+    r.statistic = Statistic::LogMadRatio;
+    r.settings.keep_resamples = true;
+    r.settings.bootstrap_resamples = 500;
+    let rep = run(&r, &mut |_| true).unwrap();
+    assert_eq!(rep.effect, f64::NEG_INFINITY, "group a has a MAD of 0");
+    let kept = rep.null_values.as_ref().unwrap();
+    assert!(kept.iter().any(|v| v.is_infinite()));
+    let msg = WorkerMessage::Done {
+        report: Box::new(Report::TwoGroups(rep.clone())),
+    };
+    let text = serde_json::to_string(&msg).unwrap();
+    match serde_json::from_str::<WorkerMessage>(&text).expect("the page can read it") {
+        WorkerMessage::Done { report } => match *report {
+            Report::TwoGroups(back) => {
+                assert_eq!(back.null_values, rep.null_values);
+                assert_eq!(back.effect, rep.effect);
+            }
+            _ => panic!("another design"),
+        },
+        _ => panic!("another message"),
+    }
+}

@@ -56,3 +56,22 @@ pub mod float_opt {
         Ok(Option::<W>::deserialize(d)?.map(|w| w.0))
     }
 }
+
+/// [`float`] for an optional list of numbers (a run's kept statistics, which may include
+/// infinite ones; None stays `null`).
+pub mod float_vec_opt {
+    use serde::{Deserialize, Deserializer, Serialize, Serializer};
+
+    #[derive(Serialize, Deserialize)]
+    struct W(#[serde(with = "super::float")] f64);
+
+    pub fn serialize<S: Serializer>(v: &Option<Vec<f64>>, s: S) -> Result<S::Ok, S::Error> {
+        v.as_ref()
+            .map(|xs| xs.iter().map(|&x| W(x)).collect::<Vec<W>>())
+            .serialize(s)
+    }
+
+    pub fn deserialize<'de, D: Deserializer<'de>>(d: D) -> Result<Option<Vec<f64>>, D::Error> {
+        Ok(Option::<Vec<W>>::deserialize(d)?.map(|ws| ws.into_iter().map(|w| w.0).collect()))
+    }
+}

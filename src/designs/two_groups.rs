@@ -92,7 +92,8 @@ pub struct TwoGroupsReport {
     #[serde(flatten)]
     pub test: TestOutcome,
     /// The effect the interval is for (the statistic's effect: a Welch t gives the
-    /// difference in means), first minus second.
+    /// difference in means), first minus second; a log ratio of spreads may be infinite.
+    #[serde(with = "crate::base::floats::float")]
     pub effect: f64,
     /// The headline interval.
     pub ci: Interval,
@@ -125,11 +126,19 @@ pub struct TwoGroupsReport {
     pub robustness: Option<Robustness>,
     /// What to keep in mind when reading the result.
     pub cautions: Vec<Caution>,
-    /// Every relabelled statistic, in order (only when asked for).
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    /// Every relabelled statistic, in order (only when asked for); infinite ones as "inf".
+    #[serde(
+        default,
+        skip_serializing_if = "Option::is_none",
+        with = "crate::base::floats::float_vec_opt"
+    )]
     pub null_values: Option<Vec<f64>>,
-    /// Every bootstrap effect, in order (only when asked for).
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    /// Every bootstrap effect, in order (only when asked for); infinite ones as "inf".
+    #[serde(
+        default,
+        skip_serializing_if = "Option::is_none",
+        with = "crate::base::floats::float_vec_opt"
+    )]
     pub bootstrap_values: Option<Vec<f64>>,
 }
 
@@ -587,7 +596,12 @@ fn two_group_report(
     if infinite > 0 {
         notes.push(Note::InfiniteStatistics {
             count: infinite as u64,
-            cause: InfiniteCause::IdenticalValues,
+            // A ratio of spreads is infinite when a group has none; a t when both have none.
+            cause: if st.on_spread() {
+                InfiniteCause::NoSpreadInAGroup
+            } else {
+                InfiniteCause::IdenticalValues
+            },
         });
     }
     super::few_resamples_note(set, &mut notes);
