@@ -831,6 +831,13 @@ test("the rank-sum statistic in the page: the native command's numbers, with the
   await page.waitForFunction((f) => document.querySelector("#finding")?.textContent === f, sd.finding, { timeout: 60000 });
   assert.match(sd.finding, /times that in sprinkler/);
   assert.equal(await num(page, "data-ci-high"), sd.ci.high);
+  // The MAD ratio: its kept relabellings may be infinite, and the page must still read the
+  // worker's report (it once could not).
+  const mad = nativeRun(["analyze", "demo-data/tomato-irrigation.csv", "--statistic", "log-mad-ratio", "--seed", "808"]);
+  await page.selectOption("#statistic", "log-mad-ratio");
+  await page.click("#run");
+  await page.waitForFunction((f) => document.querySelector("#finding")?.textContent === f, mad.finding, { timeout: 60000 });
+  assert.equal(await num(page, "data-p-value"), mad.p_value);
   assert.deepEqual(errors, []);
   await page.close();
 });
