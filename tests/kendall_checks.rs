@@ -10,16 +10,11 @@ use reshuffle::base::*;
 use reshuffle::designs::association::{run, AssocReport, AssocRequest, AssocStatistic};
 use serde_json::Value;
 
-fn expected() -> Value {
-    let p = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/reference/expected_kendall.json"
-    );
-    serde_json::from_str(&std::fs::read_to_string(p).unwrap()).unwrap()
-}
+mod common;
+use common::close;
 
-fn close(got: f64, want: f64, tol: f64, what: &str) {
-    assert!((got - want).abs() <= tol, "{what}: {got} vs {want}");
+fn expected() -> Value {
+    common::reference("expected_kendall.json")
 }
 
 /// The case's x and y as a two-column table, analysed with Kendall's tau-b.

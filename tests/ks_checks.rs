@@ -7,34 +7,19 @@
 
 use reshuffle::base::*;
 use reshuffle::designs::two_groups::{run, Statistic, TwoGroupsReport, TwoGroupsRequest};
-use reshuffle::input::columns::Layout;
 use serde_json::Value;
 
+mod common;
+use common::close;
+
 fn expected() -> Value {
-    let p = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/reference/expected_ks.json"
-    );
-    serde_json::from_str(&std::fs::read_to_string(p).unwrap()).unwrap()
+    common::reference("expected_ks.json")
 }
 
 fn analyse(c: &Value, f: impl Fn(&mut TwoGroupsRequest)) -> TwoGroupsReport {
-    let file = c["file"].as_str().unwrap();
-    let p = format!("{}/tests/reference/data/{file}", env!("CARGO_MANIFEST_DIR"));
-    let mut r = TwoGroupsRequest::new(std::fs::read_to_string(p).unwrap(), 23);
-    r.layout = Layout::Long {
-        value: c["value"].as_str().unwrap().into(),
-        group: c["group"].as_str().unwrap().into(),
-    };
-    r.first = Some(c["first"].as_str().unwrap().into());
-    r.second = Some(c["second"].as_str().unwrap().into());
-    r.statistic = Statistic::KsDistance;
+    let mut r = common::two_groups(c, Statistic::KsDistance, 23);
     f(&mut r);
     run(&r, &mut |_| true).expect("runs")
-}
-
-fn close(got: f64, want: f64, tol: f64, what: &str) {
-    assert!((got - want).abs() <= tol, "{what}: {got} vs {want}");
 }
 
 #[test]
@@ -75,18 +60,7 @@ fn distance_intervals_agree_with_scipy_bootstrap() {
         let r = analyse(c, |r| {
             r.settings.intervals = vec![IntervalMethod::Bca, IntervalMethod::Percentile];
         });
-        for iv in &r.intervals {
-            let key = if iv.method == Method::Bca {
-                "BCa"
-            } else {
-                "percentile"
-            };
-            for (end, got) in [("low", iv.low.unwrap()), ("high", iv.high.unwrap())] {
-                let mean = c[format!("{key}_{end}_mean")].as_f64().unwrap();
-                let sd = c[format!("{key}_{end}_sd")].as_f64().unwrap();
-                close(got, mean, 4.5 * sd + 0.1, &format!("{name} {key} {end}"));
-            }
-        }
+        common::bounds_agree(name, c, &r.intervals, 0.1);
     }
 }
 
@@ -95,9 +69,7 @@ fn distance_intervals_agree_with_scipy_bootstrap() {
 fn one_sided_distance_is_refused() {
     let e = expected();
     let c = &e["cases"]["sleep"];
-    let file = c["file"].as_str().unwrap();
-    let p = format!("{}/tests/reference/data/{file}", env!("CARGO_MANIFEST_DIR"));
-    let mut r = TwoGroupsRequest::new(std::fs::read_to_string(p).unwrap(), 1);
+    let mut r = TwoGroupsRequest::new(common::data(c["file"].as_str().unwrap()), 1);
     r.statistic = Statistic::KsDistance;
     r.settings.alternative = Alternative::Less;
     let err = run(&r, &mut |_| true).unwrap_err();

@@ -7,16 +7,14 @@
 //! bounds against scipy.stats.bootstrap's over 30 seeds.
 
 use reshuffle::base::{Alternative, IntervalMethod, Note, TwoSidedRule};
-use reshuffle::designs::two_groups::{run, Statistic, TwoGroupsReport, TwoGroupsRequest};
-use reshuffle::input::columns::Layout;
+use reshuffle::designs::two_groups::{run, Statistic, TwoGroupsReport};
 use serde_json::Value;
 
+mod common;
+use common::close;
+
 fn expected() -> Value {
-    let path = format!(
-        "{}/tests/reference/expected_ranks.json",
-        env!("CARGO_MANIFEST_DIR")
-    );
-    serde_json::from_str(&std::fs::read_to_string(path).unwrap()).unwrap()
+    common::reference("expected_ranks.json")
 }
 
 fn analyse(
@@ -25,20 +23,7 @@ fn analyse(
     rule: TwoSidedRule,
     exact: bool,
 ) -> TwoGroupsReport {
-    let file = c["file"].as_str().unwrap();
-    let data = std::fs::read_to_string(format!(
-        "{}/tests/reference/data/{file}",
-        env!("CARGO_MANIFEST_DIR")
-    ))
-    .unwrap();
-    let mut r = TwoGroupsRequest::new(data, 17);
-    r.layout = Layout::Long {
-        value: c["value"].as_str().unwrap().into(),
-        group: c["group"].as_str().unwrap().into(),
-    };
-    r.first = Some(c["first"].as_str().unwrap().into());
-    r.second = Some(c["second"].as_str().unwrap().into());
-    r.statistic = Statistic::RankSum;
+    let mut r = common::two_groups(c, Statistic::RankSum, 17);
     r.settings.alternative = alternative;
     r.settings.two_sided = rule;
     r.settings.intervals = vec![IntervalMethod::Bca, IntervalMethod::Percentile];
@@ -47,10 +32,6 @@ fn analyse(
         r.settings.resamples = 100_000;
     }
     run(&r, &mut |_| true).expect("runs")
-}
-
-fn close(got: f64, want: f64, tol: f64, what: &str) {
-    assert!((got - want).abs() <= tol, "{what}: {got} vs {want}");
 }
 
 /// Exact p-values equal scipy's enumeration (and its exact rank-sum test without ties), for
@@ -140,17 +121,7 @@ fn superiority_intervals_agree_with_scipy_bootstrap() {
     let e = expected();
     for (name, c) in e["cases"].as_object().unwrap() {
         let r = analyse(c, Alternative::TwoSided, TwoSidedRule::Absolute, true);
-        for iv in &r.intervals {
-            let key = match iv.method {
-                reshuffle::base::Method::Bca => "BCa",
-                _ => "percentile",
-            };
-            for (end, got) in [("low", iv.low.unwrap()), ("high", iv.high.unwrap())] {
-                let mean = c[format!("{key}_{end}_mean")].as_f64().unwrap();
-                let sd = c[format!("{key}_{end}_sd")].as_f64().unwrap();
-                close(got, mean, 4.5 * sd + 0.01, &format!("{name} {key} {end}"));
-            }
-        }
+        common::bounds_agree(name, c, &r.intervals, 0.01);
     }
 }
 

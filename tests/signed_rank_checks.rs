@@ -13,20 +13,11 @@ use reshuffle::designs::paired::{
 };
 use serde_json::Value;
 
-fn expected() -> Value {
-    let p = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/reference/expected_signed.json"
-    );
-    serde_json::from_str(&std::fs::read_to_string(p).unwrap()).unwrap()
-}
+mod common;
+use common::{close, data};
 
-fn data(file: &str) -> String {
-    std::fs::read_to_string(format!(
-        "{}/tests/reference/data/{file}",
-        env!("CARGO_MANIFEST_DIR")
-    ))
-    .unwrap()
+fn expected() -> Value {
+    common::reference("expected_signed.json")
 }
 
 /// The case's analysis with the signed-rank statistic (exact, or random patterns).
@@ -39,10 +30,6 @@ fn analyse(name: &str, alt: Alternative, rule: TwoSidedRule, exact: bool) -> Sig
         set.resamples = 100_000;
     }
     run_case(name, set)
-}
-
-fn close(got: f64, want: f64, tol: f64, what: &str) {
-    assert!((got - want).abs() <= tol, "{what}: {got} vs {want}");
 }
 
 /// Exact p-values equal scipy's enumeration for every alternative (the two-sided one by
