@@ -300,16 +300,25 @@ impl Setup {
     /// each group read out in sorted order, its median, then the median of the absolute
     /// deviations by selection.
     fn mad_from_mask(&self, drawn: &[u64]) -> f64 {
-        let n = self.pool.len();
-        let (mut d, mut o) = (Vec::with_capacity(self.k), Vec::with_capacity(n - self.k));
-        for (i, &v) in self.pool.iter().enumerate() {
-            if (drawn[i / 64] >> (i % 64)) & 1 == 1 {
-                d.push(v);
-            } else {
-                o.push(v);
-            }
+        // The two groups are read into buffers kept per thread, so a relabelling allocates
+        // nothing once they have grown.
+        thread_local! {
+            static GROUPS: std::cell::RefCell<(Vec<f64>, Vec<f64>)> =
+                const { std::cell::RefCell::new((Vec::new(), Vec::new())) };
         }
-        let (m_d, m_o) = (mad_sorted(&d), mad_sorted(&o));
+        let (m_d, m_o) = GROUPS.with(|g| {
+            let (d, o) = &mut *g.borrow_mut();
+            d.clear();
+            o.clear();
+            for (i, &v) in self.pool.iter().enumerate() {
+                if (drawn[i / 64] >> (i % 64)) & 1 == 1 {
+                    d.push(v);
+                } else {
+                    o.push(v);
+                }
+            }
+            (mad_sorted(d), mad_sorted(o))
+        });
         if self.drawn_is_first {
             log_ratio(m_d, m_o)
         } else {
