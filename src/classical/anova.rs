@@ -115,17 +115,7 @@ pub fn kruskal_wallis(groups: &[Vec<f64>]) -> ChiSquareTest {
     let h = 12.0 / (n * (n + 1.0)) * sum - 3.0 * (n + 1.0);
     let mut sorted = pooled;
     sorted.sort_by(f64::total_cmp);
-    let mut ties = 0.0;
-    let mut i = 0;
-    while i < sorted.len() {
-        let mut j = i;
-        while j + 1 < sorted.len() && sorted[j + 1] == sorted[i] {
-            j += 1;
-        }
-        let t = (j - i + 1) as f64;
-        ties += t * t * t - t;
-        i = j + 1;
-    }
+    let ties = crate::num::stats::tie_cubes(&sorted);
     let c = 1.0 - ties / (n * n * n - n);
     let df = groups.len() as f64 - 1.0;
     if c <= 0.0 {

@@ -161,17 +161,7 @@ pub fn rank_sum(a: &[f64], b: &[f64], alternative: Alternative) -> RankSum {
     let u2 = n1 * n2 - u1;
     let mut sorted = pooled.clone();
     sorted.sort_by(f64::total_cmp);
-    let mut tie_sum = 0.0;
-    let mut i = 0;
-    while i < sorted.len() {
-        let mut j = i;
-        while j + 1 < sorted.len() && sorted[j + 1] == sorted[i] {
-            j += 1;
-        }
-        let t = (j - i + 1) as f64;
-        tie_sum += t * t * t - t;
-        i = j + 1;
-    }
+    let tie_sum = crate::num::stats::tie_cubes(&sorted);
     let mu = n1 * n2 / 2.0;
     let var = n1 * n2 / 12.0 * ((n + 1.0) - tie_sum / (n * (n - 1.0)));
     let sd = var.max(0.0).sqrt();

@@ -178,7 +178,10 @@ pub fn run(req: &AssocRequest, progress: ProgressFn) -> Result<AssocReport, Erro
     };
     let kernel = Kernel::new(linear, &x, &y);
     let (observed, tol) = match &kendall {
-        Some(k) => (kendall::tau_b(&x, &y), k.tolerance()),
+        Some(k) => (
+            k.tau_of(&y, &mut vec![0.0; n], &mut vec![0.0; n]),
+            k.tolerance(),
+        ),
         None => (
             kernel
                 .a

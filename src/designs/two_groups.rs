@@ -409,21 +409,13 @@ fn streaming_bootstrap(
 /// How many of the pooled values share their value with another, and in how many groups
 /// (none when no two are equal).
 fn tied_values(a: &[f64], b: &[f64]) -> Option<(usize, usize)> {
-    let mut v: Vec<f64> = a.iter().chain(b).copied().collect();
-    v.sort_by(f64::total_cmp);
-    let (mut values, mut groups, mut i) = (0, 0, 0);
-    while i < v.len() {
-        let mut j = i;
-        while j + 1 < v.len() && v[j + 1] == v[i] {
-            j += 1;
-        }
-        if j > i {
-            values += j - i + 1;
-            groups += 1;
-        }
-        i = j + 1;
-    }
-    (values > 0).then_some((values, groups))
+    let pooled: Vec<f64> = a.iter().chain(b).copied().collect();
+    let tied: Vec<usize> = stats::tie_sizes(&stats::sorted(&pooled))
+        .into_iter()
+        .filter(|&t| t > 1)
+        .collect();
+    let values: usize = tied.iter().sum();
+    (values > 0).then_some((values, tied.len()))
 }
 
 fn two_group_report(

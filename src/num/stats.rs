@@ -102,6 +102,31 @@ pub fn sorted(x: &[f64]) -> Vec<f64> {
 }
 
 /// Median of already sorted data (mean of the two middle values for even n).
+/// The sizes of the runs of equal values in a sorted list, in order (1 for a value that
+/// no other shares): what tie corrections sum over.
+pub fn tie_sizes(sorted: &[f64]) -> Vec<usize> {
+    let mut out = Vec::new();
+    let mut i = 0;
+    while i < sorted.len() {
+        let mut j = i + 1;
+        while j < sorted.len() && sorted[j] == sorted[i] {
+            j += 1;
+        }
+        out.push(j - i);
+        i = j;
+    }
+    out
+}
+
+/// Σ (t³ − t) over the runs of equal values of a sorted list (the tie correction of rank
+/// tests), summed in order from zero.
+pub fn tie_cubes(sorted: &[f64]) -> f64 {
+    tie_sizes(sorted).into_iter().fold(0.0, |acc, t| {
+        let t = t as f64;
+        acc + (t * t * t - t)
+    })
+}
+
 pub fn median_sorted(s: &[f64]) -> f64 {
     let n = s.len();
     if n == 0 {

@@ -8,23 +8,16 @@
 //! Re-pairing keeps n1 and n2, so S is the statistic; it is a whole number, so ties with the
 //! observed value are exact.
 
+use crate::num::stats;
 use crate::resample::rng::Stream;
 use crate::resample::tally::Counts;
 
 /// Pairs within runs of equal values of a sorted list: Σ t(t − 1)/2.
 fn tied_pairs(sorted: &[f64]) -> f64 {
-    let mut total = 0.0;
-    let mut i = 0;
-    while i < sorted.len() {
-        let mut j = i + 1;
-        while j < sorted.len() && sorted[j] == sorted[i] {
-            j += 1;
-        }
-        let t = (j - i) as f64;
-        total += t * (t - 1.0) / 2.0;
-        i = j;
-    }
-    total
+    stats::tie_sizes(sorted).into_iter().fold(0.0, |acc, t| {
+        let t = t as f64;
+        acc + t * (t - 1.0) / 2.0
+    })
 }
 
 /// Strict inversions (i < j with v[i] > v[j]) of `v`, which it sorts; `buf` as long as `v`.
@@ -223,20 +216,11 @@ pub fn normal_z(x: &[f64], y: &[f64]) -> (f64, f64) {
     let n = x.len() as f64;
     let k = Kendall::new(x, y);
     let s = k.s_of(y, &mut vec![0.0; x.len()], &mut vec![0.0; x.len()]);
-    let runs = |v: &[f64]| {
-        let mut v = v.to_vec();
-        v.sort_by(f64::total_cmp);
-        let mut out = Vec::new();
-        let mut i = 0;
-        while i < v.len() {
-            let mut j = i + 1;
-            while j < v.len() && v[j] == v[i] {
-                j += 1;
-            }
-            out.push((j - i) as f64);
-            i = j;
-        }
-        out
+    let runs = |v: &[f64]| -> Vec<f64> {
+        stats::tie_sizes(&stats::sorted(v))
+            .into_iter()
+            .map(|t| t as f64)
+            .collect()
     };
     let (tx, ty) = (runs(x), runs(y));
     let sum = |t: &[f64], f: &dyn Fn(f64) -> f64| t.iter().map(|&v| f(v)).sum::<f64>();
